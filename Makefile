@@ -1,0 +1,71 @@
+# Reticle: two set-up commands, `make run` and `make test`.
+#
+# `make run` installs the system libraries the desktop program needs when
+# they are missing (Debian or Ubuntu: apt-get, with sudo when not root;
+# elsewhere it prints what to install), builds, and runs the program on the
+# bundled demo scan. `make test` checks formatting, vets and runs every test,
+# including the seed corpus of every fuzz target.
+
+GO        ?= go
+DEMO      := assets/demo/kiln-trial-07.xy
+BIN       := bin
+# Debian/Ubuntu packages that Fyne's OpenGL driver builds against.
+SYSTEM_PKGS := gcc pkg-config libgl1-mesa-dev xorg-dev
+FUZZTIME  ?= 10s
+
+.PHONY: run test build deps fmt-check vet unit fuzz-seeds fuzz bench bench-score clean
+
+run: deps build
+	$(BIN)/reticle peaks --wavelength Cu $(DEMO)
+
+build:
+	$(GO) build -o $(BIN)/reticle ./cmd/reticle
+
+test: fmt-check vet unit fuzz-seeds
+
+fmt-check:
+	@out=$$(gofmt -l $$(git ls-files '*.go' 2>/dev/null || find . -name '*.go')); \
+	if [ -n "$$out" ]; then echo "gofmt needed on:"; echo "$$out"; exit 1; fi
+
+vet:
+	$(GO) vet ./...
+
+unit:
+	$(GO) test -count=1 ./...
+
+# The seed corpus of every fuzz target, run on its own so the log shows it.
+fuzz-seeds:
+	$(GO) test -count=1 -run '^Fuzz' ./...
+
+# Real fuzzing, FUZZTIME per target: make fuzz FUZZTIME=1m
+fuzz:
+	@for pkg in $$($(GO) list ./...); do \
+	  for f in $$($(GO) test -list '^Fuzz' $$pkg | grep '^Fuzz'); do \
+	    echo "== $$pkg $$f"; $(GO) test -run '^$$' -fuzz "^$$f$$" -fuzztime $(FUZZTIME) $$pkg || exit 1; \
+	  done; \
+	done
+
+bench:
+	$(GO) test -run '^$$' -bench . -benchmem ./...
+
+# Public benchmark scores (needs ../shared/bench and python3).
+bench-score: build
+	python3 ../shared/bench/peakscore.py --cmd '$(BIN)/reticle peaks --json' --data ../shared/bench/public
+
+deps:
+	@missing=""; \
+	if command -v dpkg-query >/dev/null 2>&1; then \
+	  for p in $(SYSTEM_PKGS); do \
+	    dpkg-query -W -f='$${Status}' $$p 2>/dev/null | grep -q 'install ok installed' || missing="$$missing $$p"; \
+	  done; \
+	  if [ -n "$$missing" ]; then \
+	    echo "installing:$$missing"; \
+	    if [ "$$(id -u)" = 0 ]; then SUDO=""; else SUDO=sudo; fi; \
+	    $$SUDO apt-get update -qq && DEBIAN_FRONTEND=noninteractive $$SUDO apt-get install -y -qq $$missing; \
+	  fi; \
+	else \
+	  echo "not a Debian or Ubuntu system: install a C compiler, pkg-config and the OpenGL and X11 development headers (Fyne's requirements) yourself"; \
+	fi
+
+clean:
+	rm -rf $(BIN)
