@@ -1,0 +1,35 @@
+package peaks
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+)
+
+// FormatESD prints a value with its standard uncertainty in crystallographic
+// notation: the uncertainty in units of the last digit, in parentheses,
+// rounded to one or two significant digits (two when they begin with 1, as
+// is common practice), e.g. 5.64021(7), 28.4421(13). A zero, negative or
+// non-finite uncertainty prints the value alone.
+func FormatESD(v, u float64) string {
+	if !(u > 0) || math.IsInf(u, 0) || math.IsNaN(v) {
+		return strconv.FormatFloat(v, 'f', -1, 64)
+	}
+	e := int(math.Floor(math.Log10(u)))
+	digits := math.Round(u / math.Pow(10, float64(e)))
+	if digits >= 10 {
+		e++
+		digits = math.Round(u / math.Pow(10, float64(e)))
+	}
+	if digits < 2 {
+		// Leading 1: keep two digits.
+		e--
+		digits = math.Round(u / math.Pow(10, float64(e)))
+	}
+	if e >= 0 {
+		// Uncertainty at or above the units: print integers.
+		scale := math.Pow(10, float64(e))
+		return fmt.Sprintf("%.0f(%.0f)", math.Round(v/scale)*scale, digits*scale)
+	}
+	return fmt.Sprintf("%.*f(%.0f)", -e, v, digits)
+}
