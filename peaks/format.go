@@ -15,15 +15,16 @@ func FormatESD(v, u float64) string {
 	if !(u > 0) || math.IsInf(u, 0) || math.IsNaN(v) {
 		return strconv.FormatFloat(v, 'f', -1, 64)
 	}
-	e := int(math.Floor(math.Log10(u)))
+	// Exponent of the last digit kept: two significant digits when the
+	// uncertainty rounds to 10–19 in them, one otherwise.
+	e := int(math.Floor(math.Log10(u))) - 1
 	digits := math.Round(u / math.Pow(10, float64(e)))
-	if digits >= 10 {
+	if digits >= 100 {
 		e++
 		digits = math.Round(u / math.Pow(10, float64(e)))
 	}
-	if digits < 2 {
-		// Leading 1: keep two digits.
-		e--
+	if digits >= 20 {
+		e++
 		digits = math.Round(u / math.Pow(10, float64(e)))
 	}
 	if e >= 0 {

@@ -1,0 +1,49 @@
+// Command reticle is the headless twin of the Reticle desktop program: it
+// runs the same analysis on scan files from the command line, for batches
+// and scripts.
+//
+// Usage:
+//
+//	reticle peaks [--wavelength W] [--json] FILE...
+//
+// W is an anode symbol (Cu, Co, Cr, Fe, Mo, Ag: the K-alpha doublet), an
+// anode with Ka1 (CuKa1: K-alpha1 alone) or a wavelength in Å (one line).
+// The default is the wavelength stated in the file, or else Cu.
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+)
+
+func main() {
+	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
+}
+
+const usage = `reticle: powder diffraction scans from the command line
+
+usage:
+  reticle peaks [--wavelength W] [--json] FILE...   find and fit the peaks of each scan
+
+W is an anode (Cu, Co, Cr, Fe, Mo, Ag: K-alpha1/K-alpha2 doublet), an anode
+with Ka1 (CuKa1: K-alpha1 only) or a wavelength in angstrom (one line).
+Without --wavelength the file's stated wavelength is used, or else Cu.
+`
+
+// run executes one command line and returns the process exit status.
+func run(args []string, stdout, stderr io.Writer) int {
+	if len(args) == 0 {
+		fmt.Fprint(stderr, usage)
+		return 2
+	}
+	switch args[0] {
+	case "peaks":
+		return cmdPeaks(args[1:], stdout, stderr)
+	case "help", "-h", "--help":
+		fmt.Fprint(stdout, usage)
+		return 0
+	}
+	fmt.Fprintf(stderr, "reticle: unknown command %q\n\n%s", args[0], usage)
+	return 2
+}

@@ -1,0 +1,145 @@
+package main
+
+import (
+	"context"
+	"encoding/json"
+	"flag"
+	"fmt"
+	"io"
+	"text/tabwriter"
+
+	"reticle/peaks"
+)
+
+// peakJSON is one peak in the --json document.
+type peakJSON struct {
+	TwoTheta    float64 `json:"two_theta"`
+	TwoThetaESD float64 `json:"two_theta_esd"`
+	D           float64 `json:"d"`
+	DESD        float64 `json:"d_esd"`
+	Height      float64 `json:"height"`
+	HeightESD   float64 `json:"height_esd"`
+	Area        float64 `json:"area"`
+	AreaESD     float64 `json:"area_esd"`
+	FWHM        float64 `json:"fwhm"`
+	FWHMESD     float64 `json:"fwhm_esd"`
+	Eta         float64 `json:"eta"`
+	Background  float64 `json:"background"`
+	SNR         float64 `json:"snr"`
+	Flags       string  `json:"flags,omitempty"`
+	CompanionOf *int    `json:"companion_of,omitempty"`
+}
+
+// scanJSON is the --json document for one scan.
+type scanJSON struct {
+	File       string     `json:"file"`
+	SHA256     string     `json:"sha256"`
+	Points     int        `json:"points"`
+	Range      [2]float64 `json:"range_two_theta"`
+	Step       float64    `json:"step"`
+	Radiation  string     `json:"radiation"`
+	Wavelength float64    `json:"wavelength"`
+	Warnings   []string   `json:"warnings,omitempty"`
+	Peaks      []peakJSON `json:"peaks"`
+}
+
+func cmdPeaks(args []string, stdout, stderr io.Writer) int {
+	fs := flag.NewFlagSet("peaks", flag.ContinueOnError)
+	fs.SetOutput(stderr)
+	wl := fs.String("wavelength", "", "anode symbol (K-alpha doublet), anode+Ka1, or wavelength in Å")
+	asJSON := fs.Bool("json", false, "print a JSON document instead of a table")
+	if err := fs.Parse(args); err != nil {
+		return 2
+	}
+	if fs.NArg() == 0 {
+		fmt.Fprintln(stderr, "reticle peaks: no scan file given")
+		return 2
+	}
+	var opt peaks.Options
+	if *wl != "" {
+		r, err := peaks.ParseRadiation(*wl)
+		if err != nil {
+			fmt.Fprintf(stderr, "reticle peaks: --wavelength: %v\n", err)
+			return 2
+		}
+		opt.Radiation = r
+	}
+	var docs []scanJSON
+	status := 0
+	for _, path := range fs.Args() {
+		s, err := peaks.ReadFile(path)
+		if err != nil {
+			fmt.Fprintf(stderr, "reticle peaks: %v\n", err)
+			status = 1
+			continue
+		}
+		res, err := peaks.Extract(context.Background(), s, opt, nil)
+		if err != nil {
+			fmt.Fprintf(stderr, "reticle peaks: %s: %v\n", path, err)
+			status = 1
+			continue
+		}
+		doc := toJSON(s, res)
+		if *asJSON {
+			docs = append(docs, doc)
+		} else {
+			printTable(stdout, doc)
+		}
+	}
+	if *asJSON {
+		enc := json.NewEncoder(stdout)
+		enc.SetIndent("", " ")
+		var err error
+		if len(docs) == 1 {
+			err = enc.Encode(docs[0])
+		} else {
+			err = enc.Encode(struct {
+				Scans []scanJSON `json:"scans"`
+			}{docs})
+		}
+		if err != nil {
+			fmt.Fprintf(stderr, "reticle peaks: %v\n", err)
+			return 1
+		}
+	}
+	return status
+}
+
+func toJSON(s *peaks.Scan, res *peaks.Result) scanJSON {
+	lo, hi := s.Range()
+	doc := scanJSON{
+		File: s.Path, SHA256: s.SHA256, Points: s.Len(), Range: [2]float64{lo, hi}, Step: s.Step(),
+		Radiation: res.Radiation.Name, Wavelength: res.Radiation.Lambda1, Warnings: s.Warnings,
+		Peaks: []peakJSON{},
+	}
+	for _, p := range res.Peaks {
+		j := peakJSON{
+			TwoTheta: p.TwoTheta, TwoThetaESD: p.TwoThetaESD, D: p.D, DESD: p.DESD,
+			Height: p.Height, HeightESD: p.HeightESD, Area: p.Area, AreaESD: p.AreaESD,
+			FWHM: p.FWHM, FWHMESD: p.FWHMESD, Eta: p.Eta, Background: p.Background, SNR: p.SNR,
+			Flags: p.Flags.String(),
+		}
+		if p.Parent >= 0 {
+			parent := p.Parent
+			j.CompanionOf = &parent
+		}
+		doc.Peaks = append(doc.Peaks, j)
+	}
+	return doc
+}
+
+func printTable(w io.Writer, d scanJSON) {
+	fmt.Fprintf(w, "%s  %d points, %.3f–%.3f° 2θ, step %.4f°, %s\n", d.File, d.Points, d.Range[0], d.Range[1], d.Step, d.Radiation)
+	for _, m := range d.Warnings {
+		fmt.Fprintf(w, "warning: %s\n", m)
+	}
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintln(tw, "#\t2θ (°)\td (Å)\theight\tFWHM (°)\tη\tS/N\tflags\t")
+	for i, p := range d.Peaks {
+		fmt.Fprintf(tw, "%d\t%s\t%s\t%.0f\t%.4f\t%.2f\t%.0f\t%s\t\n", i+1,
+			peaks.FormatESD(p.TwoTheta, p.TwoThetaESD), peaks.FormatESD(p.D, p.DESD),
+			p.Height, p.FWHM, p.Eta, p.SNR, p.Flags)
+	}
+	tw.Flush()
+	fmt.Fprintln(w)
+}

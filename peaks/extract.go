@@ -1,0 +1,421 @@
+package peaks
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"sort"
+)
+
+// Options control peak extraction. The zero value of every field means
+// its documented default.
+type Options struct {
+	// Radiation is the incident spectrum. Zero means the scan's stated
+	// wavelength as a single line, or else the Cu K-alpha doublet.
+	Radiation Radiation
+	// BackgroundWidth is the SNIP clipping window in degrees 2θ. Zero
+	// means 1.5°.
+	BackgroundWidth float64
+	// Threshold is the significance, in standard deviations of the
+	// fitted height, that a peak must reach to be reported. Zero means
+	// 4.5: on the simulated scans of the tests (80° of 2θ, about 800
+	// peak widths) about 1 false peak per 100 scans passes it; 4 lets
+	// about 6 through.
+	Threshold float64
+	// DetectThreshold is the significance of a maximum of the smoothed
+	// net counts that makes it a candidate for fitting. Zero means 3.
+	DetectThreshold float64
+	// FreeShapeSNR is the detection significance above which a peak's
+	// FWHM and mixing are refined; weaker peaks take them from the width
+	// curve of the strong ones. Zero means 15.
+	FreeShapeSNR float64
+}
+
+func (o Options) withDefaults(s *Scan) Options {
+	if o.Radiation.Lambda1 == 0 {
+		if s.Wavelength > 0 {
+			o.Radiation = SingleLine(s.Wavelength)
+		} else {
+			a, _ := LookupAnode("Cu")
+			o.Radiation = AnodeRadiation(a)
+		}
+	}
+	if o.BackgroundWidth == 0 {
+		o.BackgroundWidth = 1.5
+	}
+	if o.Threshold == 0 {
+		o.Threshold = 4.5
+	}
+	if o.DetectThreshold == 0 {
+		o.DetectThreshold = 3
+	}
+	if o.FreeShapeSNR == 0 {
+		o.FreeShapeSNR = 15
+	}
+	return o
+}
+
+// Result is the outcome of Extract.
+type Result struct {
+	Peaks      []Peak    // sorted by 2θ
+	Radiation  Radiation // the radiation the peaks were fitted with
+	Background []float64 // background under every point of the scan, counts
+	Profile    []float64 // background plus all fitted profiles at every point
+	FWHMCurve  Caglioti  // width curve of the well-determined peaks
+	Eta        float64   // median mixing of the well-determined peaks
+	Warnings   []string
+}
+
+// Progress reports that done of total units of work are finished.
+type Progress func(done, total int)
+
+// Extract finds and fits the peaks of a scan. It can be cancelled through
+// ctx and reports progress (groups fitted) through progress, which may be
+// nil.
+func Extract(ctx context.Context, s *Scan, opt Options, progress Progress) (*Result, error) {
+	if s.Len() < MinPoints {
+		return nil, fmt.Errorf("peaks: scan %s: %w", s.Path, ErrTooFew)
+	}
+	o := opt.withDefaults(s)
+	if o.Radiation.Lambda1 < 0.1 || o.Radiation.Lambda1 > 5 {
+		return nil, fmt.Errorf("peaks: wavelength %g Å: %w", o.Radiation.Lambda1, ErrUnknownLine)
+	}
+	x, y := s.TwoTheta, s.Intensity
+	n := len(x)
+	// Counting noise: the esd column when the file has one, otherwise
+	// √counts taken from a five-point average so that a low reading does
+	// not get an undue weight (the bias of weighting by the observed
+	// counts); the last pass weights by the fitted model instead.
+	sigma := make([]float64, n)
+	w := make([]float64, n)
+	avg := boxcar(y, 2)
+	for i := range sigma {
+		if s.ESD != nil {
+			sigma[i] = s.ESD[i]
+		} else {
+			sigma[i] = math.Sqrt(math.Max(avg[i], 1))
+		}
+		w[i] = 1 / (sigma[i] * sigma[i])
+	}
+	step := s.Step()
+
+	// Background: a first, coarse SNIP for a rough width, then the final one.
+	half := max(2, int(math.Round(o.BackgroundWidth/2/step)))
+	k := max(1, (half+19)/20)
+	xb, yb := binMean(x, y, k)
+	rough := interpolate(xb, SNIP(yb, max(half/k, 2)), x)
+	net := make([]float64, n)
+	for i := range net {
+		net[i] = y[i] - rough[i]
+	}
+	fwhm0 := estimateFWHM(x, net, step)
+	bg := background(x, y, sigma, o.BackgroundWidth, fwhm0)
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+
+	// Detection on a grid of about eight points per FWHM.
+	kw := max(1, int(fwhm0/step/8))
+	xd, nd, sd := detectionGrid(x, y, bg, sigma, kw)
+	cands := detect(xd, nd, sd, o.Radiation, fwhm0, o.DetectThreshold)
+	md := &model{x: x, y: y, w: w, bg: bg, rad: o.Radiation}
+	// The first pass only finds starting values and the width curve; on a
+	// very fine scan it runs on the detection grid (means of kw points) and
+	// the later passes, whose results are reported, use every point.
+	md1 := md
+	if kw > 1 {
+		md1 = binnedModel(md, kw)
+	}
+	cs := seed(md1, cands, fwhm0, o)
+
+	res := &Result{Radiation: o.Radiation, Background: bg}
+	// Pass 1: every candidate on its own group's terms.
+	if err := fitAll(ctx, md1, cs, nil, progress, 0); err != nil {
+		return nil, err
+	}
+	// Width curve from the well-determined peaks; the weak peaks' shapes
+	// are held to it from now on.
+	res.FWHMCurve, res.Eta = shapeCurve(md1, cs, o, fwhm0)
+	for _, c := range cs {
+		if c.fixedShape {
+			c.w, c.eta = res.FWHMCurve.At(c.x), res.Eta
+		}
+	}
+	cs = prune(cs, o.Threshold/2)
+	// Shoulders: maxima of the residual that the first fit left
+	// unexplained.
+	if added := residualCandidates(md1, cs, res.FWHMCurve, res.Eta, o); len(added) > 0 {
+		cs = append(cs, added...)
+		sort.Slice(cs, func(a, b int) bool { return cs[a].x < cs[b].x })
+	}
+	// Pass 2: with the neighbours' tails in each group's base.
+	if err := fitAll(ctx, md, cs, cs, progress, 1); err != nil {
+		return nil, err
+	}
+	cs = prune(cs, o.Threshold)
+	// Pass 3: weights from the fitted model instead of the data.
+	if s.ESD == nil {
+		for i, m := range profileOf(md, cs) {
+			w[i] = 1 / math.Max(m, 1)
+		}
+	}
+	if err := fitAll(ctx, md, cs, cs, progress, 2); err != nil {
+		return nil, err
+	}
+	cs = prune(cs, o.Threshold)
+	res.Peaks = peaksOf(md, cs)
+	flagKBeta(res.Peaks, o.Radiation)
+	res.Profile = profileOf(md, cs)
+	return res, nil
+}
+
+// binnedModel averages groups of k points of a model's data; the weight of
+// a mean of k points is the sum of their weights.
+func binnedModel(md *model, k int) *model {
+	n := len(md.x)
+	m := (n + k - 1) / k
+	b := &model{x: make([]float64, m), y: make([]float64, m), w: make([]float64, m), bg: make([]float64, m), rad: md.rad}
+	for j := 0; j < m; j++ {
+		lo, hi := j*k, min((j+1)*k, n)
+		c := float64(hi - lo)
+		for i := lo; i < hi; i++ {
+			b.x[j] += md.x[i] / c
+			b.y[j] += md.y[i] / c
+			b.bg[j] += md.bg[i] / c
+			b.w[j] += md.w[i]
+		}
+	}
+	return b
+}
+
+// detectionGrid sums groups of k points of counts, background and
+// variance, and returns the angles, net counts and sigmas.
+func detectionGrid(x, y, bg, sigma []float64, k int) (xd, net, sd []float64) {
+	n := len(x)
+	m := (n + k - 1) / k
+	xd = make([]float64, m)
+	net = make([]float64, m)
+	sd = make([]float64, m)
+	for j := 0; j < m; j++ {
+		lo, hi := j*k, min((j+1)*k, n)
+		var sx, sn, sv float64
+		for i := lo; i < hi; i++ {
+			sx += x[i]
+			sn += y[i] - bg[i]
+			sv += sigma[i] * sigma[i]
+		}
+		c := float64(hi - lo)
+		xd[j] = sx / c
+		// Keep the per-point scale so that heights stay in counts.
+		net[j] = sn / c
+		sd[j] = math.Sqrt(sv) / c
+	}
+	return
+}
+
+// seed turns candidates into components, dropping those that sit where a
+// stronger candidate's K-alpha2 line falls.
+func seed(md *model, cands []candidate, fwhm0 float64, o Options) []*component {
+	sort.Slice(cands, func(a, b int) bool { return cands[a].x < cands[b].x })
+	var cs []*component
+	for i, c := range cands {
+		if md.rad.Doublet() {
+			ghost := false
+			for j := range cands {
+				if j == i || cands[j].h < c.h {
+					continue
+				}
+				x2, _ := md.companion2(cands[j].x)
+				if math.Abs(x2-c.x) < 0.5*fwhm0 && c.h < 0.75*cands[j].h {
+					ghost = true
+					break
+				}
+			}
+			if ghost {
+				continue
+			}
+		}
+		wi := math.Min(math.Max(c.w, 0.7*fwhm0), 2*fwhm0)
+		cs = append(cs, &component{
+			x: c.x, anchor: c.x, h: c.h, w: wi, eta: 0.5, z: c.z,
+			fixedShape: c.z < o.FreeShapeSNR,
+		})
+	}
+	// Merge maxima closer than half a width: noise on one peak.
+	var out []*component
+	for _, c := range cs {
+		if len(out) > 0 {
+			p := out[len(out)-1]
+			if c.x-p.x < 0.5*math.Min(p.w, c.w) {
+				if c.h > p.h {
+					out[len(out)-1] = c
+				}
+				continue
+			}
+		}
+		out = append(out, c)
+	}
+	if len(out) == 0 {
+		return out
+	}
+	_ = fwhm0
+	return out
+}
+
+// fitAll fits every group of cs. With tails set, the profiles of the other
+// components (from their last fit) are part of each group's base.
+func fitAll(ctx context.Context, md *model, cs, tails []*component, progress Progress, pass int) error {
+	gs := md.groups(cs)
+	for gi, g := range gs {
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		lo, hi := md.span(g)
+		if hi-lo < 4*len(g)+4 {
+			for _, c := range g {
+				c.sh = math.Inf(1)
+			}
+			continue
+		}
+		var base []float64
+		if tails != nil {
+			base = md.baseFor(tails, g, lo, hi)
+		} else {
+			base = md.bg[lo:hi]
+		}
+		md.fitGroup(g, lo, hi, base)
+		// Two components that slid onto one another describe one peak:
+		// keep the stronger and fit again.
+		for collapsed(g) {
+			g = dropWeakerPair(g)
+			md.fitGroup(g, lo, hi, base)
+		}
+		if progress != nil {
+			progress(pass*100+100*(gi+1)/len(gs), 300)
+		}
+	}
+	return nil
+}
+
+// collapsed reports whether two components of a group (sorted by their
+// starting positions) are closer than half the narrower width.
+func collapsed(g []*component) bool {
+	_, _, ok := closestPair(g)
+	return ok
+}
+
+func closestPair(g []*component) (int, int, bool) {
+	for i := 0; i < len(g); i++ {
+		for j := i + 1; j < len(g); j++ {
+			if g[i].h > 0 && g[j].h > 0 && math.Abs(g[i].x-g[j].x) < 0.5*math.Min(g[i].w, g[j].w) {
+				return i, j, true
+			}
+		}
+	}
+	return 0, 0, false
+}
+
+// dropWeakerPair removes the weaker of the closest collapsed pair from g,
+// marking it as not significant so that prune drops it from the scan's list.
+func dropWeakerPair(g []*component) []*component {
+	i, j, _ := closestPair(g)
+	weak := j
+	if g[i].h < g[j].h {
+		weak = i
+	}
+	g[weak].h, g[weak].sh = 0, math.Inf(1)
+	out := make([]*component, 0, len(g)-1)
+	for k, c := range g {
+		if k != weak {
+			out = append(out, c)
+		}
+	}
+	return out
+}
+
+// prune drops components whose fitted height is less than minZ esds.
+func prune(cs []*component, minZ float64) []*component {
+	out := cs[:0:0]
+	for _, c := range cs {
+		if c.h > 0 && c.sh > 0 && !math.IsInf(c.sh, 0) && c.h/c.sh >= minZ {
+			out = append(out, c)
+		}
+	}
+	return out
+}
+
+// peaksOf converts fitted components to reported peaks.
+func peaksOf(md *model, cs []*component) []Peak {
+	out := make([]Peak, 0, len(cs))
+	for _, c := range cs {
+		d, sd := DSpacingESD(c.x, c.sx, md.rad.Lambda1, 0)
+		area := PseudoVoigtArea(c.h, c.w, c.eta)
+		// Area esd to first order from the height, width and mixing esds
+		// (their correlations neglected).
+		f := areaFactor(c.eta)
+		sa := math.Sqrt(sq(c.sh*c.w*f) + sq(c.h*c.sw*f) + sq(c.h*c.w*(math.Pi/2-math.Sqrt(math.Pi/(4*ln2)))*c.seta))
+		i := sort.SearchFloat64s(md.x, c.x)
+		i = min(i, len(md.x)-1)
+		flags := c.flags
+		if c.fixedShape {
+			flags |= FlagFixedShape
+		}
+		out = append(out, Peak{
+			TwoTheta: c.x, TwoThetaESD: c.sx, D: d, DESD: sd,
+			Height: c.h, HeightESD: c.sh, Area: area, AreaESD: sa,
+			FWHM: c.w, FWHMESD: c.sw, Eta: c.eta, EtaESD: c.seta,
+			Background: md.bg[i] + c.b0 + c.b1*(c.x-c.xc), SNR: c.h / c.sh,
+			Flags: flags, Parent: -1,
+		})
+	}
+	sort.SliceStable(out, func(a, b int) bool { return out[a].TwoTheta < out[b].TwoTheta })
+	return out
+}
+
+func sq(v float64) float64 { return v * v }
+
+// flagKBeta marks peaks that sit at the K-beta position of a peak at least
+// three times as high.
+func flagKBeta(ps []Peak, rad Radiation) {
+	if rad.KBeta == 0 {
+		return
+	}
+	for i := range ps {
+		p := &ps[i]
+		for j := range ps {
+			q := &ps[j]
+			if j == i || q.Height < 3*p.Height {
+				continue
+			}
+			xb := Companion(q.TwoTheta, rad.Lambda1, rad.KBeta)
+			if math.Abs(xb-p.TwoTheta) <= math.Max(0.5*p.FWHM, 3*p.TwoThetaESD) {
+				p.Flags |= FlagKBeta
+				p.Parent = j
+				break
+			}
+		}
+	}
+}
+
+// profileOf returns background plus every fitted component at every point.
+func profileOf(md *model, cs []*component) []float64 {
+	out := append([]float64(nil), md.bg...)
+	for _, c := range cs {
+		lo, hi := md.window(c)
+		// Extend to where the profile falls below 1e-3 of the height.
+		x2, _ := md.companion2(c.x)
+		a := sort.SearchFloat64s(md.x, c.x-20*c.w)
+		b := min(sort.SearchFloat64s(md.x, x2+20*c.w), len(md.x))
+		lo, hi = min(lo, a), max(hi, b)
+		md.addProfile(out[lo:hi], lo, hi, c.x, c.h, c.w, c.eta)
+	}
+	// Local backgrounds of the groups, over each group's span.
+	for _, g := range md.groups(cs) {
+		lo, hi := md.span(g)
+		c := g[0]
+		for i := lo; i < hi; i++ {
+			out[i] += c.b0 + c.b1*(md.x[i]-c.xc)
+		}
+	}
+	return out
+}

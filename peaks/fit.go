@@ -1,0 +1,258 @@
+package peaks
+
+import (
+	"math"
+	"sort"
+)
+
+// A component is one peak being fitted: its current parameters and esds.
+type component struct {
+	x, h, w, eta     float64 // K-alpha1 position, height, FWHM, mixing
+	anchor           float64 // where detection put it; the fit keeps it within 0.75 FWHM
+	sx, sh, sw, seta float64 // esds
+	z                float64 // detection significance, σ
+	fixedShape       bool    // hold w and eta
+	flags            Flags
+	lo, hi           int     // fitting window, point indices [lo, hi)
+	b0, b1, xc       float64 // local background of its group at the last fit
+}
+
+// model is what a group's peaks are drawn with.
+type model struct {
+	x, y, w, bg []float64 // data, weights 1/σ², background
+	rad         Radiation
+}
+
+// companion2 returns the K-alpha2 position of a K-alpha1 line at x and
+// dx2/dx (zero for a single line).
+func (md *model) companion2(x float64) (float64, float64) {
+	if !md.rad.Doublet() {
+		return x, 0
+	}
+	r := md.rad.Lambda2 / md.rad.Lambda1
+	th := x * deg / 2
+	s := r * math.Sin(th)
+	if s >= 1 {
+		return math.Inf(1), 0
+	}
+	th2 := math.Asin(s)
+	return 2 * th2 / deg, r * math.Cos(th) / math.Cos(th2)
+}
+
+// addProfile adds h times the line shape of a component (with its K-alpha2
+// line) to out over points [lo, hi).
+func (md *model) addProfile(out []float64, lo, hi int, x0, h, w, eta float64) {
+	x2, _ := md.companion2(x0)
+	dbl := md.rad.Doublet()
+	r := md.rad.Ratio2
+	for i := lo; i < hi; i++ {
+		f := PseudoVoigt(md.x[i], x0, w, eta)
+		if dbl {
+			f += r * PseudoVoigt(md.x[i], x2, w, eta)
+		}
+		out[i-lo] += h * f
+	}
+}
+
+// fitGroup fits the components cs together over points [lo, hi), with base
+// (background plus the tails of peaks outside the group) held fixed. It
+// updates cs in place and returns the reduced χ² (1 when not fitted).
+func (md *model) fitGroup(cs []*component, lo, hi int, base []float64) float64 {
+	n := hi - lo
+	np := 2 + 4*len(cs)
+	xc := 0.5 * (md.x[lo] + md.x[hi-1])
+	p0 := make([]float64, np)
+	lob := make([]float64, np)
+	hib := make([]float64, np)
+	free := make([]bool, np)
+	lob[0], hib[0], free[0] = math.Inf(-1), math.Inf(1), true
+	lob[1], hib[1], free[1] = math.Inf(-1), math.Inf(1), true
+	step := (md.x[hi-1] - md.x[lo]) / float64(max(n-1, 1))
+	for k, c := range cs {
+		j := 2 + 4*k
+		p0[j], p0[j+1], p0[j+2], p0[j+3] = c.x, math.Max(c.h, 0), c.w, c.eta
+		reach := 0.75 * c.w
+		if c.flags&FlagAdded != 0 {
+			// A shoulder stays where the residual showed it.
+			reach = 0.35 * c.w
+		}
+		lob[j], hib[j] = c.anchor-reach, c.anchor+reach
+		p0[j] = math.Min(math.Max(p0[j], lob[j]), hib[j])
+		lob[j+1], hib[j+1] = 0, math.Inf(1)
+		lob[j+2], hib[j+2] = math.Max(0.3*c.w, 0.8*step), 3*c.w
+		lob[j+3], hib[j+3] = 0, 1
+		free[j], free[j+1] = true, true
+		free[j+2], free[j+3] = !c.fixedShape, !c.fixedShape
+	}
+	y := md.y[lo:hi]
+	xs := md.x[lo:hi]
+	eval := func(p, m, jac []float64) {
+		for i, xi := range xs {
+			m[i] = base[i] + p[0] + p[1]*(xi-xc)
+			if jac != nil {
+				jac[i*np] = 1
+				jac[i*np+1] = xi - xc
+			}
+		}
+		for k := range cs {
+			j := 2 + 4*k
+			x0, h, w, eta := p[j], p[j+1], p[j+2], p[j+3]
+			x2, dx2 := md.companion2(x0)
+			r := md.rad.Ratio2
+			dbl := md.rad.Doublet()
+			// A component reaches 15 FWHM around its lines; beyond, even
+			// a pure Lorentzian is below 0.1 % of its height.
+			a := sort.SearchFloat64s(xs, x0-15*w)
+			b := sort.SearchFloat64s(xs, math.Min(x2, x0+3)+15*w)
+			if jac == nil {
+				for i := a; i < b; i++ {
+					f := PseudoVoigt(xs[i], x0, w, eta)
+					if dbl {
+						f += r * PseudoVoigt(xs[i], x2, w, eta)
+					}
+					m[i] += h * f
+				}
+				continue
+			}
+			for i := range xs {
+				row := jac[i*np+j : i*np+j+4]
+				row[0], row[1], row[2], row[3] = 0, 0, 0, 0
+			}
+			for i := a; i < b; i++ {
+				xi := xs[i]
+				f, dx, dw, de := pvGrad(xi, x0, w, eta)
+				if dbl {
+					f2, dx2i, dw2, de2 := pvGrad(xi, x2, w, eta)
+					f += r * f2
+					dx += r * dx2i * dx2
+					dw += r * dw2
+					de += r * de2
+				}
+				m[i] += h * f
+				row := jac[i*np+j : i*np+j+4]
+				row[0], row[1], row[2], row[3] = h*dx, f, h*dw, h*de
+			}
+		}
+	}
+	prob := &lsqProblem{y: y, w: md.w[lo:hi], eval: eval, lo: lob, hi: hib, free: free}
+	res, err := levenbergMarquardt(prob, p0, 40)
+	if err != nil {
+		for _, c := range cs {
+			c.sx, c.sh = math.Inf(1), math.Inf(1)
+		}
+		return 1
+	}
+	red := 1.0
+	if res.dof > 0 {
+		red = res.chi2 / float64(res.dof)
+	}
+	// Scale the covariance by the reduced χ² when the fit is worse than the
+	// counting statistics allow (never shrink it below them).
+	scale := math.Max(red, 1)
+	sd := func(j int) float64 { return math.Sqrt(math.Max(res.cov.At(j, j), 0) * scale) }
+	for k, c := range cs {
+		j := 2 + 4*k
+		c.x, c.h, c.w, c.eta = res.p[j], res.p[j+1], res.p[j+2], res.p[j+3]
+		c.sx, c.sh = sd(j), sd(j+1)
+		c.sw, c.seta = sd(j+2), sd(j+3)
+		c.b0, c.b1, c.xc = res.p[0], res.p[1], xc
+		c.lo, c.hi = lo, hi
+		if len(cs) > 1 {
+			c.flags |= FlagShared
+		} else {
+			c.flags &^= FlagShared
+		}
+		if lo == 0 || hi == len(md.x) {
+			c.flags |= FlagEdge
+		}
+	}
+	return red
+}
+
+// window returns the point range a component needs: from 3 FWHM below its
+// K-alpha1 line to 3 FWHM above its K-alpha2 line.
+func (md *model) window(c *component) (int, int) {
+	x2, _ := md.companion2(c.x)
+	if math.IsInf(x2, 1) {
+		x2 = c.x
+	}
+	a := c.x - 3*c.w
+	b := x2 + 3*c.w
+	lo := sort.SearchFloat64s(md.x, a)
+	hi := sort.SearchFloat64s(md.x, b)
+	return lo, min(hi+1, len(md.x))
+}
+
+// maxGroup is the most components fitted together; longer chains of
+// overlapping peaks are cut where neighbours are farthest apart (in
+// widths), and each part sees the others as fixed tails.
+const maxGroup = 6
+
+// groups partitions sorted components into runs whose windows overlap.
+func (md *model) groups(cs []*component) [][]*component {
+	var out [][]*component
+	var cur []*component
+	curHi := -1
+	for _, c := range cs {
+		lo, hi := md.window(c)
+		if cur != nil && lo < curHi {
+			cur = append(cur, c)
+			curHi = max(curHi, hi)
+			continue
+		}
+		if cur != nil {
+			out = append(out, splitGroup(cur)...)
+		}
+		cur, curHi = []*component{c}, hi
+	}
+	if cur != nil {
+		out = append(out, splitGroup(cur)...)
+	}
+	return out
+}
+
+// splitGroup cuts a run longer than maxGroup at its widest gap.
+func splitGroup(g []*component) [][]*component {
+	if len(g) <= maxGroup {
+		return [][]*component{g}
+	}
+	best, gap := 1, -1.0
+	for i := 1; i < len(g); i++ {
+		if d := (g[i].x - g[i-1].x) / (g[i].w + g[i-1].w); d > gap {
+			best, gap = i, d
+		}
+	}
+	return append(splitGroup(g[:best]), splitGroup(g[best:])...)
+}
+
+// span returns the union of the windows of a group.
+func (md *model) span(g []*component) (int, int) {
+	lo, hi := len(md.x), 0
+	for _, c := range g {
+		a, b := md.window(c)
+		lo, hi = min(lo, a), max(hi, b)
+	}
+	return lo, hi
+}
+
+// baseFor returns the background plus the profiles of the components not in
+// g over points [lo, hi).
+func (md *model) baseFor(all []*component, g []*component, lo, hi int) []float64 {
+	in := map[*component]bool{}
+	for _, c := range g {
+		in[c] = true
+	}
+	base := append([]float64(nil), md.bg[lo:hi]...)
+	for _, c := range all {
+		if in[c] || c.h <= 0 {
+			continue
+		}
+		// Tails matter within about 30 FWHM for a Lorentzian part.
+		x2, _ := md.companion2(c.x)
+		if c.x-30*c.w > md.x[hi-1] || x2+30*c.w < md.x[lo] {
+			continue
+		}
+		md.addProfile(base, lo, hi, c.x, c.h, c.w, c.eta)
+	}
+	return base
+}

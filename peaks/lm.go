@@ -1,0 +1,207 @@
+package peaks
+
+import (
+	"errors"
+	"math"
+
+	"gonum.org/v1/gonum/mat"
+)
+
+// lsqProblem is a weighted least-squares problem for the Levenberg–Marquardt
+// solver: eval fills the model m_i and, when jac is not nil, the derivatives
+// ∂m_i/∂p_j at jac[i*len(p)+j] for all parameters.
+type lsqProblem struct {
+	y, w   []float64 // data and weights 1/σ²
+	eval   func(p, m, jac []float64)
+	lo, hi []float64 // bounds of each parameter (±Inf when free)
+	free   []bool    // parameters to vary
+}
+
+// lsqResult holds the solution and its covariance.
+type lsqResult struct {
+	p    []float64
+	cov  *mat.SymDense // unscaled (JᵀWJ)⁻¹ over all parameters; fixed ones have zero rows, uninfluential ones +Inf variance
+	chi2 float64
+	dof  int
+	iter int
+}
+
+var errSingular = errors.New("normal matrix is singular")
+
+// normal fills the normal matrix a (k×k, free parameters idx) and the
+// gradient g = JᵀW(y − m).
+func normal(prob *lsqProblem, idx []int, np int, m, jac []float64, a *mat.SymDense, g *mat.VecDense) {
+	k := len(idx)
+	acc := make([]float64, k*k)
+	gv := make([]float64, k)
+	row := make([]float64, k)
+	for i := range m {
+		wi := prob.w[i]
+		ri := wi * (prob.y[i] - m[i])
+		base := jac[i*np : (i+1)*np]
+		for r, j := range idx {
+			row[r] = base[j]
+		}
+		for r := 0; r < k; r++ {
+			v := wi * row[r]
+			if v == 0 {
+				continue
+			}
+			gv[r] += row[r] * ri
+			ar := acc[r*k : (r+1)*k]
+			for c := r; c < k; c++ {
+				ar[c] += v * row[c]
+			}
+		}
+	}
+	for r := 0; r < k; r++ {
+		for c := r; c < k; c++ {
+			a.SetSym(r, c, acc[r*k+c])
+		}
+		if g != nil {
+			g.SetVec(r, gv[r])
+		}
+	}
+}
+
+// levenbergMarquardt minimises Σ w_i (y_i − m_i(p))² from p0 (Marquardt,
+// J. Soc. Ind. Appl. Math. 11 (1963) 431), projecting each step onto the
+// bounds. It stops when a step lowers χ² by less than 1e-4 or
+// the predicted decrease is below 1e-6: such changes move no parameter by
+// more than about 1 % of its esd.
+func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult, error) {
+	n := len(prob.y)
+	np := len(p0)
+	var idx []int
+	for j := 0; j < np; j++ {
+		if prob.free[j] {
+			idx = append(idx, j)
+		}
+	}
+	k := len(idx)
+	if k == 0 || n <= k {
+		return nil, errSingular
+	}
+	p := append([]float64(nil), p0...)
+	m := make([]float64, n)
+	jac := make([]float64, n*np)
+	chi2 := func(p []float64, m []float64) float64 {
+		prob.eval(p, m, nil)
+		var s float64
+		for i := range m {
+			d := prob.y[i] - m[i]
+			s += prob.w[i] * d * d
+		}
+		return s
+	}
+	cur := chi2(p, m)
+	lambda := 1e-3
+	a := mat.NewSymDense(k, nil)
+	damped := mat.NewSymDense(k, nil)
+	g := mat.NewVecDense(k, nil)
+	trial := make([]float64, np)
+	mt := make([]float64, n)
+	var chol mat.Cholesky
+	delta := mat.NewVecDense(k, nil)
+	iter := 0
+	for done := false; iter < maxIter && !done; iter++ {
+		prob.eval(p, m, jac)
+		normal(prob, idx, np, m, jac, a, g)
+		improved := false
+		for tries := 0; tries < 10; tries++ {
+			damped.CopySym(a)
+			for r := 0; r < k; r++ {
+				d := a.At(r, r)
+				if d == 0 {
+					d = 1
+				}
+				damped.SetSym(r, r, d*(1+lambda))
+			}
+			if !chol.Factorize(damped) || chol.SolveVecTo(delta, g) != nil {
+				lambda *= 10
+				continue
+			}
+			// Predicted decrease of χ² for this step (δ·g to first order);
+			// at the minimum it is negligible and the search ends.
+			if pred := mat.Dot(delta, g); pred < 1e-6 {
+				done = true
+				improved = true
+				break
+			}
+			copy(trial, p)
+			for r, j := range idx {
+				trial[j] = math.Min(math.Max(p[j]+delta.AtVec(r), prob.lo[j]), prob.hi[j])
+			}
+			c := chi2(trial, mt)
+			if c <= cur {
+				dec := cur - c
+				rel := dec / math.Max(cur, 1e-300)
+				copy(p, trial)
+				cur = c
+				lambda = math.Max(lambda/10, 1e-9)
+				improved = true
+				// Δχ² of 1e-4 moves no parameter by more than 1 % of
+				// its esd.
+				done = rel < 1e-12 || dec < 1e-4 || smallStep(delta, a)
+				break
+			}
+			lambda *= 10
+		}
+		if !improved {
+			break
+		}
+	}
+	// Covariance at the solution. A parameter with no influence (the
+	// position of a peak whose height went to zero) is left out and gets
+	// an infinite variance.
+	prob.eval(p, m, jac)
+	normal(prob, idx, np, m, jac, a, nil)
+	var keep []int
+	var dmax float64
+	for r := 0; r < k; r++ {
+		dmax = math.Max(dmax, a.At(r, r))
+	}
+	for r := 0; r < k; r++ {
+		if a.At(r, r) > 1e-14*dmax {
+			keep = append(keep, r)
+		}
+	}
+	kk := len(keep)
+	if kk == 0 {
+		return nil, errSingular
+	}
+	ak := mat.NewSymDense(kk, nil)
+	for r := 0; r < kk; r++ {
+		for c := r; c < kk; c++ {
+			ak.SetSym(r, c, a.At(keep[r], keep[c]))
+		}
+	}
+	if !chol.Factorize(ak) {
+		return nil, errSingular
+	}
+	var inv mat.SymDense
+	if err := chol.InverseTo(&inv); err != nil {
+		return nil, errSingular
+	}
+	cov := mat.NewSymDense(np, nil)
+	for r := 0; r < k; r++ {
+		cov.SetSym(idx[r], idx[r], math.Inf(1))
+	}
+	for r := 0; r < kk; r++ {
+		for c := r; c < kk; c++ {
+			cov.SetSym(idx[keep[r]], idx[keep[c]], inv.At(r, c))
+		}
+	}
+	return &lsqResult{p: p, cov: cov, chi2: cur, dof: n - k, iter: iter}, nil
+}
+
+// smallStep reports whether every component of the step is below 1e-3 of
+// the parameter's precision, estimated as 1/√A_jj.
+func smallStep(delta *mat.VecDense, a *mat.SymDense) bool {
+	for r := 0; r < delta.Len(); r++ {
+		if math.Abs(delta.AtVec(r))*math.Sqrt(a.At(r, r)) > 1e-3 {
+			return false
+		}
+	}
+	return true
+}
