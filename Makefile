@@ -13,7 +13,7 @@ BIN       := bin
 SYSTEM_PKGS := gcc pkg-config libgl1-mesa-dev xorg-dev
 FUZZTIME  ?= 10s
 
-.PHONY: run test build deps fmt-check vet unit fuzz-seeds fuzz bench bench-score clean
+.PHONY: run test build deps fmt-check vet static unit fuzz-seeds fuzz bench bench-score clean
 
 run: deps build
 	$(BIN)/reticle peaks --wavelength Cu $(DEMO)
@@ -21,7 +21,7 @@ run: deps build
 build:
 	$(GO) build -o $(BIN)/reticle ./cmd/reticle
 
-test: fmt-check vet unit fuzz-seeds
+test: fmt-check vet static unit fuzz-seeds
 
 fmt-check:
 	@out=$$(gofmt -l $$(git ls-files '*.go' 2>/dev/null || find . -name '*.go')); \
@@ -29,6 +29,10 @@ fmt-check:
 
 vet:
 	$(GO) vet ./...
+
+# The headless command must build without cgo.
+static:
+	CGO_ENABLED=0 $(GO) build -o /dev/null ./cmd/reticle
 
 unit:
 	$(GO) test -count=1 ./...

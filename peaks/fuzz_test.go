@@ -68,3 +68,31 @@ func checkScan(t *testing.T, s *Scan, err error) {
 func formatRow(s *Scan, i int) string {
 	return strings.Join([]string{ftoa(s.TwoTheta[i]), ftoa(s.Intensity[i])}, " ") + "\n"
 }
+
+// FuzzFastRow checks the allocation-free row parser against the general
+// one: whenever the fast path accepts a line, both give the same numbers.
+func FuzzFastRow(f *testing.F) {
+	for _, seed := range []string{"10.00 100", "8.9000,52", "12,9300;50", "10.1\t475", "1,5,3 2", " -0.5  +7 \r", "5. .5 1", "1;2;", "00012.50000 3"} {
+		for sep := sepSpace; sep <= sepTab; sep++ {
+			f.Add(seed, uint8(sep))
+		}
+	}
+	f.Fuzz(func(t *testing.T, line string, sepIdx uint8) {
+		sep := separator(sepIdx % 4)
+		var row [3]float64
+		for ncol := 2; ncol <= 3; ncol++ {
+			if !fastRow([]byte(line), sep, ncol, &row) {
+				continue
+			}
+			vals, _, err := splitWith(strings.TrimRight(strings.TrimSuffix(line, "\r"), " \t\f"), sep)
+			if err != nil || len(vals) != ncol {
+				t.Fatalf("%q sep %d: fast path gave %v, general path %v %v", line, sep, row[:ncol], vals, err)
+			}
+			for i := range vals {
+				if vals[i] != row[i] {
+					t.Fatalf("%q: column %d fast %v general %v", line, i+1, row[i], vals[i])
+				}
+			}
+		}
+	})
+}

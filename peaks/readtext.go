@@ -21,15 +21,33 @@ const (
 // metadata lines, then a block of rows with 2θ, intensity and an optional esd.
 func parseText(file string, data []byte) (*Scan, error) {
 	s := &Scan{Format: "text"}
-	lines := bytes.Split(data, []byte("\n"))
 	var pts []point
 	var errs ErrorList
 	inData := false
 	var sep separator
 	ncol := 0
 	oneCol := 0 // first line holding a single number before the data block
-	for i, raw := range lines {
-		lineNo := i + 1
+	var row [3]float64
+	lineNo := 0
+	for rest := data; len(rest) > 0; {
+		lineNo++
+		raw := rest
+		if k := bytes.IndexByte(rest, '\n'); k >= 0 {
+			raw, rest = rest[:k], rest[k+1:]
+		} else {
+			rest = nil
+		}
+		if inData && fastRow(raw, sep, ncol, &row) {
+			p := point{x: row[0], y: row[1], line: lineNo}
+			if ncol == 3 {
+				p.e = row[2]
+				if p.e < 0 {
+					errs.Add(&ParseError{File: file, Line: lineNo, Column: 3, Text: string(raw), Err: ErrBadESD})
+				}
+			}
+			pts = append(pts, p)
+			continue
+		}
 		line := strings.TrimRight(string(bytes.TrimSuffix(raw, []byte("\r"))), " \t\f")
 		trim := strings.TrimSpace(line)
 		if trim == "" {
@@ -190,6 +208,7 @@ func splitNumbers(line string) (separator, []float64, bool) {
 // first bad field.
 func splitWith(line string, sep separator) ([]float64, int, error) {
 	var fields []string
+	line = strings.TrimLeft(line, " \t")
 	switch sep {
 	case sepSpace:
 		fields = strings.Fields(line)
@@ -243,4 +262,114 @@ func parseNumber(f string) (float64, error) {
 		return 0, ErrText
 	}
 	return v, nil
+}
+
+// fastRow parses a plain data row of exactly ncol decimal numbers split by
+// sep into row without allocating. It reports false for anything else
+// (comments, text, exponents, NaN ...), which the general path then reads
+// and, if need be, reports.
+func fastRow(b []byte, sep separator, ncol int, row *[3]float64) bool {
+	b = bytes.TrimSuffix(b, []byte("\r"))
+	n := 0
+	i := 0
+	for {
+		// Skip blanks before a field.
+		for i < len(b) && (b[i] == ' ' || b[i] == '\t') {
+			if sep == sepTab && b[i] == '\t' && n > 0 {
+				break
+			}
+			i++
+		}
+		if i == len(b) {
+			return n == ncol
+		}
+		if n == ncol {
+			return false
+		}
+		v, k, ok := fastNumber(b[i:], sep)
+		if !ok {
+			return false
+		}
+		row[n] = v
+		n++
+		i += k
+		// Expect blanks, then a separator, the end, or (for whitespace)
+		// the next field.
+		for i < len(b) && (b[i] == ' ' || (b[i] == '\t' && sep != sepTab)) {
+			i++
+		}
+		if i == len(b) {
+			return n == ncol
+		}
+		switch {
+		case sep == sepComma && b[i] == ',', sep == sepSemicolon && b[i] == ';', sep == sepTab && b[i] == '\t':
+			i++
+			if i == len(b) || n == ncol {
+				// A trailing separator ends the row.
+				return n == ncol && i == len(b)
+			}
+		case sep == sepSpace:
+		default:
+			return false
+		}
+	}
+}
+
+// pow10 holds the exactly representable powers of ten.
+var pow10 = [...]float64{1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10,
+	1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22}
+
+// fastNumber parses an optionally signed decimal without exponent, with at
+// most 15 significant digits, at the start of b; decComma also accepts a
+// comma as the decimal mark. With an integer mantissa below 2⁵³ and a
+// power of ten up to 10²², one correctly rounded division gives the same
+// value as strconv.ParseFloat (Clinger, PLDI 1990). It returns the value,
+// the bytes used and false when b needs the general parser.
+func fastNumber(b []byte, sep separator) (float64, int, bool) {
+	decComma := sep != sepComma
+	i := 0
+	neg := false
+	if i < len(b) && (b[i] == '-' || b[i] == '+') {
+		neg = b[i] == '-'
+		i++
+	}
+	var mant uint64
+	digits, frac := 0, 0
+	dot := false
+	start := i
+	for ; i < len(b); i++ {
+		c := b[i]
+		switch {
+		case c >= '0' && c <= '9':
+			if mant == 0 && c == '0' && !dot {
+				continue // leading zeros
+			}
+			mant = mant*10 + uint64(c-'0')
+			digits++
+			if dot {
+				frac++
+			}
+		case (c == '.' || decComma && c == ',') && !dot:
+			dot = true
+		default:
+			goto end
+		}
+	}
+end:
+	if i == start || (dot && i == start+1) || digits > 15 || frac > 22 {
+		return 0, 0, false
+	}
+	if i < len(b) {
+		c := b[i]
+		ok := c == ' ' || c == '\t' ||
+			sep == sepComma && c == ',' || sep == sepSemicolon && c == ';'
+		if !ok {
+			return 0, 0, false
+		}
+	}
+	v := float64(mant) / pow10[frac]
+	if neg {
+		v = -v
+	}
+	return v, i, true
 }
