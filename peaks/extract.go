@@ -11,7 +11,8 @@ import (
 // its documented default.
 type Options struct {
 	// Radiation is the incident spectrum. Zero means the scan's stated
-	// wavelength as a single line, or else the Cu K-alpha doublet.
+	// wavelength as a single line, else the K-alpha doublet of the anode
+	// the scan names, else the Cu K-alpha doublet.
 	Radiation Radiation
 	// BackgroundWidth is the SNIP clipping window in degrees 2θ. Zero
 	// means 1.5°.
@@ -33,7 +34,9 @@ type Options struct {
 
 func (o Options) withDefaults(s *Scan) Options {
 	if o.Radiation.Lambda1 == 0 {
-		if s.Wavelength > 0 {
+		if a, ok := LookupAnode(s.Anode); ok && s.Wavelength == 0 {
+			o.Radiation = AnodeRadiation(a)
+		} else if s.Wavelength > 0 {
 			o.Radiation = SingleLine(s.Wavelength)
 		} else {
 			a, _ := LookupAnode("Cu")

@@ -68,6 +68,9 @@ func TestParseTextValues(t *testing.T) {
 	if s.TwoTheta[3] != 10.06 || s.Intensity[3] != 103 {
 		t.Errorf("row 4 = %g, %g; want 10.06, 103", s.TwoTheta[3], s.Intensity[3])
 	}
+	if s, _ := Parse("a", []byte("# Anode: Co K-alpha\n"+rows(20, " ", "."))); s.Anode != "Co" {
+		t.Errorf("anode %q, want Co", s.Anode)
+	}
 	if lo, hi := s.Range(); lo != 10 || math.Abs(hi-10.38) > 1e-12 {
 		t.Errorf("range %g..%g", lo, hi)
 	}

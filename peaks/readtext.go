@@ -137,11 +137,31 @@ func (s *Scan) addMeta(line int, text string) {
 		}
 	}
 	s.Meta = append(s.Meta, item)
+	if s.Anode == "" {
+		s.Anode = anodeFromMeta(item.Key, item.Value)
+	}
 	if s.Wavelength == 0 {
 		if w, ok := wavelengthFromMeta(item.Key, item.Value); ok {
 			s.Wavelength = w
 		}
 	}
+}
+
+// anodeFromMeta returns the anode symbol named by a header item such as
+// "Anode: Cu" or "Target = Co K-alpha", or "".
+func anodeFromMeta(key, value string) string {
+	k := strings.ToLower(key)
+	if !(strings.Contains(k, "anode") || strings.Contains(k, "target") || strings.Contains(k, "tube")) {
+		return ""
+	}
+	f := strings.FieldsFunc(value, func(r rune) bool { return r == ' ' || r == ',' || r == '-' || r == '\t' })
+	if len(f) == 0 {
+		return ""
+	}
+	if a, ok := LookupAnode(f[0]); ok {
+		return a.Symbol
+	}
+	return ""
 }
 
 // wavelengthFromMeta returns a wavelength in Å stated by a header item such

@@ -30,8 +30,10 @@ type Scan struct {
 
 	// Wavelength is the wavelength in Å stated in the file, 0 when none.
 	Wavelength float64
-	Meta       []MetaItem // header lines in file order
-	Warnings   []string   // problems that did not stop the read (sorted angles, negative counts, ...)
+	// Anode is the tube target named in the file ("Cu"), empty when none.
+	Anode    string
+	Meta     []MetaItem // header lines in file order
+	Warnings []string   // problems that did not stop the read (sorted angles, negative counts, ...)
 }
 
 // Len returns the number of points.

@@ -4,11 +4,12 @@
 //
 // Usage:
 //
-//	reticle peaks [--wavelength W] [--json] FILE...
+//	reticle peaks [--wavelength W] [--ka2-ratio R] [--threshold Z] [--background-width D] [--json] FILE...
 //
 // W is an anode symbol (Cu, Co, Cr, Fe, Mo, Ag: the K-alpha doublet), an
 // anode with Ka1 (CuKa1: K-alpha1 alone) or a wavelength in Å (one line).
-// The default is the wavelength stated in the file, or else Cu.
+// The default is the wavelength stated in the file, else the anode it
+// names, else Cu.
 package main
 
 import (
@@ -24,11 +25,19 @@ func main() {
 const usage = `reticle: powder diffraction scans from the command line
 
 usage:
-  reticle peaks [--wavelength W] [--json] FILE...   find and fit the peaks of each scan
+  reticle peaks [options] FILE...   find and fit the peaks of each scan
+
+options of peaks:
+  --wavelength W          radiation (see below)
+  --ka2-ratio R           K-alpha2/K-alpha1 intensity ratio, default 0.5
+  --threshold Z           significance a peak must reach, in esds, default 4.5
+  --background-width D    background clipping window in degrees 2θ, default 1.5
+  --json                  print JSON instead of a table
 
 W is an anode (Cu, Co, Cr, Fe, Mo, Ag: K-alpha1/K-alpha2 doublet), an anode
 with Ka1 (CuKa1: K-alpha1 only) or a wavelength in angstrom (one line).
-Without --wavelength the file's stated wavelength is used, or else Cu.
+Without --wavelength the file's stated wavelength is used (one line), else
+the doublet of the anode the file names, else Cu.
 `
 
 // run executes one command line and returns the process exit status.

@@ -64,6 +64,7 @@ func TestPeaksErrors(t *testing.T) {
 		{[]string{"peaks"}, 2, "no scan file"},
 		{[]string{"peaks", "--wavelength", "Zz", demo}, 2, "expected an anode"},
 		{[]string{"peaks", bad}, 1, "kiln-bad.xy:3: column 2"},
+		{[]string{"peaks", "--ka2-ratio", "2", demo}, 2, "--ka2-ratio"},
 		{[]string{"peaks", filepath.Join(dir, "none.xy")}, 1, "no such file"},
 	} {
 		code, _, errs := runCmd(test.args...)

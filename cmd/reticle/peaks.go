@@ -48,6 +48,9 @@ func cmdPeaks(args []string, stdout, stderr io.Writer) int {
 	fs.SetOutput(stderr)
 	wl := fs.String("wavelength", "", "anode symbol (K-alpha doublet), anode+Ka1, or wavelength in Å")
 	asJSON := fs.Bool("json", false, "print a JSON document instead of a table")
+	ratio := fs.Float64("ka2-ratio", peaks.DefaultKAlpha2Ratio, "K-alpha2/K-alpha1 intensity ratio of a doublet")
+	threshold := fs.Float64("threshold", 0, "significance a peak must reach, in esds of its height (0: the default, 4.5)")
+	bgWidth := fs.Float64("background-width", 0, "background clipping window, degrees 2θ (0: the default, 1.5)")
 	if err := fs.Parse(args); err != nil {
 		return 2
 	}
@@ -55,12 +58,19 @@ func cmdPeaks(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintln(stderr, "reticle peaks: no scan file given")
 		return 2
 	}
-	var opt peaks.Options
+	if !(*ratio >= 0 && *ratio <= 1) || *threshold < 0 || *bgWidth < 0 {
+		fmt.Fprintln(stderr, "reticle peaks: --ka2-ratio must lie in 0…1, --threshold and --background-width must not be negative")
+		return 2
+	}
+	opt := peaks.Options{Threshold: *threshold, BackgroundWidth: *bgWidth}
 	if *wl != "" {
 		r, err := peaks.ParseRadiation(*wl)
 		if err != nil {
 			fmt.Fprintf(stderr, "reticle peaks: --wavelength: %v\n", err)
 			return 2
+		}
+		if r.Doublet() {
+			r.Ratio2 = *ratio
 		}
 		opt.Radiation = r
 	}
