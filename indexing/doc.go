@@ -1,0 +1,34 @@
+// Package indexing finds the unit cell of a powder pattern from its list of
+// peak positions.
+//
+// Lines are converted by Bragg's law to Q = 1/d² (Å⁻²). For a cell with
+// reciprocal metric G*, Q(hkl) = hᵀ G* h; for the systems searched here
+//
+//	cubic         Q = (h² + k² + l²)/a²
+//	tetragonal    Q = (h² + k²)/a² + l²/c²
+//	hexagonal     Q = 4(h² + hk + k²)/(3a²) + l²/c²
+//	rhombohedral  as hexagonal, on hexagonal axes (obverse setting)
+//
+// The lattice centring removes reflections (P none; I h+k+l = 2n; F h, k, l
+// all even or all odd; R −h+k+l = 3n; C h+k = 2n).
+//
+// # Search
+//
+// The search is exhaustive within stated bounds, not random. Cubic cells
+// come from every one of the first lines against every allowed h²+k²+l²;
+// two-parameter cells from every pair of the first lines against every pair
+// of index vectors (h²+k² or h²+hk+k² up to MaxM, l up to MaxL), which
+// determines (1/a², 1/c²) by a 2×2 linear system. Any cell inside the edge
+// and volume bounds whose two low-angle lines have indices within those
+// bounds is therefore generated. The zero-point error is an unknown: the
+// search runs on a grid of zero offsets and every candidate is refined with
+// a free zero.
+//
+// # Figures of merit
+//
+// Solutions are ranked by de Wolff's M20 (J. Appl. Cryst. 1 (1968) 108),
+// reported with Smith & Snyder's F_N (J. Appl. Cryst. 12 (1979) 60). When
+// two solutions describe the same lattice (the same calculated lines), only
+// the one of higher symmetry is kept; when figures are close, the higher
+// symmetry and then the smaller cell rank first.
+package indexing
