@@ -17,6 +17,7 @@ FUZZTIME  ?= 10s
 
 run: deps build
 	$(BIN)/reticle peaks --wavelength Cu $(DEMO)
+	$(BIN)/reticle index --wavelength Cu $(DEMO)
 
 build:
 	$(GO) build -o $(BIN)/reticle ./cmd/reticle
@@ -55,6 +56,7 @@ bench:
 # Public benchmark scores (needs ../shared/bench and python3).
 bench-score: build
 	python3 ../shared/bench/peakscore.py --cmd '$(BIN)/reticle peaks --json' --data ../shared/bench/public
+	python3 ../shared/bench/score.py --cmd '$(BIN)/reticle index --json' --data ../shared/bench/public
 
 deps:
 	@missing=""; \

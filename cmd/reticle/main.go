@@ -26,6 +26,7 @@ const usage = `reticle: powder diffraction scans from the command line
 
 usage:
   reticle peaks [options] FILE...   find and fit the peaks of each scan
+  reticle index [options] FILE...   find the unit cell from the peaks of each scan
 
 options of peaks:
   --wavelength W          radiation (see below)
@@ -33,6 +34,11 @@ options of peaks:
   --threshold Z           significance a peak must reach, in esds, default 4.5
   --background-width D    background clipping window in degrees 2θ, default 1.5
   --json                  print JSON instead of a table
+
+options of index (and --wavelength, --json as above):
+  --systems LIST          systems to search, default cubic,tetragonal,hexagonal,rhombohedral
+  --impurities N          lines among the first 20 that may stay unindexed, default 3 (-1: none)
+  --tolerance D           smallest 2θ window for a match in degrees, default 0.03
 
 W is an anode (Cu, Co, Cr, Fe, Mo, Ag: K-alpha1/K-alpha2 doublet), an anode
 with Ka1 (CuKa1: K-alpha1 only) or a wavelength in angstrom (one line).
@@ -49,6 +55,8 @@ func run(args []string, stdout, stderr io.Writer) int {
 	switch args[0] {
 	case "peaks":
 		return cmdPeaks(args[1:], stdout, stderr)
+	case "index":
+		return cmdIndex(args[1:], stdout, stderr)
 	case "help", "-h", "--help":
 		fmt.Fprint(stdout, usage)
 		return 0

@@ -73,3 +73,34 @@ func TestPeaksErrors(t *testing.T) {
 		}
 	}
 }
+
+// TestIndexJSON checks the wiring of `reticle index --json`: the document
+// carries the keys the benchmark scorer reads, and the demo scan (made as a
+// face-centred cubic pattern by assets/demo/make_demo.go) comes out cubic F.
+func TestIndexJSON(t *testing.T) {
+	code, out, errs := runCmd("index", "--json", "--wavelength", "Cu", demo)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var doc map[string]any
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	sols, _ := doc["solutions"].([]any)
+	if len(sols) == 0 {
+		t.Fatalf("no solutions: %s", out)
+	}
+	first := sols[0].(map[string]any)
+	for _, k := range []string{"system", "centring", "a", "b", "c", "alpha", "beta", "gamma", "m20", "fn", "indexed", "unindexed", "lines", "calculated"} {
+		if _, ok := first[k]; !ok {
+			t.Errorf("solution lacks %q", k)
+		}
+	}
+	if first["system"] != "cubic" || first["centring"] != "F" {
+		t.Errorf("demo indexed as %v %v", first["system"], first["centring"])
+	}
+	code, _, errs = runCmd("index", "--systems", "cubic,monoclinic", demo)
+	if code != 2 || !strings.Contains(errs, "unknown crystal system") {
+		t.Errorf("bad --systems: exit %d, %q", code, errs)
+	}
+}

@@ -2,7 +2,6 @@ package main
 
 import (
 	"context"
-	"encoding/json"
 	"flag"
 	"fmt"
 	"io"
@@ -97,17 +96,7 @@ func cmdPeaks(args []string, stdout, stderr io.Writer) int {
 		}
 	}
 	if *asJSON {
-		enc := json.NewEncoder(stdout)
-		enc.SetIndent("", " ")
-		var err error
-		if len(docs) == 1 {
-			err = enc.Encode(docs[0])
-		} else {
-			err = enc.Encode(struct {
-				Scans []scanJSON `json:"scans"`
-			}{docs})
-		}
-		if err != nil {
+		if err := encodeDocs(stdout, docs); err != nil {
 			fmt.Fprintf(stderr, "reticle peaks: %v\n", err)
 			return 1
 		}

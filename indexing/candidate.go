@@ -1,0 +1,101 @@
+package indexing
+
+import (
+	"math"
+	"sort"
+)
+
+// A trial is a lattice to test: its system, centring, linear Q parameters
+// (pa, pc) and zero offset.
+type trial struct {
+	sys    System
+	cen    Centring
+	pa, pc float64
+	zero   float64
+}
+
+// assign finds the calculated line nearest Q for the trial's lattice within
+// window w (Å⁻²). It returns the index sum n (cubic) or m and l, the
+// calculated Q and whether one was found.
+func (t *trial) assign(q, w float64) (m, l int, qc float64, ok bool) {
+	best := math.Inf(1)
+	if t.sys == Cubic {
+		lo := int(math.Ceil((q - w) / t.pa))
+		hi := int(math.Floor((q + w) / t.pa))
+		for n := max(lo, 1); n <= hi; n++ {
+			if !cubicAllowed(t.cen, n) {
+				continue
+			}
+			c := t.pa * float64(n)
+			if d := math.Abs(c - q); d < best {
+				best, m, qc, ok = d, n, c, true
+			}
+		}
+		return m, 0, qc, ok
+	}
+	lmax := int(math.Sqrt((q+w)/t.pc)) + 1
+	for ll := 0; ll <= lmax; ll++ {
+		r := q - t.pc*float64(ll*ll)
+		if r < -w {
+			break
+		}
+		lo := int(math.Ceil((r - w) / t.pa))
+		hi := int(math.Floor((r + w) / t.pa))
+		for mm := max(lo, 0); mm <= hi; mm++ {
+			if !planeAllowed(t.sys, t.cen, mm, ll) {
+				continue
+			}
+			c := t.pa*float64(mm) + t.pc*float64(ll*ll)
+			if d := math.Abs(c - q); d < best {
+				best, m, l, qc, ok = d, mm, ll, c, true
+			}
+		}
+	}
+	return m, l, qc, ok
+}
+
+// countCalc returns the number of distinct calculated Q values up to qmax
+// (merged within 1e-9 relative).
+func (t *trial) countCalc(qmax float64) int {
+	var qs []float64
+	if t.sys == Cubic {
+		n := 0
+		for k := 1; float64(k)*t.pa <= qmax; k++ {
+			if cubicAllowed(t.cen, k) {
+				n++
+			}
+		}
+		return n
+	}
+	for ll := 0; t.pc*float64(ll*ll) <= qmax; ll++ {
+		for mm := 0; t.pa*float64(mm)+t.pc*float64(ll*ll) <= qmax; mm++ {
+			if planeAllowed(t.sys, t.cen, mm, ll) {
+				qs = append(qs, t.pa*float64(mm)+t.pc*float64(ll*ll))
+			}
+		}
+		if len(qs) > 100000 {
+			break
+		}
+	}
+	return distinct(qs)
+}
+
+func distinct(qs []float64) int {
+	if len(qs) == 0 {
+		return 0
+	}
+	sort.Float64s(qs)
+	n := 1
+	for i := 1; i < len(qs); i++ {
+		if qs[i]-qs[i-1] > 1e-9*qs[i] {
+			n++
+		}
+	}
+	return n
+}
+
+// cell returns the trial's conventional cell.
+func (t *trial) cell() Cell {
+	s := t.sys
+	return cellFromParams(s, t.cen, t.pa, t.pc)
+}

@@ -1,0 +1,58 @@
+package indexing
+
+import (
+	"math"
+	"sort"
+)
+
+const deg = math.Pi / 180
+
+// obs is an observed line prepared for the search.
+type obs struct {
+	tt, esd float64 // degrees 2θ
+	tol     float64 // matching window, degrees 2θ
+}
+
+// qOf returns Q = (2 sin θ / λ)² of a line at tt degrees 2θ after
+// removing the zero offset z.
+func qOf(tt, z, lambda float64) float64 {
+	s := 2 * math.Sin((tt-z)*deg/2) / lambda
+	return s * s
+}
+
+// ttOf returns the angle in degrees 2θ of Q, NaN beyond 180°.
+func ttOf(q, lambda float64) float64 {
+	s := lambda * math.Sqrt(q) / 2
+	if s > 1 {
+		return math.NaN()
+	}
+	return 2 * math.Asin(s) / deg
+}
+
+// dQ returns the Q window that a 2θ window of tol degrees spans at tt:
+// dQ = Q cot θ · Δ2θ (radians).
+func dQ(tt, tol, lambda float64) float64 {
+	q := qOf(tt, 0, lambda)
+	return q / math.Tan(tt*deg/2) * tol * deg
+}
+
+// prepare sorts lines, drops impossible ones and sets their windows.
+func prepare(lines []Line, o Options) []obs {
+	out := make([]obs, 0, len(lines))
+	for _, l := range lines {
+		if !(l.TwoTheta > 0 && l.TwoTheta < 180) {
+			continue
+		}
+		out = append(out, obs{tt: l.TwoTheta, esd: l.ESD, tol: math.Max(3*l.ESD, o.Tolerance)})
+	}
+	sort.Slice(out, func(i, j int) bool { return out[i].tt < out[j].tt })
+	// Lines closer than their window are one line for indexing.
+	merged := out[:0]
+	for _, l := range out {
+		if n := len(merged); n > 0 && l.tt-merged[n-1].tt < 1e-4 {
+			continue
+		}
+		merged = append(merged, l)
+	}
+	return merged
+}

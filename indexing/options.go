@@ -1,0 +1,78 @@
+package indexing
+
+// A Line is one observed peak: its K-alpha1 (or single-wavelength)
+// position in degrees 2θ and the esd of that position.
+type Line struct {
+	TwoTheta float64 // degrees 2θ
+	ESD      float64 // degrees 2θ; zero means unknown
+}
+
+// Options control the search. The zero value of every field means its
+// documented default.
+type Options struct {
+	// Wavelength in Å of the lines' radiation. Required.
+	Wavelength float64
+	// Systems to search; nil means cubic, tetragonal, hexagonal and
+	// rhombohedral.
+	Systems []System
+	// Lines is how many of the first lines are used to search and to
+	// compute the figures of merit. Zero means 20.
+	Lines int
+	// MaxImpurities is the number of those lines that may stay
+	// unindexed. Zero means 3; negative means none.
+	MaxImpurities int
+	// Tolerance is the smallest 2θ window, in degrees, within which a
+	// calculated line indexes an observed one; the window is otherwise
+	// three esds of the line. Zero means 0.03°.
+	Tolerance float64
+	// ZeroRange is the largest zero-point error searched, degrees 2θ.
+	// Zero means 0.1°; negative means the zero is fixed at 0.
+	ZeroRange float64
+	// MaxEdge is the longest cell edge considered, Å. Zero means 60 Å.
+	MaxEdge float64
+	// MaxVolume is the largest cell volume considered, Å³. Zero means
+	// 20,000 Å³.
+	MaxVolume float64
+	// SeedLines is how many of the first lines seed candidate cells.
+	// Zero means 5.
+	SeedLines int
+	// MaxM and MaxL bound the index vectors assigned to seed lines of
+	// two-parameter systems: h²+k² (or h²+hk+k²) ≤ MaxM and |l| ≤ MaxL;
+	// for cubic cells h²+k²+l² ≤ 2·MaxM+MaxL². Zero means 16 and 8.
+	MaxM, MaxL int
+	// MaxSolutions is how many ranked solutions are returned. Zero means
+	// 10.
+	MaxSolutions int
+}
+
+func (o Options) withDefaults() Options {
+	if o.Systems == nil {
+		o.Systems = []System{Cubic, Tetragonal, Hexagonal, Rhombohedral}
+	}
+	setDefault(&o.Lines, 20)
+	setDefault(&o.SeedLines, 5)
+	setDefault(&o.MaxM, 16)
+	setDefault(&o.MaxL, 8)
+	setDefault(&o.MaxSolutions, 10)
+	if o.MaxImpurities == 0 {
+		o.MaxImpurities = 3
+	} else if o.MaxImpurities < 0 {
+		o.MaxImpurities = 0
+	}
+	setDefault(&o.Tolerance, 0.03)
+	setDefault(&o.MaxEdge, 60)
+	setDefault(&o.MaxVolume, 20000)
+	if o.ZeroRange == 0 {
+		o.ZeroRange = 0.1
+	} else if o.ZeroRange < 0 {
+		o.ZeroRange = 0
+	}
+	return o
+}
+
+// setDefault replaces a zero value by its default.
+func setDefault[T int | float64](v *T, d T) {
+	if *v == 0 {
+		*v = d
+	}
+}
