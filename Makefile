@@ -36,7 +36,7 @@ static:
 	CGO_ENABLED=0 $(GO) build -o /dev/null ./cmd/reticle
 
 unit:
-	$(GO) test -count=1 ./...
+	$(GO) test -count=1 -timeout 45m ./...
 
 # The seed corpus of every fuzz target, run on its own so the log shows it.
 fuzz-seeds:
