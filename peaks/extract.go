@@ -258,10 +258,6 @@ func seed(md *model, cands []candidate, fwhm0 float64, o Options) []*component {
 		}
 		out = append(out, c)
 	}
-	if len(out) == 0 {
-		return out
-	}
-	_ = fwhm0
 	return out
 }
 

@@ -13,7 +13,6 @@ type component struct {
 	z                float64 // detection significance, σ
 	fixedShape       bool    // hold w and eta
 	flags            Flags
-	lo, hi           int     // fitting window, point indices [lo, hi)
 	b0, b1, xc       float64 // local background of its group at the last fit
 }
 
@@ -156,7 +155,6 @@ func (md *model) fitGroup(cs []*component, lo, hi int, base []float64) float64 {
 		c.sx, c.sh = sd(j), sd(j+1)
 		c.sw, c.seta = sd(j+2), sd(j+3)
 		c.b0, c.b1, c.xc = res.p[0], res.p[1], xc
-		c.lo, c.hi = lo, hi
 		if len(cs) > 1 {
 			c.flags |= FlagShared
 		} else {

@@ -1,7 +1,6 @@
 package peaks
 
 import (
-	"os"
 	"path/filepath"
 	"testing"
 )
@@ -28,5 +27,4 @@ func TestReadBenchLayouts(t *testing.T) {
 			t.Errorf("%s: esd column lost", f)
 		}
 	}
-	_ = os.Stdout
 }
