@@ -1,0 +1,136 @@
+package refine
+
+import (
+	"fmt"
+
+	"gonum.org/v1/gonum/stat/distuv"
+
+	"reticle/indexing"
+)
+
+// DefaultRadius is the goniometer radius assumed when none is given, in
+// mm: a typical laboratory Bragg–Brentano instrument (common practice;
+// the radius of each instrument is in its manual and should be set).
+const DefaultRadius = 240.0
+
+// DefaultFlagLimit is the |Δ/σ| above which a line is flagged as an
+// outlier when no limit is given (three standard deviations, common
+// practice).
+const DefaultFlagLimit = 3.0
+
+// Options control a refinement. The zero value of every field means its
+// documented default.
+type Options struct {
+	// Wavelength of the lines' radiation in Å (K-alpha1 for a doublet).
+	// Required.
+	Wavelength float64
+	// Zero refines a constant zero shift Δ2θ₀ added to every calculated
+	// angle.
+	Zero bool
+	// Displacement refines the sample displacement s, mm, which shifts
+	// each line by −2·s·cos θ/R.
+	Displacement bool
+	// Radius is the goniometer radius R in mm. Zero means DefaultRadius.
+	Radius float64
+	// FlagLimit is the |Δ/σ| above which a line is flagged. Zero means
+	// DefaultFlagLimit.
+	FlagLimit float64
+	// Standard, when set, is an internal standard mixed into the sample:
+	// the observations marked Standard fix the correction curve (Zero
+	// and/or Displacement, at least one required) with the standard's
+	// cell held at its stated value.
+	Standard *Standard
+	// Scaling chooses when the covariance is multiplied by the reduced
+	// χ². The zero value is ScaleSignificant.
+	Scaling Scaling
+	// MaxIterations bounds the Gauss–Newton iterations. Zero means 100.
+	MaxIterations int
+}
+
+func (o Options) withDefaults() Options {
+	if o.Radius == 0 {
+		o.Radius = DefaultRadius
+	}
+	if o.FlagLimit == 0 {
+		o.FlagLimit = DefaultFlagLimit
+	}
+	if o.MaxIterations == 0 {
+		o.MaxIterations = 100
+	}
+	return o
+}
+
+// An Observation is one observed line with its assignment.
+type Observation struct {
+	TwoTheta float64 // observed K-alpha1 position, degrees 2θ
+	ESD      float64 // esd of the position, degrees 2θ; must be > 0
+	// HKL are the indices of the calculated line it matches: several
+	// when reflections coincide; the first is used in the model.
+	HKL []indexing.HKL
+	// Standard marks a line of the internal standard.
+	Standard bool
+	// Excluded lines take no part in the fit; their residuals are still
+	// reported.
+	Excluded bool
+}
+
+// A Scaling is a convention for scaling the covariance by the reduced χ².
+type Scaling int
+
+// The scaling conventions. With line esds that are right, χ²_red
+// scatters about 1 (its standard deviation is √(2/ν) for ν degrees of
+// freedom), so scaling whenever it exceeds 1 inflates the uncertainties
+// of about half of all honest fits; ScaleSignificant scales only when the
+// excess is significant.
+const (
+	// ScaleSignificant multiplies the covariance by χ²_red when χ²
+	// exceeds the 95 % point of the χ² distribution with ν degrees of
+	// freedom: the positions then scatter more than their esds allow.
+	ScaleSignificant Scaling = iota
+	// ScaleAboveOne multiplies by χ²_red whenever it exceeds 1
+	// (conservative).
+	ScaleAboveOne
+	// ScaleAlways multiplies by χ²_red, above or below 1 (the esds of the
+	// lines are taken as relative weights only).
+	ScaleAlways
+	// ScaleNever keeps (JᵀWJ)⁻¹ (the esds of the lines are taken as
+	// exact).
+	ScaleNever
+)
+
+var scalingNames = [...]string{"significant", "above-one", "always", "never"}
+
+func (s Scaling) String() string {
+	if s >= 0 && int(s) < len(scalingNames) {
+		return scalingNames[s]
+	}
+	return "Scaling(?)"
+}
+
+// ParseScaling reads a scaling name as String prints it.
+func ParseScaling(name string) (Scaling, error) {
+	for i, n := range scalingNames {
+		if n == name {
+			return Scaling(i), nil
+		}
+	}
+	return 0, fmt.Errorf("refine: unknown scaling %q (want significant, above-one, always or never)", name)
+}
+
+// scale reports whether a fit with χ² over dof degrees of freedom has its
+// covariance multiplied by χ²/dof.
+func (s Scaling) scale(chi2 float64, dof int) bool {
+	if dof <= 0 {
+		return false
+	}
+	red := chi2 / float64(dof)
+	switch s {
+	case ScaleAboveOne:
+		return red > 1
+	case ScaleAlways:
+		return true
+	case ScaleNever:
+		return false
+	}
+	return chi2 > distuv.ChiSquared{K: float64(dof)}.Quantile(0.95)
+}
