@@ -196,6 +196,8 @@ func (c Cell) String() string {
 		return fmt.Sprintf("%s %s a=%.5f", c.System, c.Centring, c.A)
 	case Tetragonal, Hexagonal, Rhombohedral:
 		return fmt.Sprintf("%s %s a=%.5f c=%.5f", c.System, c.Centring, c.A, c.C)
+	case Orthorhombic:
+		return fmt.Sprintf("%s %s a=%.5f b=%.5f c=%.5f", c.System, c.Centring, c.A, c.B, c.C)
 	}
 	return fmt.Sprintf("%s %s a=%.5f b=%.5f c=%.5f α=%.3f β=%.3f γ=%.3f", c.System, c.Centring, c.A, c.B, c.C, c.Alpha, c.Beta, c.Gamma)
 }

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"strings"
 )
 
 // FormatESD prints a value with its standard uncertainty in crystallographic
@@ -33,4 +34,15 @@ func FormatESD(v, u float64) string {
 		return fmt.Sprintf("%.0f(%.0f)", math.Round(v/scale)*scale, digits*scale)
 	}
 	return fmt.Sprintf("%.*f(%.0f)", -e, v, digits)
+}
+
+// ParseESD reads a number in crystallographic notation, "5.6402(3)" →
+// 5.6402, 0.0003 (the digits in parentheses are the uncertainty in units
+// of the last digit); a plain number has uncertainty 0.
+func ParseESD(s string) (v, u float64, err error) {
+	v, u, err = cifNumber(strings.TrimSpace(s))
+	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+		return 0, 0, fmt.Errorf("%q is not a number with an optional uncertainty such as 5.6402(3)", s)
+	}
+	return v, u, nil
 }

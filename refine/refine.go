@@ -45,7 +45,7 @@ func Refine(ctx context.Context, cell indexing.Cell, obs []Observation, opt Opti
 			own = append(own, i)
 		}
 	}
-	res := &Result{Radius: opt.Radius, FlagLimit: opt.FlagLimit, Scaling: opt.Scaling}
+	res := &Result{Radius: opt.Radius, Wavelength: opt.Wavelength, FlagLimit: opt.FlagLimit, Scaling: opt.Scaling}
 	zero, disp := 0.0, 0.0
 	var corrCov *mat.SymDense
 	var corrNames []string

@@ -2,6 +2,7 @@ package refine
 
 import (
 	"fmt"
+	"math"
 	"strings"
 
 	"reticle/indexing"
@@ -35,9 +36,7 @@ type Residual struct {
 
 // CellESD holds the standard uncertainties of a cell's edges (Å) and
 // angles (degrees); fixed angles have zero uncertainty.
-type CellESD struct {
-	A, B, C, Alpha, Beta, Gamma float64
-}
+type CellESD = indexing.CellESD
 
 // A Result is a refined cell with its uncertainties.
 type Result struct {
@@ -50,6 +49,7 @@ type Result struct {
 	Displacement, DisplacementESD    float64 // mm; zero when not refined
 	ZeroRefined, DisplacementRefined bool
 	Radius                           float64 // goniometer radius used, mm
+	Wavelength                       float64 // Å
 
 	// Params lists the parameters in the order of Covariance and
 	// Correlation.
@@ -107,4 +107,14 @@ func (r *Result) String() string {
 	}
 	parts = append(parts, fmt.Sprintf("V = %s Å³", peaks.FormatESD(r.Volume, r.VolumeESD)))
 	return fmt.Sprintf("%s %s: %s; χ²_red = %.3g over %d lines", r.Cell.System, r.Cell.Centring, strings.Join(parts, ", "), r.Chi2Reduced, r.N)
+}
+
+// Position returns the calculated 2θ, degrees, of reflection hkl under the
+// refined cell and corrections; NaN beyond 180°.
+func (r *Result) Position(hkl indexing.HKL) float64 {
+	pt := eval(r.Cell.System, cellValues(r.Cell), hkl, r.Wavelength, r.Zero, r.Displacement, r.Radius)
+	if !pt.inside {
+		return math.NaN()
+	}
+	return pt.tt
 }

@@ -1,0 +1,190 @@
+package density
+
+import (
+	"math"
+	"testing"
+
+	"reticle/indexing"
+)
+
+// solid is a known solid: its cell (handbook values, from memory), Z, and
+// a handbook density (from memory) that the X-ray density must match.
+type solid struct {
+	name     string
+	formula  string
+	cell     indexing.Cell
+	z        int
+	handbook float64 // g/cm³, from memory of handbook tables
+}
+
+var solids = []solid{
+	// Rock salt: Z = 4 (common practice); 2.165 g/cm³.
+	{"rock salt", "NaCl", indexing.NewCell(indexing.Cubic, indexing.F, 5.6402, 0), 4, 2.165},
+	// Silver, fcc: Z = 4; 10.49 g/cm³.
+	{"silver", "Ag", indexing.NewCell(indexing.Cubic, indexing.F, 4.0862, 0), 4, 10.49},
+	// Silicon, diamond structure: 8 atoms per cell; 2.329 g/cm³.
+	{"silicon", "Si", indexing.NewCell(indexing.Cubic, indexing.F, 5.4310, 0), 8, 2.329},
+	// Tungsten, bcc: Z = 2; 19.25 g/cm³.
+	{"tungsten", "W", indexing.NewCell(indexing.Cubic, indexing.I, 3.1652, 0), 2, 19.25},
+	// Caesium chloride, primitive cubic: Z = 1; a = 4.123 Å; 3.988 g/cm³.
+	{"caesium chloride", "CsCl", indexing.NewCell(indexing.Cubic, indexing.P, 4.123, 0), 1, 3.988},
+	// Magnesium, hcp: Z = 2; a = 3.2094, c = 5.2108 Å; 1.738 g/cm³.
+	{"magnesium", "Mg", indexing.NewCell(indexing.Hexagonal, indexing.P, 3.2094, 5.2108), 2, 1.738},
+	// Rutile: Z = 2; a = 4.5937, c = 2.9587 Å; 4.25 g/cm³.
+	{"rutile", "TiO2", indexing.NewCell(indexing.Tetragonal, indexing.P, 4.5937, 2.9587), 2, 4.25},
+	// Corundum on hexagonal axes: Z = 6; a = 4.7589, c = 12.991 Å; 3.987 g/cm³.
+	{"corundum", "Al2O3", indexing.NewCell(indexing.Rhombohedral, indexing.R, 4.7589, 12.991), 6, 3.987},
+}
+
+// TestXRayDensities checks ρ = Z·M/(N_A·V) against handbook densities
+// (measured at room temperature, so agreement to 0.5 % is expected).
+func TestXRayDensities(t *testing.T) {
+	for _, s := range solids {
+		f, err := ParseFormula(s.formula)
+		if err != nil {
+			t.Fatal(err)
+		}
+		c, err := Compute(Input{Cell: s.cell, Formula: f, Z: s.z})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if d := math.Abs(c.Density-s.handbook) / s.handbook; d > 0.005 {
+			t.Errorf("%s: ρ = %.4f g/cm³, handbook %.3f (%.2f %%)", s.name, c.Density, s.handbook, 100*d)
+		}
+		t.Logf("%s: V = %.3f Å³, ρ = %.4f g/cm³ (handbook %.3f)", s.name, c.Volume, c.Density, s.handbook)
+	}
+}
+
+// TestRockSaltByHand works one density through by hand: V = 5.6402³ =
+// 179.4253 Å³ = 1.794253×10⁻²² cm³; M(NaCl) = 22.98977 + 35.45 = 58.43977
+// g/mol; ρ = 4 × 58.43977 / (6.02214076×10²³ × 1.794253×10⁻²²) =
+// 233.75908 / 108.05251 = 2.16339 g/cm³.
+func TestRockSaltByHand(t *testing.T) {
+	f, _ := ParseFormula("NaCl")
+	c, err := Compute(Input{Cell: indexing.NewCell(indexing.Cubic, indexing.F, 5.6402, 0), Formula: f, Z: 4})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(c.Volume-179.4253) > 1e-4 || math.Abs(c.MolarMass-58.43977) > 1e-5 || math.Abs(c.Density-2.16339) > 1e-5 {
+		t.Errorf("V %.4f, M %.5f, ρ %.5f", c.Volume, c.MolarMass, c.Density)
+	}
+	if c.AtomsPerCell != 8 || c.CellMass != 4*c.MolarMass || c.FormulaUnitsPerLattice != 1 {
+		t.Errorf("atoms %g, cell mass %g, per lattice point %g", c.AtomsPerCell, c.CellMass, c.FormulaUnitsPerLattice)
+	}
+}
+
+// TestSiteCounting checks the atoms-per-cell arithmetic from site lists
+// (corner 1/8, edge 1/4, face 1/2, inside 1; common practice): rock salt
+// holds 4 Na + 4 Cl, silicon 8 Si.
+func TestSiteCounting(t *testing.T) {
+	var rock, si []Site
+	for _, x := range []float64{0, 1} {
+		for _, y := range []float64{0, 1} {
+			for _, z := range []float64{0, 1} {
+				rock = append(rock, Site{"Na", x, y, z})
+				si = append(si, Site{"Si", x, y, z})
+			}
+		}
+	}
+	faces := [][3]float64{{0.5, 0.5, 0}, {0.5, 0.5, 1}, {0.5, 0, 0.5}, {0.5, 1, 0.5}, {0, 0.5, 0.5}, {1, 0.5, 0.5}}
+	for _, p := range faces {
+		rock = append(rock, Site{"Na", p[0], p[1], p[2]})
+		si = append(si, Site{"Si", p[0], p[1], p[2]})
+	}
+	// Cl on the twelve edge centres and the body centre.
+	for _, a := range []float64{0, 1} {
+		for _, b := range []float64{0, 1} {
+			rock = append(rock, Site{"Cl", 0.5, a, b}, Site{"Cl", a, 0.5, b}, Site{"Cl", a, b, 0.5})
+		}
+	}
+	rock = append(rock, Site{"Cl", 0.5, 0.5, 0.5})
+	// Silicon: four more inside, at the quarter positions.
+	for _, p := range [][3]float64{{0.25, 0.25, 0.25}, {0.75, 0.75, 0.25}, {0.75, 0.25, 0.75}, {0.25, 0.75, 0.75}} {
+		si = append(si, Site{"Si", p[0], p[1], p[2]})
+	}
+	n := CountAtoms(rock)
+	if n["Na"] != 4 || n["Cl"] != 4 {
+		t.Errorf("rock salt: %v, want 4 Na + 4 Cl", n)
+	}
+	if m := CountAtoms(si); m["Si"] != 8 {
+		t.Errorf("silicon: %v, want 8", m)
+	}
+	for _, test := range []struct {
+		s    Site
+		want float64
+	}{{Site{"X", 0, 0, 0}, 0.125}, {Site{"X", 0.5, 0, 1}, 0.25}, {Site{"X", 0.5, 0.5, 1}, 0.5}, {Site{"X", 0.3, 0.5, 0.9}, 1}} {
+		if got := test.s.Share(); got != test.want {
+			t.Errorf("%+v: share %g, want %g", test.s, got, test.want)
+		}
+	}
+}
+
+// TestZFromDensity gives each solid a "measured" density 2 % above and 2 %
+// below its X-ray density, with an esd of 1 %, and expects the right Z;
+// a cell with a wrong volume must come out not whole.
+func TestZFromDensity(t *testing.T) {
+	for _, s := range solids {
+		f, _ := ParseFormula(s.formula)
+		ref, _ := Compute(Input{Cell: s.cell, Formula: f, Z: s.z})
+		for _, k := range []float64{0.98, 1, 1.02} {
+			rho := ref.Density * k
+			c, err := Compute(Input{Cell: s.cell, Formula: f, Measured: &Measured{rho, 0.01 * rho}})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if c.Z != s.z || !c.ZInferred || !c.Whole {
+				t.Errorf("%s at %.2f×: Z = %d (est %.3f(%.3f), whole %v), want %d; candidates %v", s.name, k, c.Z, c.ZEst, c.ZEstESD, c.Whole, s.z, c.Candidates)
+			}
+		}
+		// The same density with a cell 10 % too long in a: the volume is
+		// 1.21–1.33 times too large and Z_est falls between allowed
+		// values.
+		wrong := s.cell
+		wrong.A *= 1.1
+		wrong.B *= 1.1
+		if s.cell.System == indexing.Cubic {
+			wrong.C *= 1.1
+		}
+		c, err := Compute(Input{Cell: wrong, Formula: f, Measured: &Measured{ref.Density, 0.01 * ref.Density}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if c.Whole {
+			t.Errorf("%s with a 10 %% longer a: Z_est %.3f(%.3f) accepted as whole (%v)", s.name, c.ZEst, c.ZEstESD, c.Candidates)
+		}
+	}
+}
+
+func TestVolumeESD(t *testing.T) {
+	// Cubic: σ_V = 3a²σ_a; hexagonal: V = (√3/2)a²c, σ_V² = (2V/a·σ_a)² + (V/c·σ_c)².
+	v, u := VolumeESD(indexing.NewCell(indexing.Cubic, indexing.F, 5.6402, 0), indexing.CellESD{A: 0.0003})
+	if math.Abs(v-179.4253) > 1e-4 || math.Abs(u-3*5.6402*5.6402*0.0003) > 1e-6 {
+		t.Errorf("cubic V = %.4f(%.6f)", v, u)
+	}
+	hex := indexing.NewCell(indexing.Hexagonal, indexing.P, 3.2094, 5.2108)
+	v, u = VolumeESD(hex, indexing.CellESD{A: 0.0002, C: 0.0004})
+	want := math.Hypot(2*v/3.2094*0.0002, v/5.2108*0.0004)
+	if math.Abs(u-want) > 1e-7 {
+		t.Errorf("hexagonal σ_V = %.7f, want %.7f", u, want)
+	}
+	// Triclinic: against the formula with all six esds.
+	tri := indexing.Cell{System: indexing.Orthorhombic, Centring: indexing.P, A: 5, B: 6, C: 7, Alpha: 80, Beta: 95, Gamma: 100}
+	if v, _ := VolumeESD(tri, indexing.CellESD{}); math.Abs(v-general(tri)) > 1e-9 {
+		t.Errorf("triclinic V %.6f vs %.6f", v, general(tri))
+	}
+}
+
+func TestComputeErrors(t *testing.T) {
+	f, _ := ParseFormula("NaCl")
+	cell := indexing.NewCell(indexing.Cubic, indexing.F, 5.64, 0)
+	for _, in := range []Input{
+		{Cell: cell},
+		{Cell: cell, Formula: f},
+		{Cell: indexing.Cell{}, Formula: f, Z: 4},
+		{Cell: cell, Formula: f, Measured: &Measured{-1, 0.1}},
+	} {
+		if _, err := Compute(in); err == nil {
+			t.Errorf("%+v accepted", in)
+		}
+	}
+}
