@@ -6,11 +6,15 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"math"
+	"sort"
 	"strings"
 	"text/tabwriter"
 
+	"reticle/density"
 	"reticle/indexing"
 	"reticle/peaks"
+	"reticle/refine"
 )
 
 // lineJSON is an observed line under a solution.
@@ -53,6 +57,12 @@ type solutionJSON struct {
 	Conditions []string   `json:"conditions,omitempty"`
 	Lines      []lineJSON `json:"lines"`
 	Calculated []calcJSON `json:"calculated"`
+	// The refinement of the cell against its indexed lines; absent, with
+	// RefineError saying why, when it could not be done.
+	*RefinedJSON
+	RefineError string `json:"refine_error,omitempty"`
+	// Contents, with --formula and --density or --z.
+	Contents *contentsJSON `json:"contents,omitempty"`
 }
 
 // indexJSON is the --json document of one scan.
@@ -73,8 +83,23 @@ func cmdIndex(args []string, stdout, stderr io.Writer) int {
 	systems := fs.String("systems", "", "comma-separated systems to search (default cubic,tetragonal,hexagonal,rhombohedral)")
 	impurities := fs.Int("impurities", 0, "lines among the first 20 that may stay unindexed (0: the default, 3; -1: none)")
 	tol := fs.Float64("tolerance", 0, "smallest 2θ window for a match, degrees (0: the default, 0.03)")
+	rf := addRefineFlags(fs, "zero")
+	cf := addContentsFlags(fs)
 	if err := fs.Parse(args); err != nil {
 		return 2
+	}
+	form, meas, err := cf.input()
+	if err != nil {
+		fmt.Fprintf(stderr, "reticle index: %v\n", err)
+		return 2
+	}
+	if cf.formula != "" && meas == nil && cf.z == 0 {
+		fmt.Fprintln(stderr, "reticle index: --formula needs a measured --density (or --z) to give each cell its contents")
+		return 2
+	}
+	var ci *contentsInput
+	if cf.formula != "" {
+		ci = &contentsInput{form, meas, cf.z}
 	}
 	if fs.NArg() == 0 {
 		fmt.Fprintln(stderr, "reticle index: no scan file given")
@@ -100,10 +125,18 @@ func cmdIndex(args []string, stdout, stderr io.Writer) int {
 			iopt.Systems = append(iopt.Systems, s)
 		}
 	}
+	if rf.standard != "" {
+		fmt.Fprintln(stderr, "reticle index: --standard belongs to reticle refine, which assigns the standard's lines")
+		return 2
+	}
+	if _, err := rf.options(1); err != nil {
+		fmt.Fprintf(stderr, "reticle index: %v\n", err)
+		return 2
+	}
 	var docs []indexJSON
 	status := 0
 	for _, path := range fs.Args() {
-		doc, err := indexFile(path, popt, iopt)
+		doc, err := indexFile(path, popt, iopt, rf, ci)
 		if err != nil {
 			fmt.Fprintf(stderr, "reticle index: %v\n", err)
 			status = 1
@@ -138,7 +171,7 @@ func encodeDocs[T any](w io.Writer, docs []T) error {
 
 // indexFile reads a scan, extracts its peaks and indexes the reflections
 // (companion lines left out).
-func indexFile(path string, popt peaks.Options, iopt indexing.Options) (indexJSON, error) {
+func indexFile(path string, popt peaks.Options, iopt indexing.Options, rf *refineFlags, ci *contentsInput) (indexJSON, error) {
 	s, err := peaks.ReadFile(path)
 	if err != nil {
 		return indexJSON{}, err
@@ -159,10 +192,97 @@ func indexFile(path string, popt peaks.Options, iopt indexing.Options) (indexJSO
 	if err != nil {
 		return indexJSON{}, fmt.Errorf("%s: %w", path, err)
 	}
+	ropt, err := rf.options(res.Wavelength)
+	if err != nil {
+		return indexJSON{}, err
+	}
 	for i, sol := range res.Solutions {
-		doc.Solutions = append(doc.Solutions, toSolutionJSON(i+1, sol, res.Wavelength))
+		j := toSolutionJSON(i+1, sol, res.Wavelength)
+		refineSolution(&j, sol, ropt)
+		if ci != nil {
+			addContents(&j, ci)
+		}
+		doc.Solutions = append(doc.Solutions, j)
+	}
+	if ci != nil && ci.measured != nil {
+		demoteFractionalZ(doc.Solutions)
 	}
 	return doc, nil
+}
+
+// contentsInput is the formula and the measured density or Z that index
+// applies to every solution.
+type contentsInput struct {
+	formula  density.Formula
+	measured *density.Measured
+	z        int
+}
+
+// addContents works out a solution's cell contents.
+func addContents(j *solutionJSON, ci *contentsInput) {
+	cell := indexing.Cell{System: systemOf(j.System), Centring: indexing.Centring(j.Centring[0]), A: j.A, B: j.B, C: j.C, Alpha: j.Alpha, Beta: j.Beta, Gamma: j.Gamma}
+	var vesd float64
+	if j.RefinedJSON != nil {
+		vesd = j.VolumeESD
+	}
+	c, err := density.Compute(density.Input{Cell: cell, VolumeESD: vesd, Formula: ci.formula, Z: ci.z, Measured: ci.measured})
+	if err != nil {
+		return
+	}
+	cj := toContentsJSON(c, ci.formula, ci.measured)
+	j.Contents = &cj
+}
+
+func systemOf(name string) indexing.System {
+	s, _ := indexing.ParseSystem(name)
+	return s
+}
+
+// demoteFractionalZ moves solutions whose measured density gives no whole
+// Z below those that do, keeping the order within each group, and renumbers
+// the ranks: a Z far from every allowed value is evidence against a cell.
+func demoteFractionalZ(sols []solutionJSON) {
+	sort.SliceStable(sols, func(a, b int) bool {
+		return wholeZ(sols[a]) && !wholeZ(sols[b])
+	})
+	for i := range sols {
+		sols[i].Rank = i + 1
+	}
+}
+
+func wholeZ(s solutionJSON) bool {
+	return s.Contents == nil || s.Contents.ZWhole == nil || *s.Contents.ZWhole
+}
+
+// refineSolution refines a solution's cell against its indexed lines and
+// puts the refined cell, corrections and residuals into its document.
+func refineSolution(j *solutionJSON, sol indexing.Solution, ropt refine.Options) {
+	var obs []refine.Observation
+	var at []int
+	for i, l := range sol.Lines {
+		if l.Indexed && l.ESD > 0 {
+			obs = append(obs, refine.Observation{TwoTheta: l.TwoTheta, ESD: l.ESD, HKL: l.HKL})
+			at = append(at, i)
+		}
+	}
+	r, err := refine.Refine(context.Background(), sol.Cell, obs, ropt)
+	if err != nil {
+		j.RefineError = err.Error()
+		return
+	}
+	c := r.Cell
+	j.A, j.B, j.C, j.Volume, j.Zero = c.A, c.B, c.C, r.Volume, r.Zero
+	for k, rr := range r.Residuals {
+		j.Lines[at[k]].TwoThetaCalc = rr.TwoThetaCalc
+		j.Lines[at[k]].Delta = rr.Delta
+	}
+	for k, cl := range sol.Calculated {
+		if tt := r.Position(cl.HKL[0]); !math.IsNaN(tt) {
+			j.Calculated[k].TwoTheta = tt
+		}
+	}
+	rj := toRefinedJSON(r)
+	j.RefinedJSON = &rj
 }
 
 func hkls(v []indexing.HKL) [][3]int {

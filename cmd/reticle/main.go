@@ -5,6 +5,9 @@
 // Usage:
 //
 //	reticle peaks [--wavelength W] [--ka2-ratio R] [--threshold Z] [--background-width D] [--json] FILE...
+//	reticle index [--wavelength W] [--systems LIST] [--corrections LIST] [--json] FILE...
+//	reticle contents --cell CELL --formula F [--z N | --density D] [--json]
+//	reticle refine --cell CELL [--corrections LIST] [--standard S] [--exclude LIST] [--json] FILE...
 //
 // W is an anode symbol (Cu, Co, Cr, Fe, Mo, Ag: the K-alpha doublet), an
 // anode with Ka1 (CuKa1: K-alpha1 alone) or a wavelength in Å (one line).
@@ -27,6 +30,10 @@ const usage = `reticle: powder diffraction scans from the command line
 usage:
   reticle peaks [options] FILE...   find and fit the peaks of each scan
   reticle index [options] FILE...   find the unit cell from the peaks of each scan
+  reticle refine --cell CELL [options] FILE...
+                                    refine a known cell against the peaks of each scan
+  reticle contents --cell CELL --formula F (--z N | --density D)
+                                    formula units, X-ray density and atoms per cell
 
 options of peaks:
   --wavelength W          radiation (see below)
@@ -39,6 +46,28 @@ options of index (and --wavelength, --json as above):
   --systems LIST          systems to search, default cubic,tetragonal,hexagonal,rhombohedral
   --impurities N          lines among the first 20 that may stay unindexed, default 3 (-1: none)
   --tolerance D           smallest 2θ window for a match in degrees, default 0.03
+  --corrections LIST      refine zero, displacement, both or none; default zero
+  --radius R              goniometer radius for the displacement, mm, default 240
+  --flag-limit K          flag lines with |Δ/σ| above K, default 3
+  --scaling S             scale esds by χ²_red when: significant (default: χ²
+                          beyond its 95 % point), above-one, always, never
+
+options of refine (and all of index's refinement options):
+  --cell CELL             the starting cell, e.g. 'tetragonal P a=4.59 c=2.96';
+                          systems cubic, tetragonal, hexagonal, rhombohedral
+                          (hexagonal axes), orthorhombic; values may carry
+                          esds, a=5.6402(3)
+  --standard S            internal standard mixed into the sample: Si, LaB6,
+                          Si-640c, Si-640d, LaB6-660a, LaB6-660c (NIST
+                          certificates, from memory) or a cell; its lines fix
+                          the corrections (default then both)
+  --exclude LIST          2θ of lines to leave out of the fit, degrees
+
+options of contents (index accepts --formula, --density and --z too):
+  --formula F             one formula unit: MgAl2O4, Fe0.95O, Ca3(PO4)2, CuSO4·5H2O
+  --density D             measured density in g/cm³ with esd, e.g. 3.58(2)
+                          (no esd: 1 % is assumed)
+  --z N                   formula units per cell
 
 W is an anode (Cu, Co, Cr, Fe, Mo, Ag: K-alpha1/K-alpha2 doublet), an anode
 with Ka1 (CuKa1: K-alpha1 only) or a wavelength in angstrom (one line).
@@ -57,6 +86,10 @@ func run(args []string, stdout, stderr io.Writer) int {
 		return cmdPeaks(args[1:], stdout, stderr)
 	case "index":
 		return cmdIndex(args[1:], stdout, stderr)
+	case "refine":
+		return cmdRefine(args[1:], stdout, stderr)
+	case "contents":
+		return cmdContents(args[1:], stdout, stderr)
 	case "help", "-h", "--help":
 		fmt.Fprint(stdout, usage)
 		return 0
