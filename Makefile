@@ -11,9 +11,11 @@ DEMO      := assets/demo/kiln-trial-07.xy
 BIN       := bin
 # Debian/Ubuntu packages that Fyne's OpenGL driver builds against.
 SYSTEM_PKGS := gcc pkg-config libgl1-mesa-dev xorg-dev
+# Packages the tests use: pdftotext reads the reports' text layer.
+TEST_PKGS := poppler-utils
 FUZZTIME  ?= 10s
 
-.PHONY: run test build deps fmt-check vet static unit fuzz-seeds fuzz bench bench-score clean
+.PHONY: run test build deps test-deps install-pkgs fmt-check vet static unit fuzz-seeds fuzz bench bench-score clean
 
 run: deps build
 	$(BIN)/reticle peaks --wavelength Cu $(DEMO)
@@ -22,7 +24,7 @@ run: deps build
 build:
 	$(GO) build -o $(BIN)/reticle ./cmd/reticle
 
-test: fmt-check vet static unit fuzz-seeds
+test: test-deps fmt-check vet static unit fuzz-seeds
 
 fmt-check:
 	@out=$$(gofmt -l $$(git ls-files '*.go' 2>/dev/null || find . -name '*.go')); \
@@ -59,9 +61,16 @@ bench-score: build
 	python3 ../shared/bench/score.py --cmd '$(BIN)/reticle index --json' --data ../shared/bench/public
 
 deps:
+	@$(MAKE) --no-print-directory install-pkgs PKGS="$(SYSTEM_PKGS)" WHY="Fyne's requirements: a C compiler, pkg-config and the OpenGL and X11 development headers"
+
+test-deps:
+	@$(MAKE) --no-print-directory install-pkgs PKGS="$(TEST_PKGS)" WHY="poppler-utils (pdftotext)"
+
+# Installs the Debian/Ubuntu packages in PKGS that are missing.
+install-pkgs:
 	@missing=""; \
 	if command -v dpkg-query >/dev/null 2>&1; then \
-	  for p in $(SYSTEM_PKGS); do \
+	  for p in $(PKGS); do \
 	    dpkg-query -W -f='$${Status}' $$p 2>/dev/null | grep -q 'install ok installed' || missing="$$missing $$p"; \
 	  done; \
 	  if [ -n "$$missing" ]; then \
@@ -70,7 +79,7 @@ deps:
 	    $$SUDO apt-get update -qq && DEBIAN_FRONTEND=noninteractive $$SUDO apt-get install -y -qq $$missing; \
 	  fi; \
 	else \
-	  echo "not a Debian or Ubuntu system: install a C compiler, pkg-config and the OpenGL and X11 development headers (Fyne's requirements) yourself"; \
+	  echo "not a Debian or Ubuntu system: install $(WHY) yourself"; \
 	fi
 
 clean:

@@ -9,41 +9,8 @@ import (
 	"reticle/density"
 	"reticle/indexing"
 	"reticle/peaks"
+	"reticle/report"
 )
-
-// contentsJSON is the cell-contents document (and the part of an index
-// solution that describes its contents).
-type contentsJSON struct {
-	Formula           string       `json:"formula"`
-	MolarMass         float64      `json:"molar_mass"`
-	MolarMassESD      float64      `json:"molar_mass_esd"`
-	NoStandardWeight  bool         `json:"no_standard_weight,omitempty"`
-	Volume            float64      `json:"volume"`
-	VolumeESD         float64      `json:"volume_esd"`
-	LatticePoints     int          `json:"lattice_points"`
-	Z                 int          `json:"z"`
-	ZFromDensity      bool         `json:"z_from_density"`
-	ZEst              *float64     `json:"z_estimated,omitempty"`
-	ZEstESD           *float64     `json:"z_estimated_esd,omitempty"`
-	ZWhole            *bool        `json:"z_whole,omitempty"`
-	Candidates        []zCandidate `json:"z_candidates,omitempty"`
-	Density           float64      `json:"density_xray"`
-	DensityESD        float64      `json:"density_xray_esd"`
-	DensityText       string       `json:"density_xray_text"`
-	Measured          *float64     `json:"density_measured,omitempty"`
-	MeasuredESD       *float64     `json:"density_measured_esd,omitempty"`
-	Discrepancy       *float64     `json:"density_discrepancy_sigma,omitempty"`
-	AtomsPerCell      float64      `json:"atoms_per_cell"`
-	CellMass          float64      `json:"formula_mass_per_cell"`
-	UnitsPerLattice   float64      `json:"formula_units_per_lattice_point"`
-	AvogadroConstant  float64      `json:"avogadro_constant"`
-	AtomicWeightTable string       `json:"atomic_weights"`
-}
-
-type zCandidate struct {
-	Z     int     `json:"z"`
-	Sigma float64 `json:"sigma"`
-}
 
 // contentsFlags are the flags that give a formula and Z or a density.
 type contentsFlags struct {
@@ -76,35 +43,12 @@ func (f *contentsFlags) input() (density.Formula, *density.Measured, error) {
 	}
 	var m *density.Measured
 	if f.density != "" {
-		v, u, err := peaks.ParseESD(f.density)
-		if err != nil || !(v > 0) {
-			return density.Formula{}, nil, fmt.Errorf("--density: want a density in g/cm³ such as 2.16(1), got %q", f.density)
+		m, err = report.ParseDensity(f.density)
+		if err != nil {
+			return density.Formula{}, nil, fmt.Errorf("--%v", err)
 		}
-		if u == 0 {
-			u = 0.01 * v
-		}
-		m = &density.Measured{Density: v, ESD: u}
 	}
 	return form, m, nil
-}
-
-func toContentsJSON(c *density.Contents, f density.Formula, m *density.Measured) contentsJSON {
-	j := contentsJSON{
-		Formula: f.Text, MolarMass: c.MolarMass, MolarMassESD: c.MolarMassESD, NoStandardWeight: c.NoStandardWeight,
-		Volume: c.Volume, VolumeESD: c.VolumeESD, LatticePoints: c.LatticePoints, Z: c.Z, ZFromDensity: c.ZInferred,
-		Density: c.Density, DensityESD: c.DensityESD, DensityText: peaks.FormatESD(c.Density, c.DensityESD),
-		AtomsPerCell: c.AtomsPerCell, CellMass: c.CellMass, UnitsPerLattice: c.FormulaUnitsPerLattice,
-		AvogadroConstant: density.Avogadro, AtomicWeightTable: "IUPAC 2021 standard atomic weights (conventional values for intervals)",
-	}
-	if m != nil {
-		ze, zu, w, d := c.ZEst, c.ZEstESD, c.Whole, c.Discrepancy
-		j.ZEst, j.ZEstESD, j.ZWhole, j.Discrepancy = &ze, &zu, &w, &d
-		j.Measured, j.MeasuredESD = &m.Density, &m.ESD
-		for _, k := range c.Candidates {
-			j.Candidates = append(j.Candidates, zCandidate{k.Z, finite(k.Sigma)})
-		}
-	}
-	return j
 }
 
 func cmdContents(args []string, stdout, stderr io.Writer) int {
@@ -144,9 +88,9 @@ func cmdContents(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "reticle contents: %v\n", err)
 		return 1
 	}
-	j := toContentsJSON(c, form, meas)
+	j := report.NewContents(c, form, meas)
 	if *asJSON {
-		if err := encodeDocs(stdout, []contentsJSON{j}); err != nil {
+		if err := encodeDocs(stdout, []report.Contents{j}); err != nil {
 			fmt.Fprintf(stderr, "reticle contents: %v\n", err)
 			return 1
 		}
@@ -156,7 +100,7 @@ func cmdContents(args []string, stdout, stderr io.Writer) int {
 	return 0
 }
 
-func printContents(w io.Writer, cell indexing.Cell, j contentsJSON) {
+func printContents(w io.Writer, cell indexing.Cell, j report.Contents) {
 	fmt.Fprintf(w, "%s, %s\n", cell, j.Formula)
 	fmt.Fprintf(w, "  molar mass            %s g/mol\n", peaks.FormatESD(j.MolarMass, j.MolarMassESD))
 	fmt.Fprintf(w, "  cell volume           %s Å³\n", peaks.FormatESD(j.Volume, j.VolumeESD))

@@ -6,6 +6,7 @@
 //
 //	reticle peaks [--wavelength W] [--ka2-ratio R] [--threshold Z] [--background-width D] [--json] FILE...
 //	reticle index [--wavelength W] [--systems LIST] [--corrections LIST] [--json] FILE...
+//	reticle report --out DIR [--sample NAME] [--formula F --density D] [--force] FILE...
 //	reticle contents --cell CELL --formula F [--z N | --density D] [--json]
 //	reticle refine --cell CELL [--corrections LIST] [--standard S] [--exclude LIST] [--json] FILE...
 //
@@ -34,6 +35,9 @@ usage:
                                     refine a known cell against the peaks of each scan
   reticle contents --cell CELL --formula F (--z N | --density D)
                                     formula units, X-ray density and atoms per cell
+  reticle report --out DIR [index options] FILE...
+  reticle report --out DIR --session FILE
+                                    write the PDF, CIF, CSV and JSON records
 
 options of peaks:
   --wavelength W          radiation (see below)
@@ -69,6 +73,15 @@ options of contents (index accepts --formula, --density and --z too):
                           (no esd: 1 % is assumed)
   --z N                   formula units per cell
 
+options of report (and every option of index):
+  --out DIR               directory for NAME.pdf, NAME.cif, NAME.csv, NAME.json
+                          (NAME: --sample, else the scan's file name)
+  --sample NAME           sample name printed in the records
+  --paper P               A4 (default) or Letter
+  --solution N            report the solution ranked N (default the best)
+  --session FILE          regenerate from a session or an earlier report's JSON
+  --force                 replace existing files (otherwise nothing is written)
+
 W is an anode (Cu, Co, Cr, Fe, Mo, Ag: K-alpha1/K-alpha2 doublet), an anode
 with Ka1 (CuKa1: K-alpha1 only) or a wavelength in angstrom (one line).
 Without --wavelength the file's stated wavelength is used (one line), else
@@ -90,6 +103,8 @@ func run(args []string, stdout, stderr io.Writer) int {
 		return cmdRefine(args[1:], stdout, stderr)
 	case "contents":
 		return cmdContents(args[1:], stdout, stderr)
+	case "report":
+		return cmdReport(args[1:], stdout, stderr)
 	case "help", "-h", "--help":
 		fmt.Fprint(stdout, usage)
 		return 0

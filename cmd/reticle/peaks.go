@@ -8,38 +8,17 @@ import (
 	"text/tabwriter"
 
 	"reticle/peaks"
+	"reticle/report"
 )
 
 // peakJSON is one peak in the --json document.
-type peakJSON struct {
-	TwoTheta    float64 `json:"two_theta"`
-	TwoThetaESD float64 `json:"two_theta_esd"`
-	D           float64 `json:"d"`
-	DESD        float64 `json:"d_esd"`
-	Height      float64 `json:"height"`
-	HeightESD   float64 `json:"height_esd"`
-	Area        float64 `json:"area"`
-	AreaESD     float64 `json:"area_esd"`
-	FWHM        float64 `json:"fwhm"`
-	FWHMESD     float64 `json:"fwhm_esd"`
-	Eta         float64 `json:"eta"`
-	Background  float64 `json:"background"`
-	SNR         float64 `json:"snr"`
-	Flags       string  `json:"flags,omitempty"`
-	CompanionOf *int    `json:"companion_of,omitempty"`
-}
+type peakJSON = report.Peak
 
 // scanJSON is the --json document for one scan.
 type scanJSON struct {
-	File       string     `json:"file"`
-	SHA256     string     `json:"sha256"`
-	Points     int        `json:"points"`
-	Range      [2]float64 `json:"range_two_theta"`
-	Step       float64    `json:"step"`
-	Radiation  string     `json:"radiation"`
-	Wavelength float64    `json:"wavelength"`
-	Warnings   []string   `json:"warnings,omitempty"`
-	Peaks      []peakJSON `json:"peaks"`
+	report.ScanInfo
+	Warnings []string   `json:"warnings,omitempty"`
+	Peaks    []peakJSON `json:"peaks"`
 }
 
 func cmdPeaks(args []string, stdout, stderr io.Writer) int {
@@ -105,24 +84,12 @@ func cmdPeaks(args []string, stdout, stderr io.Writer) int {
 }
 
 func toJSON(s *peaks.Scan, res *peaks.Result) scanJSON {
-	lo, hi := s.Range()
 	doc := scanJSON{
-		File: s.Path, SHA256: s.SHA256, Points: s.Len(), Range: [2]float64{lo, hi}, Step: s.Step(),
-		Radiation: res.Radiation.Name, Wavelength: res.Radiation.Lambda1, Warnings: s.Warnings,
+		ScanInfo: report.NewScanInfo(s, res.Radiation), Warnings: s.Warnings,
 		Peaks: []peakJSON{},
 	}
 	for _, p := range res.Peaks {
-		j := peakJSON{
-			TwoTheta: p.TwoTheta, TwoThetaESD: p.TwoThetaESD, D: p.D, DESD: p.DESD,
-			Height: p.Height, HeightESD: p.HeightESD, Area: p.Area, AreaESD: p.AreaESD,
-			FWHM: p.FWHM, FWHMESD: p.FWHMESD, Eta: p.Eta, Background: p.Background, SNR: p.SNR,
-			Flags: p.Flags.String(),
-		}
-		if p.Parent >= 0 {
-			parent := p.Parent
-			j.CompanionOf = &parent
-		}
-		doc.Peaks = append(doc.Peaks, j)
+		doc.Peaks = append(doc.Peaks, report.NewPeak(p))
 	}
 	return doc
 }

@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"math"
 	"os"
+	"reticle/report"
 	"sort"
 	"strings"
 	"testing"
@@ -126,12 +127,12 @@ func TestLabScans(t *testing.T) {
 			if code != 0 {
 				t.Fatalf("%s: %s", tr.File, errs)
 			}
-			var doc struct{ Solutions []solutionJSON }
+			var doc struct{ Solutions []report.Solution }
 			if err := json.Unmarshal([]byte(out), &doc); err != nil || len(doc.Solutions) == 0 {
 				t.Fatalf("%s: %v", tr.File, err)
 			}
 			s := doc.Solutions[0]
-			if s.RefinedJSON == nil {
+			if s.Refined == nil {
 				t.Errorf("%s: not refined: %s", tr.File, s.RefineError)
 				continue
 			}
@@ -158,7 +159,7 @@ func TestContentsCommand(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	var c contentsJSON
+	var c report.Contents
 	if err := json.Unmarshal([]byte(out), &c); err != nil {
 		t.Fatal(err)
 	}
@@ -181,8 +182,8 @@ func TestContentsCommand(t *testing.T) {
 		{[]string{"contents", "--cell", "cubic F a=5.64", "--formula", "NaCl"}, 2, "give --z N or a measured --density"},
 		{[]string{"contents", "--cell", "cubic F a=5.64", "--formula", "NaCl", "--density", "heavy"}, 2, "--density"},
 		{[]string{"contents", "--cell", "cubic F a=5.64", "--formula", "NaCl", "--z", "4", demo}, 2, "unexpected argument"},
-		{[]string{"index", "--formula", "NaCl", demo}, 2, "needs a measured --density"},
-		{[]string{"index", "--density", "2.1", demo}, 2, "need --formula"},
+		{[]string{"index", "--formula", "NaCl", demo}, 2, "needs a measured density"},
+		{[]string{"index", "--density", "2.1", demo}, 2, "needs a formula"},
 	} {
 		code, _, errs := runCmd(test.args...)
 		if code != test.code || !strings.Contains(errs, test.msg) {
@@ -200,7 +201,7 @@ func TestIndexWithDensity(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	var doc struct{ Solutions []solutionJSON }
+	var doc struct{ Solutions []report.Solution }
 	if err := json.Unmarshal([]byte(out), &doc); err != nil {
 		t.Fatal(err)
 	}

@@ -12,36 +12,25 @@ import (
 	"reticle/indexing"
 	"reticle/peaks"
 	"reticle/refine"
+	"reticle/report"
 )
 
 // standardJSON describes the internal standard's part of a refinement.
 type standardJSON struct {
-	Name        string         `json:"name"`
-	Source      string         `json:"source"`
-	Cell        string         `json:"cell"`
-	Lines       int            `json:"lines"`
-	Chi2Reduced float64        `json:"chi2_reduced"`
-	Residuals   []residualJSON `json:"residuals"`
+	Name        string            `json:"name"`
+	Source      string            `json:"source"`
+	Cell        string            `json:"cell"`
+	Lines       int               `json:"lines"`
+	Chi2Reduced float64           `json:"chi2_reduced"`
+	Residuals   []report.Residual `json:"residuals"`
 }
 
 // refineDocJSON is the --json document of reticle refine.
 type refineDocJSON struct {
-	File       string  `json:"file"`
-	SHA256     string  `json:"sha256"`
-	Radiation  string  `json:"radiation"`
-	Wavelength float64 `json:"wavelength"`
-	StartCell  string  `json:"start_cell"`
-	System     string  `json:"system"`
-	Centring   string  `json:"centring"`
-	A          float64 `json:"a"`
-	B          float64 `json:"b"`
-	C          float64 `json:"c"`
-	Alpha      float64 `json:"alpha"`
-	Beta       float64 `json:"beta"`
-	Gamma      float64 `json:"gamma"`
-	Volume     float64 `json:"volume"`
-	Zero       float64 `json:"zero_shift"`
-	RefinedJSON
+	report.ScanInfo
+	StartCell string `json:"start_cell"`
+	report.CellValues
+	report.Refined
 	Standard   *standardJSON `json:"standard,omitempty"`
 	Unmatched  []float64     `json:"unmatched_lines"`
 	Overlapped []float64     `json:"overlapped_lines,omitempty"`
@@ -148,11 +137,9 @@ func refineFile(path string, cell indexing.Cell, cellText string, popt peaks.Opt
 	if err != nil {
 		return refineDocJSON{}, fmt.Errorf("%s: %w", path, err)
 	}
-	c := r.Cell
 	doc := refineDocJSON{
-		File: path, SHA256: s.SHA256, Radiation: pr.Radiation.Name, Wavelength: pr.Radiation.Lambda1, StartCell: cellText,
-		System: c.System.String(), Centring: c.Centring.String(), A: c.A, B: c.B, C: c.C, Alpha: c.Alpha, Beta: c.Beta, Gamma: c.Gamma,
-		Volume: r.Volume, Zero: r.Zero, RefinedJSON: toRefinedJSON(r), Unmatched: []float64{},
+		ScanInfo: report.NewScanInfo(s, pr.Radiation), StartCell: cellText,
+		CellValues: report.NewCellValues(r.Cell, r.Volume, r.Zero), Refined: report.NewRefined(r), Unmatched: []float64{},
 	}
 	for _, l := range r.Unmatched {
 		doc.Unmatched = append(doc.Unmatched, l.TwoTheta)
@@ -161,9 +148,9 @@ func refineFile(path string, cell indexing.Cell, cellText string, popt peaks.Opt
 		doc.Overlapped = append(doc.Overlapped, l.TwoTheta)
 	}
 	if sf := r.StandardFit; sf != nil {
-		sj := &standardJSON{Name: sf.Standard.Name, Source: sf.Standard.Source, Cell: sf.Standard.Cell.String(), Lines: sf.N, Chi2Reduced: sf.Chi2Reduced, Residuals: []residualJSON{}}
+		sj := &standardJSON{Name: sf.Standard.Name, Source: sf.Standard.Source, Cell: sf.Standard.Cell.String(), Lines: sf.N, Chi2Reduced: sf.Chi2Reduced, Residuals: []report.Residual{}}
 		for _, rr := range sf.Residuals {
-			sj.Residuals = append(sj.Residuals, toResidualJSON(rr))
+			sj.Residuals = append(sj.Residuals, report.NewResidual(rr))
 		}
 		doc.Standard = sj
 	}
@@ -227,7 +214,7 @@ func printRefinement(w io.Writer, d refineDocJSON) {
 	fmt.Fprintln(w)
 }
 
-func printResiduals(w io.Writer, title string, rs []residualJSON) {
+func printResiduals(w io.Writer, title string, rs []report.Residual) {
 	fmt.Fprintf(w, "%s:\n", title)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "hkl\t2θ obs (°)\tesd\t2θ calc (°)\tΔ2θ (°)\tΔ/σ\t\t")
@@ -244,7 +231,7 @@ func printResiduals(w io.Writer, title string, rs []residualJSON) {
 	tw.Flush()
 }
 
-func countExcluded(rs []residualJSON) int {
+func countExcluded(rs []report.Residual) int {
 	n := 0
 	for _, r := range rs {
 		if r.Excluded {

@@ -7,6 +7,7 @@ import (
 
 	"reticle/indexing"
 	"reticle/refine"
+	"reticle/report"
 )
 
 // refineFlags are the refinement options shared by index and refine.
@@ -30,31 +31,11 @@ func addRefineFlags(fs *flag.FlagSet, defaultCorrections string) *refineFlags {
 
 // options turns the flags into refinement options for wavelength λ in Å.
 func (f *refineFlags) options(lambda float64) (refine.Options, error) {
-	o := refine.Options{Wavelength: lambda, Radius: f.radius, FlagLimit: f.flagLimit}
-	for _, c := range strings.Split(f.corrections, ",") {
-		switch strings.TrimSpace(strings.ToLower(c)) {
-		case "zero":
-			o.Zero = true
-		case "displacement":
-			o.Displacement = true
-		case "both":
-			o.Zero, o.Displacement = true, true
-		case "none", "":
-		default:
-			return o, fmt.Errorf("--corrections: unknown correction %q (want zero, displacement, both or none)", c)
-		}
-	}
-	if !(f.radius > 0) {
-		return o, fmt.Errorf("--radius: want a positive radius in mm, got %g", f.radius)
-	}
-	if !(f.flagLimit > 0) {
-		return o, fmt.Errorf("--flag-limit: want a positive number of esds, got %g", f.flagLimit)
-	}
-	sc, err := refine.ParseScaling(f.scaling)
+	o, err := report.RefineOptions(f.corrections, f.radius, f.flagLimit, f.scaling)
 	if err != nil {
-		return o, fmt.Errorf("--scaling: %v", err)
+		return o, fmt.Errorf("--%v", err)
 	}
-	o.Scaling = sc
+	o.Wavelength = lambda
 	if f.standard != "" {
 		st, err := standardFlag(f.standard)
 		if err != nil {

@@ -1,0 +1,66 @@
+package main
+
+import (
+	"bytes"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+	"time"
+)
+
+func TestReportCommand(t *testing.T) {
+	dir := t.TempDir()
+	date := time.Date(2026, 12, 1, 9, 0, 0, 0, time.UTC)
+	var out, errb bytes.Buffer
+	args := []string{"--out", dir, "--sample", "kiln 07", "--formula", "MgAl2O4", "--density", "3.58(2)", demo}
+	if code := reportAt(args, &out, &errb, date); code != 0 {
+		t.Fatalf("exit %d: %s", code, errb.String())
+	}
+	files := strings.Fields(out.String())
+	if len(files) != 4 {
+		t.Fatalf("wrote %q", files)
+	}
+	for _, f := range files {
+		if st, err := os.Stat(f); err != nil || st.Size() == 0 {
+			t.Errorf("%s: %v", f, err)
+		}
+	}
+	jsonPath := filepath.Join(dir, "kiln-07.json")
+	first, _ := os.ReadFile(jsonPath)
+	// Again without --force: refused, nothing changed.
+	out.Reset()
+	errb.Reset()
+	if code := reportAt(args, &out, &errb, date); code != 1 || !strings.Contains(errb.String(), "--force") {
+		t.Errorf("second run: exit %d, %q", code, errb.String())
+	}
+	// Regenerated from the report's own JSON, into another directory.
+	dir2 := t.TempDir()
+	out.Reset()
+	errb.Reset()
+	if code := reportAt([]string{"--out", dir2, "--session", jsonPath}, &out, &errb, date); code != 0 {
+		t.Fatalf("--session: exit %d: %s", code, errb.String())
+	}
+	again, _ := os.ReadFile(filepath.Join(dir2, "kiln-07.json"))
+	if !bytes.Equal(first, again) {
+		t.Error("the JSON regenerated from --session differs")
+	}
+	for _, test := range []struct {
+		args []string
+		code int
+		msg  string
+	}{
+		{[]string{"report", demo}, 2, "--out DIR is required"},
+		{[]string{"report", "--out", dir, "--paper", "A3", demo}, 2, "unknown paper"},
+		{[]string{"report", "--out", dir}, 2, "no scan file"},
+		{[]string{"report", "--out", dir, "--session", jsonPath, demo}, 2, "not both"},
+		{[]string{"report", "--out", dir, "--session", demo}, 1, "not JSON"},
+		{[]string{"report", "--out", filepath.Join(dir, "missing"), "--force", demo}, 1, "no such file"},
+		{[]string{"report", "--out", dir2, "--force", "--solution", "99", demo}, 1, "no solution 99"},
+	} {
+		code, _, errs := runCmd(test.args...)
+		if code != test.code || !strings.Contains(errs, test.msg) {
+			t.Errorf("%v: exit %d, stderr %q; want %d and %q", test.args, code, errs, test.code, test.msg)
+		}
+	}
+}

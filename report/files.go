@@ -1,0 +1,158 @@
+package report
+
+import (
+	"bytes"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"strings"
+	"time"
+)
+
+// WriteJSON writes the document as `reticle index --json` prints it.
+func WriteJSON(w io.Writer, doc *Document) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", " ")
+	return enc.Encode(doc)
+}
+
+// ReadJSON reads a document written by WriteJSON (its settings regenerate
+// the analysis).
+func ReadJSON(r io.Reader) (*Document, error) {
+	var d Document
+	dec := json.NewDecoder(r)
+	if err := dec.Decode(&d); err != nil {
+		return nil, fmt.Errorf("report: reading a result document: %w", err)
+	}
+	if d.Program != Program || d.Schema < 1 || d.Schema > Schema {
+		return nil, fmt.Errorf("report: not a %s result document of schema 1–%d (program %q, schema %d)", Program, Schema, d.Program, d.Schema)
+	}
+	return &d, nil
+}
+
+// ErrExists: a file that would be overwritten without permission.
+var ErrExists = errors.New("file exists")
+
+// BaseName is the file name, without extension, of a document's report
+// files: the sample name or the scan's file name, with characters unsafe
+// in file names replaced.
+func BaseName(doc *Document) string {
+	name := doc.Sample
+	if name == "" {
+		name = strings.TrimSuffix(filepath.Base(doc.File), filepath.Ext(doc.File))
+	}
+	name = strings.Map(func(r rune) rune {
+		if r < ' ' || strings.ContainsRune(`/\:*?"<>|`, r) {
+			return '_'
+		}
+		if r == ' ' {
+			return '-'
+		}
+		return r
+	}, strings.TrimSpace(name))
+	if name == "" || name == "." || name == ".." {
+		name = "reticle-report"
+	}
+	return name
+}
+
+// Files are the paths WriteAll writes.
+type Files struct {
+	PDF, CIF, CSV, JSON string
+}
+
+// WriteAll writes the four records of solution k (0-based) into dir:
+// BASE.pdf, BASE.cif, BASE.csv and BASE.json. Each is written to a
+// temporary file beside its target and then moved into place, so a
+// failure never leaves a half-written record; an existing file is
+// replaced only when force is set, otherwise WriteAll writes nothing and
+// returns an error wrapping ErrExists naming it.
+func WriteAll(dir string, doc *Document, k int, paper Paper, date time.Time, force bool) (Files, error) {
+	base := filepath.Join(dir, BaseName(doc))
+	f := Files{PDF: base + ".pdf", CIF: base + ".cif", CSV: base + ".csv", JSON: base + ".json"}
+	if !force {
+		for _, p := range []string{f.PDF, f.CIF, f.CSV, f.JSON} {
+			if _, err := os.Lstat(p); err == nil {
+				return f, fmt.Errorf("report: %s: %w (give --force to replace it)", p, ErrExists)
+			} else if !errors.Is(err, fs.ErrNotExist) {
+				return f, fmt.Errorf("report: %w", err)
+			}
+		}
+	}
+	var bufs [4]bytes.Buffer
+	if err := WritePDF(&bufs[0], doc, k, paper, date); err != nil {
+		return f, err
+	}
+	if len(doc.Solutions) > 0 {
+		if err := WriteCIF(&bufs[1], doc, k, date); err != nil {
+			return f, err
+		}
+	}
+	if err := WriteCSV(&bufs[2], doc, k); err != nil {
+		return f, err
+	}
+	if err := WriteJSON(&bufs[3], doc); err != nil {
+		return f, err
+	}
+	for i, p := range []string{f.PDF, f.CIF, f.CSV, f.JSON} {
+		if i == 1 && len(doc.Solutions) == 0 {
+			f.CIF = ""
+			continue
+		}
+		if err := SafeWrite(p, bufs[i].Bytes(), force); err != nil {
+			return f, err
+		}
+	}
+	return f, nil
+}
+
+// SafeWrite writes data to path through a temporary file in the same
+// directory and a rename; without replace, an existing path is left alone
+// and the error wraps ErrExists.
+func SafeWrite(path string, data []byte, replace bool) error {
+	dir := filepath.Dir(path)
+	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".*.tmp")
+	if err != nil {
+		return fmt.Errorf("report: %w", err)
+	}
+	name := tmp.Name()
+	defer os.Remove(name) // gone after the rename; cleans up after a failure
+	if _, err := tmp.Write(data); err != nil {
+		tmp.Close()
+		return fmt.Errorf("report: writing %s: %w", path, err)
+	}
+	if err := tmp.Sync(); err != nil {
+		tmp.Close()
+		return fmt.Errorf("report: writing %s: %w", path, err)
+	}
+	if err := tmp.Close(); err != nil {
+		return fmt.Errorf("report: writing %s: %w", path, err)
+	}
+	if err := os.Chmod(name, 0o644); err != nil {
+		return fmt.Errorf("report: %w", err)
+	}
+	if replace {
+		if err := os.Rename(name, path); err != nil {
+			return fmt.Errorf("report: %w", err)
+		}
+		return nil
+	}
+	// A hard link fails when the target exists: no check-then-rename race.
+	if err := os.Link(name, path); err != nil {
+		if errors.Is(err, fs.ErrExist) {
+			return fmt.Errorf("report: %s: %w", path, ErrExists)
+		}
+		// File systems without hard links: check, then rename.
+		if _, serr := os.Lstat(path); serr == nil {
+			return fmt.Errorf("report: %s: %w", path, ErrExists)
+		}
+		if err := os.Rename(name, path); err != nil {
+			return fmt.Errorf("report: %w", err)
+		}
+	}
+	return nil
+}

@@ -1,0 +1,34 @@
+#!/usr/bin/python3
+"""Read the demo report's CIF with gemmi, as an independent CIF reader.
+
+Debian's python3-gemmi (apt-get install python3-gemmi). Run from the
+repository root after `go test ./report -run CIFRead -regen`:
+
+    /usr/bin/python3 testdata/reference/gemmi_cif.py testdata/reference/kiln-trial-07.cif \
+        > testdata/reference/kiln-trial-07.cif.gemmi.tsv
+
+Lines: "value<TAB>tag<TAB>number<TAB>decimals printed", "system<TAB>name",
+and "refln<TAB>h<TAB>k<TAB>l<TAB>d<TAB>2theta obs<TAB>2theta calc".
+"""
+import sys
+import gemmi
+
+block = gemmi.cif.read_file(sys.argv[1]).sole_block()
+print("# gemmi", gemmi.__version__)
+for tag in ["_cell_length_a", "_cell_length_b", "_cell_length_c",
+            "_cell_angle_alpha", "_cell_angle_beta", "_cell_angle_gamma",
+            "_cell_volume", "_diffrn_radiation_wavelength", "_cell_formula_units_Z",
+            "_exptl_crystal_density_diffrn", "_cell_measurement_reflns_used"]:
+    raw = block.find_value(tag)
+    if raw is None:
+        continue
+    mant = raw.split("(")[0]
+    dec = len(mant.split(".")[1]) if "." in mant else 0
+    print("value\t%s\t%r\t%d" % (tag, gemmi.cif.as_number(raw), dec))
+print("system\t%s" % gemmi.cif.as_string(block.find_value("_space_group_crystal_system")))
+small = gemmi.make_small_structure_from_block(block)
+print("# gemmi cell:", small.cell.parameters)
+table = block.find("_", ["refln_index_h", "refln_index_k", "refln_index_l", "refln_d_spacing",
+                         "pd_peak_2theta_centroid", "reticle_refln_2theta_calc"])
+for row in table:
+    print("refln\t" + "\t".join(row))
