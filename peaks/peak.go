@@ -20,6 +20,8 @@ const (
 	// FlagAdded marks a peak found in the residual of a first fit
 	// (typically a shoulder).
 	FlagAdded
+	// FlagUser marks a peak the user asked for (FitAt).
+	FlagUser
 )
 
 // String lists the flags as words separated by commas.
@@ -28,7 +30,7 @@ func (f Flags) String() string {
 	for _, x := range []struct {
 		f    Flags
 		name string
-	}{{FlagKBeta, "k-beta"}, {FlagShared, "overlap"}, {FlagFixedShape, "fixed-shape"}, {FlagEdge, "edge"}, {FlagAdded, "shoulder"}} {
+	}{{FlagKBeta, "k-beta"}, {FlagShared, "overlap"}, {FlagFixedShape, "fixed-shape"}, {FlagEdge, "edge"}, {FlagAdded, "shoulder"}, {FlagUser, "user-added"}} {
 		if f&x.f != 0 {
 			w = append(w, x.name)
 		}
