@@ -7,6 +7,7 @@ import (
 	"math"
 	"slices"
 	"sort"
+	"sync"
 )
 
 // ErrTooFewLines is returned when fewer lines are given than a cell needs.
@@ -60,70 +61,39 @@ func Index(ctx context.Context, lines []Line, opt Options, progress func(done, t
 		}
 	}
 	total := len(gens) * len(zeros)
+	// The systems are searched at once, one goroutine each; their results
+	// are pooled in a fixed order, so the outcome does not depend on the
+	// schedule.
+	var mu sync.Mutex
 	done := 0
+	tick := func() {
+		mu.Lock()
+		done++
+		d := done
+		mu.Unlock()
+		if progress != nil {
+			mu.Lock()
+			progress(d, total)
+			mu.Unlock()
+		}
+	}
+	pools := make([][]*fit, len(gens))
+	errs := make([]error, len(gens))
+	var wg sync.WaitGroup
+	for gi, s := range gens {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			pools[gi], errs[gi] = searchSystem(ctx, s, want, first, zeros, o, tick)
+		}()
+	}
+	wg.Wait()
 	var pool []*fit
-	for _, s := range gens {
-		cen := P
-		if s == Hexagonal && !want[Hexagonal] {
-			cen = R
+	for gi := range gens {
+		if errs[gi] != nil {
+			return nil, errs[gi]
 		}
-		var fits []*fit
-		settled := map[[2]int64]bool{}
-		tried := map[[3]int64]bool{}
-		for _, z := range zeros {
-			if err := ctx.Err(); err != nil {
-				return nil, err
-			}
-			// Q and widened windows of the first lines at this zero.
-			qs := make([]float64, len(first))
-			ws := make([]float64, len(first))
-			for i, l := range first {
-				qs[i] = qOf(l.tt, z, o.Wavelength)
-				ws[i] = dQ(l.tt, l.tol+screenExtra, o.Wavelength)
-			}
-			maxCalc := 6*float64(len(first)) + 20
-			seeds(s, cen, qs, ws, z, o, func(t trial) {
-				if density(&t, qs[len(qs)-1]) > maxCalc || !screen(&t, qs, ws, o.MaxImpurities) {
-					return
-				}
-				// Seeds of one lattice from different lines agree to
-				// about 1e-3; settle one of them.
-				ck := [3]int64{int64(math.Round(math.Log(t.pa) * 700)), int64(math.Round(math.Log(t.pc+1e-300) * 700)), int64(math.Round(t.zero * 1000))}
-				if tried[ck] {
-					return
-				}
-				tried[ck] = true
-				if f := settle(t, first, o); f != nil {
-					k := [2]int64{int64(math.Round(math.Log(f.pa) * 5000)), int64(math.Round(math.Log(f.pc+1e-300) * 5000))}
-					if !settled[k] {
-						settled[k] = true
-						f.figures(first, o.Wavelength)
-						if f.m20 > 0 {
-							fits = append(fits, f)
-						}
-					}
-				}
-			})
-			done++
-			if progress != nil {
-				progress(done, total)
-			}
-		}
-		fits = best(fits, keep)
-		pool = append(pool, fits...)
-		// Centring variants of the primitive lattices.
-		for _, f := range fits {
-			for _, v := range variants(f.sys, want) {
-				t := f.trial
-				t.sys, t.cen = v.sys, v.cen
-				if g := settle(t, first, o); g != nil {
-					g.figures(first, o.Wavelength)
-					if g.m20 > 0 {
-						pool = append(pool, g)
-					}
-				}
-			}
-		}
+		pool = append(pool, pools[gi]...)
 	}
 	var kept []*fit
 	for _, f := range pool {
@@ -140,6 +110,71 @@ func Index(ctx context.Context, lines []Line, opt Options, progress func(done, t
 		res.Solutions = append(res.Solutions, solution(f, all, first, o))
 	}
 	return res, nil
+}
+
+// searchSystem seeds, screens and settles the lattices of one system (and
+// its centring variants) over the zero offsets; tick is called after each
+// offset.
+func searchSystem(ctx context.Context, s System, want map[System]bool, first []obs, zeros []float64, o Options, tick func()) ([]*fit, error) {
+	cen := P
+	if s == Hexagonal && !want[Hexagonal] {
+		cen = R
+	}
+	var fits []*fit
+	settled := map[[2]int64]bool{}
+	tried := map[[3]int64]bool{}
+	for _, z := range zeros {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		// Q and widened windows of the first lines at this zero.
+		qs := make([]float64, len(first))
+		ws := make([]float64, len(first))
+		for i, l := range first {
+			qs[i] = qOf(l.tt, z, o.Wavelength)
+			ws[i] = dQ(l.tt, l.tol+screenExtra, o.Wavelength)
+		}
+		maxCalc := 6*float64(len(first)) + 20
+		seeds(s, cen, qs, ws, z, o, func(t trial) {
+			if density(&t, qs[len(qs)-1]) > maxCalc || !screen(&t, qs, ws, o.MaxImpurities) {
+				return
+			}
+			// Seeds of one lattice from different lines agree to
+			// about 1e-3; settle one of them.
+			ck := [3]int64{int64(math.Round(math.Log(t.pa) * 700)), int64(math.Round(math.Log(t.pc+1e-300) * 700)), int64(math.Round(t.zero * 1000))}
+			if tried[ck] {
+				return
+			}
+			tried[ck] = true
+			if f := settle(t, first, o); f != nil {
+				k := [2]int64{int64(math.Round(math.Log(f.pa) * 5000)), int64(math.Round(math.Log(f.pc+1e-300) * 5000))}
+				if !settled[k] {
+					settled[k] = true
+					f.figures(first, o.Wavelength)
+					if f.m20 > 0 {
+						fits = append(fits, f)
+					}
+				}
+			}
+		})
+		tick()
+	}
+	fits = best(fits, keep)
+	pool := append([]*fit(nil), fits...)
+	// Centring variants of the primitive lattices.
+	for _, f := range fits {
+		for _, v := range variants(f.sys, want) {
+			t := f.trial
+			t.sys, t.cen = v.sys, v.cen
+			if g := settle(t, first, o); g != nil {
+				g.figures(first, o.Wavelength)
+				if g.m20 > 0 {
+					pool = append(pool, g)
+				}
+			}
+		}
+	}
+	return pool, nil
 }
 
 // variant is a system and centring to try on a lattice found primitive.
