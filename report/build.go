@@ -61,14 +61,15 @@ func (s *CellValues) Cell() indexing.Cell {
 	return indexing.Cell{System: sys, Centring: cen, A: s.A, B: s.B, C: s.C, Alpha: s.Alpha, Beta: s.Beta, Gamma: s.Gamma}
 }
 
-// RefineSolution refines a solution's cell against its indexed lines and
-// puts the refined cell, corrections and residuals into j.
-func RefineSolution(ctx context.Context, j *Solution, sol indexing.Solution, opt refine.Options) {
+// RefineSolution refines a solution's cell against its indexed lines,
+// leaving out those within 0.005° of an angle in excluded, and puts the
+// refined cell, corrections and residuals into j.
+func RefineSolution(ctx context.Context, j *Solution, sol indexing.Solution, opt refine.Options, excluded []float64) {
 	var obs []refine.Observation
 	var at []int
 	for i, l := range sol.Lines {
 		if l.Indexed && l.ESD > 0 {
-			obs = append(obs, refine.Observation{TwoTheta: l.TwoTheta, ESD: l.ESD, HKL: l.HKL})
+			obs = append(obs, refine.Observation{TwoTheta: l.TwoTheta, ESD: l.ESD, HKL: l.HKL, Excluded: rejected(l.TwoTheta, excluded)})
 			at = append(at, i)
 		}
 	}

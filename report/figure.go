@@ -3,6 +3,8 @@ package report
 import (
 	"image/color"
 	"math"
+	"sort"
+	"strconv"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/font"
@@ -67,35 +69,145 @@ func Decimate(x, y []float64, buckets int) (xs, ys []float64) {
 	return xs, ys
 }
 
+// A Scale is the intensity axis of a figure.
+type Scale int
+
+// The intensity scales.
+const (
+	Linear Scale = iota
+	SquareRoot
+	Logarithmic
+)
+
+func (sc Scale) apply(y float64) float64 {
+	switch sc {
+	case SquareRoot:
+		return math.Copysign(math.Sqrt(math.Abs(y)), y)
+	case Logarithmic:
+		return math.Log10(math.Max(y, 1))
+	}
+	return y
+}
+
+// FigureOptions choose what a pattern figure shows. The zero value is the
+// whole scan, linear in intensity, against 2θ, decimated to 1,200 columns.
+type FigureOptions struct {
+	Buckets    int     // columns the curves are decimated to; 0 means 1,200
+	XMin, XMax float64 // 2θ range shown, degrees; both zero means the scan's
+	Scale      Scale
+	// DAxis plots against d (Å), falling from left to right, instead of
+	// 2θ.
+	DAxis bool
+}
+
+// X maps a 2θ (degrees) to the figure's x for wavelength lambda (Å).
+func (o FigureOptions) X(tt, lambda float64) float64 {
+	if !o.DAxis {
+		return tt
+	}
+	return -lambda / (2 * math.Sin(tt*math.Pi/360))
+}
+
+// TwoTheta inverts X.
+func (o FigureOptions) TwoTheta(x, lambda float64) float64 {
+	if !o.DAxis {
+		return x
+	}
+	s := lambda / (2 * -x)
+	if !(s > 0 && s < 1) {
+		return math.NaN()
+	}
+	return 2 * math.Asin(s) * 180 / math.Pi
+}
+
+// absTicks labels an axis of negated values with their magnitudes.
+type absTicks struct{}
+
+func (absTicks) Ticks(min, max float64) []plot.Tick {
+	ts := plot.DefaultTicks{}.Ticks(min, max)
+	for i := range ts {
+		if ts[i].Label != "" {
+			ts[i].Label = strconv.FormatFloat(math.Abs(ts[i].Value), 'g', 4, 64)
+		}
+	}
+	return ts
+}
+
 // Figure draws a document's pattern: observed counts, fitted profile,
 // background, the difference beneath, tick marks of the calculated lines
 // of solution k (0-based; none when out of range) and markers of the
 // peaks, accepted as up-triangles and rejected as crosses. The figure is
 // the same for the report and the desktop view.
-func Figure(doc *Document, k int, buckets int) *plot.Plot {
+func Figure(doc *Document, k int, o FigureOptions) *plot.Plot {
 	p := plot.New()
 	p.X.Label.Text = "2θ (degrees)"
+	if o.DAxis {
+		p.X.Label.Text = "d (Å)"
+		p.X.Tick.Marker = absTicks{}
+	}
 	p.Y.Label.Text = "intensity (counts)"
+	switch o.Scale {
+	case SquareRoot:
+		p.Y.Label.Text = "√intensity (√counts)"
+	case Logarithmic:
+		p.Y.Label.Text = "log₁₀ intensity (counts)"
+	}
 	p.Legend.Top = true
 	if doc.Pattern == nil || len(doc.Pattern.TwoTheta) == 0 {
 		return p
 	}
+	if o.Buckets <= 0 {
+		o.Buckets = 1200
+	}
+	lo, hi := doc.Range[0], doc.Range[1]
+	if o.XMax > o.XMin {
+		lo, hi = math.Max(lo, o.XMin), math.Min(hi, o.XMax)
+	}
 	pt := doc.Pattern
+	lam := doc.Wavelength
+	// The points in view, transformed.
+	a := sort.SearchFloat64s(pt.TwoTheta, lo)
+	b := sort.SearchFloat64s(pt.TwoTheta, hi)
+	b = min(b+1, len(pt.TwoTheta))
+	a = max(a-1, 0)
+	view := func(v []float64) []float64 {
+		out := make([]float64, b-a)
+		for i := range out {
+			out[i] = o.Scale.apply(v[a+i])
+		}
+		return out
+	}
+	xs := make([]float64, b-a)
+	for i := range xs {
+		xs[i] = o.X(pt.TwoTheta[a+i], lam)
+	}
+	obs := view(pt.Intensity)
+	if o.DAxis {
+		// Increasing x for drawing: reverse.
+		reverse(xs)
+		reverse(obs)
+	}
 	top, low := math.Inf(-1), math.Inf(1)
-	for _, v := range pt.Intensity {
+	for _, v := range obs {
 		top, low = math.Max(top, v), math.Min(low, v)
 	}
+	if math.IsInf(top, 0) {
+		top, low = 1, 0
+	}
 	span := top - math.Min(low, 0)
+	if span <= 0 {
+		span = 1
+	}
 	// The difference curve sits below the data, its zero at −12 % of the
 	// span; the ticks between it and the data.
 	diffZero := math.Min(low, 0) - 0.12*span
 	tickTop, tickLow := math.Min(low, 0)-0.02*span, math.Min(low, 0)-0.05*span
 
-	add := func(x, y []float64, c color.Color, width vg.Length, dashes []vg.Length, name string) {
-		xs, ys := Decimate(x, y, buckets)
-		xy := make(plotter.XYs, len(xs))
-		for i := range xs {
-			xy[i].X, xy[i].Y = xs[i], ys[i]
+	add := func(y []float64, c color.Color, width vg.Length, dashes []vg.Length, name string) {
+		dx, dy := Decimate(xs, y, o.Buckets)
+		xy := make(plotter.XYs, len(dx))
+		for i := range dx {
+			xy[i].X, xy[i].Y = dx[i], dy[i]
 		}
 		l, err := plotter.NewLine(xy)
 		if err != nil {
@@ -107,25 +219,35 @@ func Figure(doc *Document, k int, buckets int) *plot.Plot {
 			p.Legend.Add(name, l)
 		}
 	}
-	if len(pt.Profile) == len(pt.TwoTheta) {
-		add(pt.TwoTheta, pt.Profile, ColourFitted, vg.Points(1.4), nil, "fitted")
-	}
-	add(pt.TwoTheta, pt.Intensity, ColourObserved, vg.Points(0.5), nil, "observed")
-	if len(pt.Background) == len(pt.TwoTheta) {
-		add(pt.TwoTheta, pt.Background, ColourBackground, vg.Points(0.8), []vg.Length{vg.Points(3), vg.Points(2)}, "background")
-	}
-	if len(pt.Profile) == len(pt.TwoTheta) {
-		diff := make([]float64, len(pt.TwoTheta))
-		for i := range diff {
-			diff[i] = pt.Intensity[i] - pt.Profile[i] + diffZero
+	curve := func(v []float64) []float64 {
+		c := view(v)
+		if o.DAxis {
+			reverse(c)
 		}
-		add(pt.TwoTheta, diff, ColourDifference, vg.Points(0.5), nil, "difference")
+		return c
+	}
+	var fit []float64
+	if len(pt.Profile) == len(pt.TwoTheta) {
+		fit = curve(pt.Profile)
+		add(fit, ColourFitted, vg.Points(1.4), nil, "fitted")
+	}
+	add(obs, ColourObserved, vg.Points(0.5), nil, "observed")
+	if len(pt.Background) == len(pt.TwoTheta) {
+		add(curve(pt.Background), ColourBackground, vg.Points(0.8), []vg.Length{vg.Points(3), vg.Points(2)}, "background")
+	}
+	if fit != nil {
+		diff := make([]float64, len(obs))
+		for i := range diff {
+			diff[i] = obs[i] - fit[i] + diffZero
+		}
+		add(diff, ColourDifference, vg.Points(0.5), nil, "difference")
 	}
 	if k >= 0 && k < len(doc.Solutions) {
 		var segs plotter.XYs
 		for _, c := range doc.Solutions[k].Calculated {
-			if c.TwoTheta >= doc.Range[0] && c.TwoTheta <= doc.Range[1] {
-				segs = append(segs, plotter.XY{X: c.TwoTheta, Y: tickLow}, plotter.XY{X: c.TwoTheta, Y: tickTop})
+			if c.TwoTheta >= lo && c.TwoTheta <= hi {
+				x := o.X(c.TwoTheta, lam)
+				segs = append(segs, plotter.XY{X: x, Y: tickLow}, plotter.XY{X: x, Y: tickTop})
 			}
 		}
 		if len(segs) > 0 {
@@ -136,32 +258,50 @@ func Figure(doc *Document, k int, buckets int) *plot.Plot {
 	}
 	var acc, rej plotter.XYs
 	for _, pk := range doc.Peaks {
-		y := pk.Background + pk.Height + 0.04*span
+		if pk.TwoTheta < lo || pk.TwoTheta > hi {
+			continue
+		}
+		xy := plotter.XY{X: o.X(pk.TwoTheta, lam), Y: PeakMarkerY(pk, o.Scale, span)}
 		if pk.Rejected {
-			rej = append(rej, plotter.XY{X: pk.TwoTheta, Y: y})
+			rej = append(rej, xy)
 		} else if pk.CompanionOf == nil {
-			acc = append(acc, plotter.XY{X: pk.TwoTheta, Y: y})
+			acc = append(acc, xy)
 		}
 	}
 	if len(acc) > 0 {
 		s, _ := plotter.NewScatter(acc)
-		s.GlyphStyle = draw.GlyphStyle{Color: ColourFitted, Radius: vg.Points(2.2), Shape: draw.TriangleGlyph{}}
+		s.GlyphStyle = draw.GlyphStyle{Color: ColourFitted, Radius: vg.Points(2.6), Shape: draw.TriangleGlyph{}}
 		p.Add(s)
 		p.Legend.Add("accepted peak", s)
 	}
 	if len(rej) > 0 {
 		s, _ := plotter.NewScatter(rej)
-		s.GlyphStyle = draw.GlyphStyle{Color: ColourObserved, Radius: vg.Points(2.2), Shape: draw.CrossGlyph{}}
+		s.GlyphStyle = draw.GlyphStyle{Color: ColourObserved, Radius: vg.Points(2.6), Shape: draw.CrossGlyph{}}
 		p.Add(s)
 		p.Legend.Add("rejected peak", s)
 	}
-	p.X.Min, p.X.Max = doc.Range[0], doc.Range[1]
+	p.X.Min, p.X.Max = o.X(lo, lam), o.X(hi, lam)
+	if p.X.Min > p.X.Max {
+		p.X.Min, p.X.Max = p.X.Max, p.X.Min
+	}
 	p.Y.Min = diffZero - 0.1*span
 	// Head room for the legend.
 	p.Y.Max = top + 0.45*span
 	p.Legend.TextStyle.Font.Size = vg.Points(8)
 	p.Legend.ThumbnailWidth = vg.Points(14)
 	return p
+}
+
+// PeakMarkerY is the height at which a peak's marker is drawn: a little
+// above its top, on the figure's intensity scale of the given span.
+func PeakMarkerY(pk Peak, sc Scale, span float64) float64 {
+	return sc.apply(pk.Background+pk.Height) + 0.04*span
+}
+
+func reverse(v []float64) {
+	for i, j := 0, len(v)-1; i < j; i, j = i+1, j-1 {
+		v[i], v[j] = v[j], v[i]
+	}
 }
 
 // tickMarks draws vertical segments given as pairs of points.

@@ -200,7 +200,7 @@ func (x *pdfWriter) header(doc *Document, k int, title string, date time.Time) {
 
 func (x *pdfWriter) figure(doc *Document, k int) error {
 	const wmm, hmm = 174.0, 82.0
-	pl := Figure(doc, k, 1200)
+	pl := Figure(doc, k, FigureOptions{})
 	pl.Title.Text = ""
 	c := vgimg.NewWith(vgimg.UseWH(vg.Length(wmm)*vg.Millimeter, vg.Length(hmm)*vg.Millimeter), vgimg.UseDPI(200))
 	pl.Draw(draw.New(c))
@@ -441,6 +441,14 @@ func (x *pdfWriter) settings(doc *Document) {
 		}
 		rej = strings.Join(r, ", ")
 	}
+	add := "none"
+	if len(s.Added) > 0 {
+		var r []string
+		for _, v := range s.Added {
+			r = append(r, fmt.Sprintf("%.4f°", v))
+		}
+		add = strings.Join(r, ", ")
+	}
 	z := "from the density"
 	if s.Z > 0 {
 		z = fmt.Sprint(s.Z)
@@ -461,8 +469,21 @@ func (x *pdfWriter) settings(doc *Document) {
 		{"density", opt(s.Density)},
 		{"z", z},
 		{"rejected_peaks", rej},
+		{"added_peaks", add},
+		{"excluded_lines", angles(s.Excluded)},
 	}
 	x.keyValues(rows, 38)
 	x.pdf.SetFont(fontSans, "I", 7.5)
 	x.pdf.MultiCell(0, 3.6, "The same settings, given to reticle report (or read back from this report's JSON with --session), regenerate this report.", "", "L", false)
+}
+
+func angles(v []float64) string {
+	if len(v) == 0 {
+		return "none"
+	}
+	var r []string
+	for _, x := range v {
+		r = append(r, fmt.Sprintf("%.4f°", x))
+	}
+	return strings.Join(r, ", ")
 }

@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"sort"
 
 	"reticle/indexing"
 	"reticle/peaks"
@@ -13,12 +14,19 @@ import (
 // "refinement") and the fraction done of it.
 type Progress func(stage string, fraction float64)
 
-// Run analyses a scan with the settings: peak extraction, indexing of the
-// non-companion peaks that are not rejected, refinement of every
-// candidate cell against its indexed lines and, with a formula, the cells'
-// contents (cells whose measured density gives no whole Z rank last). The
-// context cancels the work.
-func Run(ctx context.Context, scan *peaks.Scan, s Settings, progress Progress) (*Document, error) {
+// An Extraction is a scan with its extracted peaks and the peaks the user
+// added; the indexing stage starts from it, so that peak edits do not
+// repeat the extraction.
+type Extraction struct {
+	Scan    *peaks.Scan
+	Result  *peaks.Result
+	Added   []peaks.Peak // user-added peaks, in the order added
+	Profile []float64    // the extraction's profile with the added peaks
+}
+
+// Extract runs the peak extraction of a scan with the settings, and fits
+// the peaks the settings add.
+func Extract(ctx context.Context, scan *peaks.Scan, s Settings, progress Progress) (*Extraction, error) {
 	s, err := s.Resolve()
 	if err != nil {
 		return nil, fmt.Errorf("%s: settings: %w", scan.Path, err)
@@ -34,17 +42,104 @@ func Run(ctx context.Context, scan *peaks.Scan, s Settings, progress Progress) (
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", scan.Path, err)
 	}
+	e := &Extraction{Scan: scan, Result: pr, Profile: pr.Profile}
+	for _, tt := range s.Added {
+		if _, err := e.Add(tt); err != nil {
+			return nil, fmt.Errorf("%s: added peak: %w", scan.Path, err)
+		}
+	}
+	return e, nil
+}
+
+// Add fits a peak near tt (degrees 2θ) on top of the current profile
+// (peaks.FitAt) and keeps it.
+func (e *Extraction) Add(tt float64) (peaks.Peak, error) {
+	r := *e.Result
+	r.Profile = e.Profile
+	p, prof, err := peaks.FitAt(e.Scan, &r, tt)
+	if err != nil {
+		return p, err
+	}
+	e.Added = append(e.Added, p)
+	e.Profile = prof
+	return p, nil
+}
+
+// Peaks returns the extracted and the added peaks, sorted by 2θ; added
+// peaks carry peaks.FlagUser and no companion link.
+func (e *Extraction) Peaks() []peaks.Peak {
+	out := append([]peaks.Peak(nil), e.Result.Peaks...)
+	if len(e.Added) == 0 {
+		return out
+	}
+	// Companion links are indices into the extracted list: keep them
+	// pointing at the same peaks after sorting.
+	type item struct {
+		p    peaks.Peak
+		orig int
+	}
+	items := make([]item, 0, len(out)+len(e.Added))
+	for i, p := range out {
+		items = append(items, item{p, i})
+	}
+	for _, p := range e.Added {
+		p.Parent = -1
+		items = append(items, item{p, -1})
+	}
+	sort.SliceStable(items, func(a, b int) bool { return items[a].p.TwoTheta < items[b].p.TwoTheta })
+	where := map[int]int{}
+	for i, it := range items {
+		if it.orig >= 0 {
+			where[it.orig] = i
+		}
+	}
+	res := make([]peaks.Peak, len(items))
+	for i, it := range items {
+		res[i] = it.p
+		if it.p.Parent >= 0 && it.orig >= 0 {
+			res[i].Parent = where[it.p.Parent]
+		}
+	}
+	return res
+}
+
+// Run analyses a scan with the settings: Extract, then Analyse.
+func Run(ctx context.Context, scan *peaks.Scan, s Settings, progress Progress) (*Document, error) {
+	e, err := Extract(ctx, scan, s, progress)
+	if err != nil {
+		return nil, err
+	}
+	return Analyse(ctx, e, s, progress)
+}
+
+// Analyse indexes the non-companion peaks of an extraction that are not
+// rejected, refines every candidate cell against its indexed lines and,
+// with a formula, works out the cells' contents (cells whose measured
+// density gives no whole Z rank last). The context cancels the work.
+func Analyse(ctx context.Context, e *Extraction, s Settings, progress Progress) (*Document, error) {
+	scan, pr := e.Scan, e.Result
+	s, err := s.Resolve()
+	if err != nil {
+		return nil, fmt.Errorf("%s: settings: %w", scan.Path, err)
+	}
+	o, err := s.options()
+	if err != nil {
+		return nil, fmt.Errorf("%s: settings: %w", scan.Path, err)
+	}
+	if progress == nil {
+		progress = func(string, float64) {}
+	}
 	doc := &Document{
 		Program: Program, Version: Version, Schema: Schema, Sample: s.Sample,
 		ScanInfo: NewScanInfo(scan, pr.Radiation), Settings: s,
 		Peaks: []Peak{}, Solutions: []Solution{}, Warnings: append(append([]string(nil), scan.Warnings...), pr.Warnings...),
-		Pattern: &Pattern{TwoTheta: scan.TwoTheta, Intensity: scan.Intensity, Background: pr.Background, Profile: pr.Profile},
+		Pattern: &Pattern{TwoTheta: scan.TwoTheta, Intensity: scan.Intensity, Background: pr.Background, Profile: e.Profile},
 	}
 	if pr.Radiation.Doublet() {
 		doc.Wavelength2, doc.Ka2Ratio = pr.Radiation.Lambda2, pr.Radiation.Ratio2
 	}
 	var lines []indexing.Line
-	for _, p := range pr.Peaks {
+	for _, p := range e.Peaks() {
 		j := NewPeak(p)
 		j.Rejected = rejected(p.TwoTheta, s.Rejected)
 		doc.Peaks = append(doc.Peaks, j)
@@ -66,7 +161,7 @@ func Run(ctx context.Context, scan *peaks.Scan, s Settings, progress Progress) (
 	for i, sol := range res.Solutions {
 		progress("refinement", float64(i)/float64(len(res.Solutions)))
 		j := NewSolution(i+1, sol, res.Wavelength)
-		RefineSolution(ctx, &j, sol, o.refine)
+		RefineSolution(ctx, &j, sol, o.refine, s.Excluded)
 		if o.formula != nil {
 			AddContents(&j, *o.formula, o.measured, s.Z)
 		}

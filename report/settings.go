@@ -38,6 +38,13 @@ type Settings struct {
 	// Rejected lists the 2θ (degrees) of extracted peaks the user
 	// rejected; each removes the peak within 0.005° of it.
 	Rejected []float64 `json:"rejected_peaks,omitempty"`
+	// Added lists the 2θ (degrees) the user pointed at to add a peak the
+	// extraction missed; each is fitted again, in order, by
+	// peaks.FitAt.
+	Added []float64 `json:"added_peaks,omitempty"`
+	// Excluded lists the 2θ (degrees) of indexed lines left out of the
+	// cell refinement; their residuals are still reported.
+	Excluded []float64 `json:"excluded_lines,omitempty"`
 }
 
 // Resolve fills in the defaults and checks the settings.
