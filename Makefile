@@ -11,18 +11,35 @@ DEMO      := assets/demo/kiln-trial-07.xy
 BIN       := bin
 # Debian/Ubuntu packages that Fyne's OpenGL driver builds against.
 SYSTEM_PKGS := gcc pkg-config libgl1-mesa-dev xorg-dev
-# Packages the tests use: pdftotext reads the reports' text layer.
-TEST_PKGS := poppler-utils
+# Packages the tests use: the desktop program's (its tests build it) and
+# pdftotext, which reads the reports' text layer.
+TEST_PKGS := $(SYSTEM_PKGS) poppler-utils
 FUZZTIME  ?= 10s
 
-.PHONY: run test build deps test-deps install-pkgs fmt-check vet static unit fuzz-seeds fuzz bench bench-score clean
+.PHONY: run test build deps test-deps install-pkgs screenshot fmt-check vet static unit fuzz-seeds fuzz bench bench-score clean
 
 run: deps build
-	$(BIN)/reticle peaks --wavelength Cu $(DEMO)
-	$(BIN)/reticle index --wavelength Cu $(DEMO)
+	LANG=$${LANG:-en_US.UTF-8} $(BIN)/reticle-desktop $(DEMO)
 
 build:
 	$(GO) build -o $(BIN)/reticle ./cmd/reticle
+	$(GO) build -o $(BIN)/reticle-desktop ./app
+
+# Pictures of every step of the real window under Xvfb, on the demo scan
+# and on one benchmark scan (dark theme), into $(SHOTS).
+SHOTS      ?= shots
+BENCH_SCAN ?= ../shared/bench/public/scan016.csv
+XDISPLAY   ?= :97
+screenshot: deps build
+	@$(MAKE) --no-print-directory install-pkgs PKGS="xvfb imagemagick" WHY="Xvfb and ImageMagick"
+	mkdir -p $(SHOTS)
+	@Xvfb $(XDISPLAY) -screen 0 1400x950x24 >/dev/null 2>&1 & xpid=$$!; sleep 1; \
+	status=0; \
+	DISPLAY=$(XDISPLAY) LANG=en_US.UTF-8 $(BIN)/reticle-desktop --screenshots $(SHOTS) $(DEMO) || status=1; \
+	if [ -f $(BENCH_SCAN) ]; then \
+	  DISPLAY=$(XDISPLAY) LANG=en_US.UTF-8 $(BIN)/reticle-desktop --theme dark --screenshots $(SHOTS) $(BENCH_SCAN) || status=1; \
+	fi; \
+	kill $$xpid; exit $$status
 
 test: test-deps fmt-check vet static unit fuzz-seeds
 
@@ -38,7 +55,7 @@ static:
 	CGO_ENABLED=0 $(GO) build -o /dev/null ./cmd/reticle
 
 unit:
-	$(GO) test -count=1 -timeout 45m ./...
+	LANG=en_US.UTF-8 $(GO) test -count=1 -timeout 45m ./...
 
 # The seed corpus of every fuzz target, run on its own so the log shows it.
 fuzz-seeds:
@@ -64,7 +81,7 @@ deps:
 	@$(MAKE) --no-print-directory install-pkgs PKGS="$(SYSTEM_PKGS)" WHY="Fyne's requirements: a C compiler, pkg-config and the OpenGL and X11 development headers"
 
 test-deps:
-	@$(MAKE) --no-print-directory install-pkgs PKGS="$(TEST_PKGS)" WHY="poppler-utils (pdftotext)"
+	@$(MAKE) --no-print-directory install-pkgs PKGS="$(TEST_PKGS)" WHY="Fyne's requirements and poppler-utils (pdftotext)"
 
 # Installs the Debian/Ubuntu packages in PKGS that are missing.
 install-pkgs:

@@ -1,0 +1,96 @@
+package main
+
+import (
+	"fmt"
+	"image/png"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"time"
+
+	"fyne.io/fyne/v2"
+)
+
+// takeScreenshots walks the steps of the work once the scan is analysed,
+// saving what the window shows at each (DIR/NAME-N-step.png), rejects and
+// restores a peak on the way, and quits. It serves `make screenshot`.
+func (u *ui) takeScreenshots(dir, name string) {
+	go func() {
+		// Wait for the first analysis.
+		for i := 0; i < 600; i++ {
+			var ready bool
+			fyne.DoAndWait(func() { ready = u.m.Doc != nil })
+			if ready {
+				break
+			}
+			time.Sleep(50 * time.Millisecond)
+		}
+		u.wait()
+		save := func(label string) {
+			time.Sleep(900 * time.Millisecond)
+			p := filepath.Join(dir, fmt.Sprintf("%s-%s.png", name, label))
+			// The X server's picture of the screen, as a user sees it
+			// (ImageMagick's import); without it, the canvas's own.
+			if bin, err := exec.LookPath("import"); err == nil && os.Getenv("DISPLAY") != "" {
+				if out, err := exec.Command(bin, "-window", "root", p).CombinedOutput(); err != nil {
+					fmt.Fprintf(os.Stderr, "import: %v: %s\n", err, out)
+				}
+				fmt.Println(p)
+				return
+			}
+			fyne.DoAndWait(func() {
+				img := u.win.Canvas().Capture()
+				f, err := os.Create(p)
+				if err != nil {
+					fmt.Fprintln(os.Stderr, err)
+					return
+				}
+				defer f.Close()
+				png.Encode(f, img)
+				fmt.Println(p)
+			})
+		}
+		titles := []string{}
+		fyne.DoAndWait(func() {
+			for _, t := range u.tabs.Items {
+				titles = append(titles, strings.ReplaceAll(strings.TrimSpace(strings.ToLower(t.Text)), "  ", "-"))
+			}
+		})
+		for i, t := range titles {
+			fyne.DoAndWait(func() { u.tabs.SelectIndex(i) })
+			save(t)
+		}
+		// An edit: reject the strongest peak, look, undo.
+		fyne.DoAndWait(func() {
+			u.tabs.SelectIndex(1)
+			best := 0
+			for i, p := range u.m.Doc.Peaks {
+				if p.Height > u.m.Doc.Peaks[best].Height {
+					best = i
+				}
+			}
+			u.togglePeak(best)
+		})
+		u.wait()
+		save("7-peak-rejected")
+		fyne.DoAndWait(func() {
+			u.undo()
+		})
+		u.wait()
+		fyne.DoAndWait(func() {
+			u.tabs.SelectIndex(3)
+			u.dispCheck.SetChecked(true)
+		})
+		u.wait()
+		save("8-displacement-refined")
+		fyne.DoAndWait(func() {
+			u.plot.setRange(u.m.Doc.Range[0]+0.3*(u.m.Doc.Range[1]-u.m.Doc.Range[0]), u.m.Doc.Range[0]+0.45*(u.m.Doc.Range[1]-u.m.Doc.Range[0]))
+		})
+		save("9-zoomed")
+		fyne.DoAndWait(func() {
+			u.clearAutosave()
+			u.app.Quit()
+		})
+	}()
+}

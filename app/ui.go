@@ -1,0 +1,450 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"image/color"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"sync"
+	"time"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/data/binding"
+	"fyne.io/fyne/v2/dialog"
+	"fyne.io/fyne/v2/driver/desktop"
+	"fyne.io/fyne/v2/layout"
+	"fyne.io/fyne/v2/storage"
+	"fyne.io/fyne/v2/theme"
+	"fyne.io/fyne/v2/widget"
+
+	"reticle/peaks"
+	"reticle/report"
+)
+
+var boxColour = color.NRGBA{0x00, 0x72, 0xb2, 0x40}
+
+// ui is the window and its widgets over one Model.
+type ui struct {
+	app fyne.App
+	win fyne.Window
+	m   *Model
+
+	plot      *plotView
+	hover     *widget.Label
+	status    *widget.Label
+	scaleSel  *widget.Select
+	axisSel   *widget.Select
+	undoBtn   *widget.Button
+	redoBtn   *widget.Button
+	tabs      *container.AppTabs
+	scanInfo  *widget.Label
+	waveSel   *widget.Select
+	waveEntry *widget.Entry
+
+	peakTable *widget.Table
+	cellTable *widget.Table
+	resTable  *widget.Table
+	progress  binding.Float
+	progBar   *widget.ProgressBar
+	cancelBtn *widget.Button
+	runBtn    *widget.Button
+	autoLabel *widget.Label
+
+	zeroCheck, dispCheck *widget.Check
+	radiusEntry          *widget.Entry
+	scalingSel           *widget.Select
+	paramsText           *widget.Label
+	formulaEntry         *widget.Entry
+	densityEntry         *widget.Entry
+	zEntry               *widget.Entry
+	contentsText         *widget.Label
+	refreshing           bool
+
+	mu      sync.Mutex
+	cancel  context.CancelFunc
+	gen     int
+	running sync.WaitGroup
+
+	autosave string // path of the autosave file; empty: none
+}
+
+// newUI builds the window; it opens nothing.
+func newUI(a fyne.App) *ui {
+	u := &ui{app: a, m: &Model{}, progress: binding.NewFloat()}
+	// The theme first, so that every widget is made in it.
+	u.applyTheme(a.Preferences().StringWithFallback("theme", "light"))
+	u.win = a.NewWindow("Reticle")
+	u.win.Resize(fyne.NewSize(1280, 860))
+	u.autosave = autosavePath()
+	u.build()
+	return u
+}
+
+func (u *ui) build() {
+	u.plot = newPlotView(u)
+	u.hover = widget.NewLabel("")
+	u.hover.TextStyle = fyne.TextStyle{Monospace: true}
+	u.hover.Truncation = fyne.TextTruncateEllipsis
+	u.status = widget.NewLabel("Open a scan to begin: File ▸ Open, drop a file on the window, or pick a recent one on the Scan step.")
+	u.status.Truncation = fyne.TextTruncateEllipsis
+	u.scaleSel = widget.NewSelect([]string{"linear", "square root", "logarithmic"}, func(s string) {
+		u.plot.opt.Scale = map[string]report.Scale{"linear": report.Linear, "square root": report.SquareRoot, "logarithmic": report.Logarithmic}[s]
+		u.plot.render()
+	})
+	u.scaleSel.SetSelected("linear")
+	u.axisSel = widget.NewSelect([]string{"2θ", "d"}, func(s string) {
+		u.plot.opt.DAxis = s == "d"
+		u.plot.render()
+	})
+	u.axisSel.SetSelected("2θ")
+	reset := widget.NewButtonWithIcon("Whole scan", theme.ZoomFitIcon(), func() { u.plot.resetZoom() })
+	u.undoBtn = widget.NewButtonWithIcon("Undo", theme.ContentUndoIcon(), u.undo)
+	u.redoBtn = widget.NewButtonWithIcon("Redo", theme.ContentRedoIcon(), u.redo)
+	open := widget.NewButtonWithIcon("Open scan…", theme.FolderOpenIcon(), u.openDialog)
+	themeSel := widget.NewSelect([]string{"light", "dark"}, nil)
+	themeSel.SetSelected(u.app.Preferences().StringWithFallback("theme", "light"))
+	themeSel.OnChanged = func(s string) {
+		u.applyTheme(s)
+		u.app.Preferences().SetString("theme", s)
+	}
+	plotBar := container.NewHBox(open, u.undoBtn, u.redoBtn, widget.NewSeparator(),
+		widget.NewLabel("intensity"), u.scaleSel, widget.NewLabel("axis"), u.axisSel, reset,
+		layout.NewSpacer(), widget.NewLabel("theme"), themeSel)
+	help := widget.NewLabel("Click a marker to reject or accept a peak · click elsewhere to add one · wheel: zoom · drag: pan · right-drag or Shift-drag: zoom to a box")
+	help.Importance = widget.LowImportance
+	top := container.NewBorder(plotBar, container.NewVBox(u.hover, help), nil, nil, u.plot)
+
+	u.tabs = container.NewAppTabs(
+		container.NewTabItem("1  Scan", u.scanStep()),
+		container.NewTabItem("2  Peaks", u.peaksStep()),
+		container.NewTabItem("3  Cells", u.cellsStep()),
+		container.NewTabItem("4  Refinement", u.refineStep()),
+		container.NewTabItem("5  Contents", u.contentsStep()),
+		container.NewTabItem("6  Export", u.exportStep()),
+	)
+	u.tabs.OnSelected = func(*container.TabItem) {
+		if u.m.Doc != nil {
+			u.refreshAll()
+		}
+	}
+	split := container.NewVSplit(top, u.tabs)
+	split.Offset = 0.55
+	u.win.SetContent(container.NewBorder(nil, u.status, nil, nil, split))
+	u.win.SetOnDropped(func(_ fyne.Position, uris []fyne.URI) {
+		if len(uris) > 0 {
+			u.open(uris[0].Path())
+		}
+	})
+	u.shortcuts()
+	u.updateButtons()
+}
+
+// shortcuts binds the keyboard.
+func (u *ui) shortcuts() {
+	c := u.win.Canvas()
+	add := func(k fyne.KeyName, mod fyne.KeyModifier, f func()) {
+		c.AddShortcut(&desktop.CustomShortcut{KeyName: k, Modifier: mod}, func(fyne.Shortcut) { f() })
+	}
+	ctrl := fyne.KeyModifierShortcutDefault
+	add(fyne.KeyZ, ctrl, u.undo)
+	add(fyne.KeyY, ctrl, u.redo)
+	add(fyne.KeyZ, ctrl|fyne.KeyModifierShift, u.redo)
+	add(fyne.KeyO, ctrl, u.openDialog)
+	add(fyne.KeyS, ctrl, u.saveSessionDialog)
+	add(fyne.KeyE, ctrl, u.reportDialog)
+	add(fyne.KeyR, ctrl, func() { u.plot.resetZoom() })
+	add(fyne.KeyF5, 0, func() { u.recompute() })
+}
+
+// setStatus shows a message in the status line.
+func (u *ui) setStatus(format string, args ...any) { u.status.SetText(fmt.Sprintf(format, args...)) }
+
+func (u *ui) setHover(s string) { u.hover.SetText(s) }
+
+// showError shows an error with what to do about it.
+func (u *ui) showError(what string, err error, todo string) {
+	msg := fmt.Sprintf("%s:\n%v", what, err)
+	if todo != "" {
+		msg += "\n\n" + todo
+	}
+	dialog.ShowError(errors.New(msg), u.win)
+	u.setStatus("%s (see the message)", what)
+}
+
+// open reads a scan with the remembered settings and analyses it.
+func (u *ui) open(path string) {
+	s := report.Settings{Wavelength: u.app.Preferences().String("wavelength")}
+	u.openWith(path, s, 0)
+}
+
+// openWith opens a scan with given settings; solution is the rank to
+// select after the analysis (0: the best).
+func (u *ui) openWith(path string, s report.Settings, solution int) {
+	u.setStatus("reading %s…", path)
+	if err := u.m.Open(context.Background(), path, s); err != nil {
+		u.showError("The scan could not be opened", err, "Check that the file is a two- or three-column export (2θ, counts, optional esd) or a powder CIF; the message names the line at fault.")
+		return
+	}
+	u.win.SetTitle("Reticle — " + filepath.Base(path))
+	u.addRecent(path)
+	u.plot.opt.XMin, u.plot.opt.XMax = 0, 0
+	u.refreshScan()
+	u.recomputeThen(func() {
+		if solution > 0 && u.m.Doc != nil && solution <= len(u.m.Doc.Solutions) {
+			u.m.Selected = solution - 1
+			u.refreshAll()
+		}
+	})
+}
+
+// recompute runs the analysis off the UI thread.
+func (u *ui) recompute() { u.recomputeThen(nil) }
+
+func (u *ui) recomputeThen(after func()) {
+	if u.m.Ext == nil {
+		return
+	}
+	u.mu.Lock()
+	if u.cancel != nil {
+		u.cancel()
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	u.cancel = cancel
+	u.gen++
+	gen := u.gen
+	u.mu.Unlock()
+	// A copy of what the analysis reads: edits on the UI thread do not
+	// touch it.
+	ext := *u.m.Ext
+	settings := cloneSettings(u.m.Settings)
+	u.progress.Set(0)
+	u.cancelBtn.Enable()
+	u.setStatus("finding cells…")
+	u.running.Add(1)
+	go func() {
+		defer u.running.Done()
+		t0 := time.Now()
+		doc, err := report.Analyse(ctx, &ext, settings, func(stage string, f float64) {
+			w := map[string][2]float64{"indexing": {0, 0.85}, "refinement": {0.85, 0.15}}[stage]
+			u.progress.Set(w[0] + w[1]*f)
+		})
+		took := time.Since(t0)
+		fyne.DoAndWait(func() {
+			u.mu.Lock()
+			current := gen == u.gen
+			u.mu.Unlock()
+			if !current {
+				return
+			}
+			u.cancelBtn.Disable()
+			if err != nil {
+				if errors.Is(err, context.Canceled) {
+					u.setStatus("stopped; the cells shown are from the last complete run")
+					return
+				}
+				u.showError("The analysis failed", err, "Check the settings on the Scan step (wavelength) and the peaks kept on the Peaks step.")
+				return
+			}
+			u.m.Doc, u.m.LastRun = doc, took
+			if u.m.Selected >= len(doc.Solutions) {
+				u.m.Selected = 0
+			}
+			u.progress.Set(1)
+			u.refreshAll()
+			u.saveAutosave()
+			n := len(doc.Solutions)
+			if n == 0 {
+				u.setStatus("%d lines: no cell explains them within the search bounds (%.0f ms)", doc.Lines, took.Seconds()*1000)
+			} else {
+				s := doc.Solutions[u.m.Selected]
+				u.setStatus("%d lines, %d candidate cells in %.0f ms; showing %d: %s %s", doc.Lines, n, took.Seconds()*1000, u.m.Selected+1, s.System, s.Centring)
+			}
+			if after != nil {
+				after()
+			}
+		})
+	}()
+}
+
+// wait blocks until the running analyses have finished (tests).
+func (u *ui) wait() { u.running.Wait() }
+
+// edited runs after every edit: candidates follow at once when the last
+// run was fast, otherwise the Recompute button is offered.
+func (u *ui) edited() {
+	u.updateButtons()
+	if u.m.LastRun < AutoLimit {
+		u.recompute()
+		return
+	}
+	u.setStatus("edited: press Recompute (F5) on the Cells step to update the candidates (the last run took %.1f s)", u.m.LastRun.Seconds())
+	u.refreshAll()
+	u.saveAutosave()
+}
+
+func (u *ui) togglePeak(i int) {
+	if err := u.m.TogglePeak(i); err != nil {
+		u.setStatus("%v", err)
+		return
+	}
+	u.edited()
+}
+
+func (u *ui) addPeak(tt float64) {
+	p, err := u.m.AddPeak(tt)
+	if err != nil {
+		if errors.Is(err, peaks.ErrNoPeak) {
+			u.setStatus("no peak to add near %.3f°: %v", tt, err)
+			return
+		}
+		u.showError("The peak could not be added", err, "Click closer to the maximum you want to add.")
+		return
+	}
+	u.setStatus("added a peak at %s° (height %.0f)", peaks.FormatESD(p.TwoTheta, p.TwoThetaESD), p.Height)
+	u.edited()
+}
+
+func (u *ui) undo() {
+	if !u.m.CanUndo() {
+		return
+	}
+	if err := u.m.Undo(); err != nil {
+		u.showError("Undo failed", err, "")
+	}
+	u.syncFields()
+	u.edited()
+}
+
+func (u *ui) redo() {
+	if !u.m.CanRedo() {
+		return
+	}
+	if err := u.m.Redo(); err != nil {
+		u.showError("Redo failed", err, "")
+	}
+	u.syncFields()
+	u.edited()
+}
+
+func (u *ui) updateButtons() {
+	if u.m.CanUndo() {
+		u.undoBtn.Enable()
+	} else {
+		u.undoBtn.Disable()
+	}
+	if u.m.CanRedo() {
+		u.redoBtn.Enable()
+	} else {
+		u.redoBtn.Disable()
+	}
+}
+
+// refreshAll brings every view in step with the model.
+func (u *ui) refreshAll() {
+	u.refreshing = true
+	defer func() { u.refreshing = false }()
+	u.plot.render()
+	u.peakTable.Refresh()
+	u.cellTable.Refresh()
+	if u.m.Doc != nil && u.m.Selected < len(u.m.Doc.Solutions) {
+		id := widget.TableCellID{Row: u.m.Selected + 1, Col: 0}
+		u.cellTable.Select(id)
+		if u.m.Selected == 0 {
+			u.cellTable.ScrollToTop()
+		} else {
+			u.cellTable.ScrollTo(id)
+		}
+	}
+	u.resTable.Refresh()
+	u.paramsText.SetText(u.paramsSummary())
+	u.contentsText.SetText(u.contentsSummary())
+	u.updateButtons()
+}
+
+// syncFields sets the entry fields from the settings (after undo).
+func (u *ui) syncFields() {
+	u.refreshing = true
+	defer func() { u.refreshing = false }()
+	s := u.m.Settings
+	c := s.Corrections
+	if c == "" {
+		c = "zero"
+	}
+	u.zeroCheck.SetChecked(strings.Contains(c, "zero") || c == "both")
+	u.dispCheck.SetChecked(strings.Contains(c, "displacement") || c == "both")
+	u.formulaEntry.SetText(s.Formula)
+	u.densityEntry.SetText(s.Density)
+	if s.Z > 0 {
+		u.zEntry.SetText(strconv.Itoa(s.Z))
+	} else {
+		u.zEntry.SetText("")
+	}
+}
+
+func (u *ui) openDialog() {
+	d := dialog.NewFileOpen(func(r fyne.URIReadCloser, err error) {
+		if err != nil {
+			u.showError("The file dialog failed", err, "")
+			return
+		}
+		if r == nil {
+			return
+		}
+		path := r.URI().Path()
+		r.Close()
+		u.open(path)
+	}, u.win)
+	d.SetFilter(storage.NewExtensionFileFilter([]string{".xy", ".xye", ".csv", ".txt", ".dat", ".cif", ".asc"}))
+	if u.m.Path != "" {
+		if l, err := storage.ListerForURI(storage.NewFileURI(filepath.Dir(u.m.Path))); err == nil {
+			d.SetLocation(l)
+		}
+	}
+	d.Show()
+}
+
+// recent files, newest first, remembered between sessions.
+func (u *ui) recent() []string { return u.app.Preferences().StringList("recent") }
+
+func (u *ui) addRecent(path string) {
+	if abs, err := filepath.Abs(path); err == nil {
+		path = abs
+	}
+	list := []string{path}
+	for _, p := range u.recent() {
+		if p != path && len(list) < 8 {
+			list = append(list, p)
+		}
+	}
+	u.app.Preferences().SetStringList("recent", list)
+}
+
+// applyTheme sets the light or the dark variant of the theme.
+func (u *ui) applyTheme(name string) {
+	v := theme.VariantLight
+	if name == "dark" {
+		v = theme.VariantDark
+	}
+	u.app.Settings().SetTheme(fixedVariant{theme.DefaultTheme(), v})
+}
+
+// fixedVariant is the default theme held to one variant (light or dark).
+type fixedVariant struct {
+	fyne.Theme
+	v fyne.ThemeVariant
+}
+
+func (f fixedVariant) Color(n fyne.ThemeColorName, _ fyne.ThemeVariant) color.Color {
+	return f.Theme.Color(n, f.v)
+}
+
+// fileExists reports whether path names an existing file.
+func fileExists(path string) bool {
+	_, err := os.Stat(path)
+	return err == nil
+}
