@@ -30,45 +30,6 @@ func init() {
 	plotter.DefaultFont = plot.DefaultFont
 }
 
-// Decimate reduces a curve to at most 2·buckets points for drawing by
-// keeping the lowest and highest point of each of buckets equal spans of
-// x, so that no peak disappears. The data for computing are never
-// decimated.
-func Decimate(x, y []float64, buckets int) (xs, ys []float64) {
-	n := len(x)
-	if n <= 2*buckets || buckets < 1 {
-		return x, y
-	}
-	per := float64(n) / float64(buckets)
-	for b := 0; b < buckets; b++ {
-		lo, hi := int(float64(b)*per), int(float64(b+1)*per)
-		if hi > n {
-			hi = n
-		}
-		if lo >= hi {
-			continue
-		}
-		imin, imax := lo, lo
-		for i := lo; i < hi; i++ {
-			if y[i] < y[imin] {
-				imin = i
-			}
-			if y[i] > y[imax] {
-				imax = i
-			}
-		}
-		a, c := imin, imax
-		if a > c {
-			a, c = c, a
-		}
-		xs, ys = append(xs, x[a]), append(ys, y[a])
-		if c != a {
-			xs, ys = append(xs, x[c]), append(ys, y[c])
-		}
-	}
-	return xs, ys
-}
-
 // A Scale is the intensity axis of a figure.
 type Scale int
 
@@ -133,6 +94,50 @@ func (absTicks) Ticks(min, max float64) []plot.Tick {
 	return ts
 }
 
+// decimateIndex returns the indices, in order, of the lowest and highest
+// value of each of buckets equal runs of [a, b): at most 2·buckets points
+// that keep every peak.
+func decimateIndex(a, b, buckets int, val func(int) float64) []int {
+	n := b - a
+	if n <= 0 {
+		return nil
+	}
+	if n <= 2*buckets {
+		idx := make([]int, n)
+		for i := range idx {
+			idx[i] = a + i
+		}
+		return idx
+	}
+	idx := make([]int, 0, 2*buckets)
+	per := float64(n) / float64(buckets)
+	for k := 0; k < buckets; k++ {
+		lo, hi := a+int(float64(k)*per), min(a+int(float64(k+1)*per), b)
+		if lo >= hi {
+			continue
+		}
+		imin, imax := lo, lo
+		vmin, vmax := val(lo), val(lo)
+		for i := lo + 1; i < hi; i++ {
+			v := val(i)
+			if v < vmin {
+				imin, vmin = i, v
+			}
+			if v > vmax {
+				imax, vmax = i, v
+			}
+		}
+		if imin > imax {
+			imin, imax = imax, imin
+		}
+		idx = append(idx, imin)
+		if imax != imin {
+			idx = append(idx, imax)
+		}
+	}
+	return idx
+}
+
 // Figure draws a document's pattern: observed counts, fitted profile,
 // background, the difference beneath, tick marks of the calculated lines
 // of solution k (0-based; none when out of range) and markers of the
@@ -165,31 +170,36 @@ func Figure(doc *Document, k int, o FigureOptions) *plot.Plot {
 	}
 	pt := doc.Pattern
 	lam := doc.Wavelength
-	// The points in view, transformed.
+	// The points in view: decimated over the raw values first (min and
+	// max per column survive any monotonic scale), transformed after, so
+	// that a million-point scan costs a few passes over it.
 	a := sort.SearchFloat64s(pt.TwoTheta, lo)
 	b := sort.SearchFloat64s(pt.TwoTheta, hi)
 	b = min(b+1, len(pt.TwoTheta))
 	a = max(a-1, 0)
-	view := func(v []float64) []float64 {
-		out := make([]float64, b-a)
-		for i := range out {
-			out[i] = o.Scale.apply(v[a+i])
+	curve := func(val func(i int) float64, shift float64) plotter.XYs {
+		idx := decimateIndex(a, b, o.Buckets, val)
+		xy := make(plotter.XYs, len(idx))
+		for j, i := range idx {
+			xy[j].X = o.X(pt.TwoTheta[i], lam)
+			xy[j].Y = val(i)
 		}
-		return out
+		if shift == 0 {
+			for j := range xy {
+				xy[j].Y = o.Scale.apply(xy[j].Y)
+			}
+		}
+		if o.DAxis {
+			for i, j := 0, len(xy)-1; i < j; i, j = i+1, j-1 {
+				xy[i], xy[j] = xy[j], xy[i]
+			}
+		}
+		return xy
 	}
-	xs := make([]float64, b-a)
-	for i := range xs {
-		xs[i] = o.X(pt.TwoTheta[a+i], lam)
-	}
-	obs := view(pt.Intensity)
-	if o.DAxis {
-		// Increasing x for drawing: reverse.
-		reverse(xs)
-		reverse(obs)
-	}
+	obs := curve(func(i int) float64 { return pt.Intensity[i] }, 0)
 	top, low := math.Inf(-1), math.Inf(1)
 	for _, v := range obs {
-		top, low = math.Max(top, v), math.Min(low, v)
+		top, low = math.Max(top, v.Y), math.Min(low, v.Y)
 	}
 	if math.IsInf(top, 0) {
 		top, low = 1, 0
@@ -203,12 +213,7 @@ func Figure(doc *Document, k int, o FigureOptions) *plot.Plot {
 	diffZero := math.Min(low, 0) - 0.12*span
 	tickTop, tickLow := math.Min(low, 0)-0.02*span, math.Min(low, 0)-0.05*span
 
-	add := func(y []float64, c color.Color, width vg.Length, dashes []vg.Length, name string) {
-		dx, dy := Decimate(xs, y, o.Buckets)
-		xy := make(plotter.XYs, len(dx))
-		for i := range dx {
-			xy[i].X, xy[i].Y = dx[i], dy[i]
-		}
+	add := func(xy plotter.XYs, c color.Color, width vg.Length, dashes []vg.Length, name string) {
 		l, err := plotter.NewLine(xy)
 		if err != nil {
 			return
@@ -219,27 +224,18 @@ func Figure(doc *Document, k int, o FigureOptions) *plot.Plot {
 			p.Legend.Add(name, l)
 		}
 	}
-	curve := func(v []float64) []float64 {
-		c := view(v)
-		if o.DAxis {
-			reverse(c)
-		}
-		return c
-	}
-	var fit []float64
-	if len(pt.Profile) == len(pt.TwoTheta) {
-		fit = curve(pt.Profile)
-		add(fit, ColourFitted, vg.Points(1.4), nil, "fitted")
+	haveFit := len(pt.Profile) == len(pt.TwoTheta)
+	if haveFit {
+		add(curve(func(i int) float64 { return pt.Profile[i] }, 0), ColourFitted, vg.Points(1.4), nil, "fitted")
 	}
 	add(obs, ColourObserved, vg.Points(0.5), nil, "observed")
 	if len(pt.Background) == len(pt.TwoTheta) {
-		add(curve(pt.Background), ColourBackground, vg.Points(0.8), []vg.Length{vg.Points(3), vg.Points(2)}, "background")
+		add(curve(func(i int) float64 { return pt.Background[i] }, 0), ColourBackground, vg.Points(0.8), []vg.Length{vg.Points(3), vg.Points(2)}, "background")
 	}
-	if fit != nil {
-		diff := make([]float64, len(obs))
-		for i := range diff {
-			diff[i] = obs[i] - fit[i] + diffZero
-		}
+	if haveFit {
+		diff := curve(func(i int) float64 {
+			return o.Scale.apply(pt.Intensity[i]) - o.Scale.apply(pt.Profile[i]) + diffZero
+		}, diffZero)
 		add(diff, ColourDifference, vg.Points(0.5), nil, "difference")
 	}
 	if k >= 0 && k < len(doc.Solutions) {
@@ -296,12 +292,6 @@ func Figure(doc *Document, k int, o FigureOptions) *plot.Plot {
 // above its top, on the figure's intensity scale of the given span.
 func PeakMarkerY(pk Peak, sc Scale, span float64) float64 {
 	return sc.apply(pk.Background+pk.Height) + 0.04*span
-}
-
-func reverse(v []float64) {
-	for i, j := 0, len(v)-1; i < j; i, j = i+1, j-1 {
-		v[i], v[j] = v[j], v[i]
-	}
 }
 
 // tickMarks draws vertical segments given as pairs of points.
