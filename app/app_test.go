@@ -1,9 +1,12 @@
 package main
 
 import (
+	"bufio"
+	"fmt"
 	"image/png"
 	"math"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -213,5 +216,72 @@ func BenchmarkToggle(b *testing.B) {
 	for i := 0; i < b.N; i++ {
 		u.togglePeak(3)
 		u.wait()
+	}
+}
+
+// TestHelperEditAndHang is the child of TestKilledSession: it opens the
+// demo, rejects a peak, chooses the second cell, reports on stdout that
+// the autosave is written, and waits to be killed.
+func TestHelperEditAndHang(t *testing.T) {
+	autosave := os.Getenv("RETICLE_HELPER_AUTOSAVE")
+	if autosave == "" {
+		t.Skip("run by TestKilledSession")
+	}
+	u := newTestUI(t, autosave)
+	u.open(demoScan)
+	u.wait()
+	u.togglePeak(2)
+	u.wait()
+	u.cellTable.Select(widget.TableCellID{Row: 2, Col: 0})
+	s := u.m.Solution()
+	fmt.Printf("READY %d %.17g %.17g %.17g\n", u.m.Doc.Lines, s.A, s.M, s.FN)
+	os.Stdout.Sync()
+	select {}
+}
+
+// TestKilledSession kills a running program (SIGKILL, no clean exit) after
+// its edits and restores its autosave in a new one: the same lines, cell
+// and figures of merit.
+func TestKilledSession(t *testing.T) {
+	if testing.Short() {
+		t.Skip("starts a child process")
+	}
+	autosave := filepath.Join(t.TempDir(), "autosave.reticle.json")
+	cmd := exec.Command(os.Args[0], "-test.run=^TestHelperEditAndHang$", "-test.v")
+	cmd.Env = append(os.Environ(), "RETICLE_HELPER_AUTOSAVE="+autosave)
+	out, err := cmd.StdoutPipe()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := cmd.Start(); err != nil {
+		t.Fatal(err)
+	}
+	var lines int
+	var a, m, fn float64
+	sc := bufio.NewScanner(out)
+	for sc.Scan() {
+		if _, err := fmt.Sscanf(sc.Text(), "READY %d %g %g %g", &lines, &a, &m, &fn); err == nil {
+			break
+		}
+	}
+	if err := cmd.Process.Kill(); err != nil {
+		t.Fatal(err)
+	}
+	cmd.Wait()
+	if lines == 0 {
+		t.Fatal("the child never got ready")
+	}
+	v := newTestUI(t, autosave)
+	s, err := report.ReadSession(autosave)
+	if err != nil {
+		t.Fatalf("no autosave after the kill: %v", err)
+	}
+	v.restoreSession(s)
+	v.wait()
+	got := v.m.Solution()
+	near := func(x, y float64) bool { return math.Abs(x-y) <= 1e-8*math.Abs(y) }
+	if v.m.Doc.Lines != lines || !near(got.A, a) || !near(got.M, m) || !near(got.FN, fn) {
+		t.Errorf("restored %d lines, a %.9g, M %.9g, F %.9g; the killed program had %d, %.9g, %.9g, %.9g",
+			v.m.Doc.Lines, got.A, got.M, got.FN, lines, a, m, fn)
 	}
 }
