@@ -122,20 +122,7 @@ func (u *ui) saveSessionDialog() {
 }
 
 func (u *ui) openSessionDialog() {
-	d := dialog.NewFileOpen(func(r fyne.URIReadCloser, err error) {
-		if err != nil {
-			u.showError("The file dialog failed", err, "")
-			return
-		}
-		if r == nil {
-			return
-		}
-		path := r.URI().Path()
-		r.Close()
-		u.openSession(path)
-	}, u.win)
-	d.SetFilter(storage.NewExtensionFileFilter([]string{".json"}))
-	d.Show()
+	u.pickFile([]string{".json"}, u.openSession)
 }
 
 // openSession reopens a saved session, warning when the scan has changed.

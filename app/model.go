@@ -167,25 +167,20 @@ func (m *Model) CanRedo() bool { return len(m.redo) > 0 }
 
 // Undo restores the state before the last change; the caller analyses
 // again.
-func (m *Model) Undo() error {
-	if len(m.undo) == 0 {
-		return nil
-	}
-	last := m.undo[len(m.undo)-1]
-	m.undo = m.undo[:len(m.undo)-1]
-	m.redo = append(m.redo, snapshot{cloneSettings(m.Settings), m.Selected})
-	return m.restore(last)
-}
+func (m *Model) Undo() error { return m.step(&m.undo, &m.redo) }
 
 // Redo takes again the last undone step.
-func (m *Model) Redo() error {
-	if len(m.redo) == 0 {
+func (m *Model) Redo() error { return m.step(&m.redo, &m.undo) }
+
+// step restores the last snapshot of from, saving the present in to.
+func (m *Model) step(from, to *[]snapshot) error {
+	if len(*from) == 0 {
 		return nil
 	}
-	next := m.redo[len(m.redo)-1]
-	m.redo = m.redo[:len(m.redo)-1]
-	m.undo = append(m.undo, snapshot{cloneSettings(m.Settings), m.Selected})
-	return m.restore(next)
+	last := (*from)[len(*from)-1]
+	*from = (*from)[:len(*from)-1]
+	*to = append(*to, snapshot{cloneSettings(m.Settings), m.Selected})
+	return m.restore(last)
 }
 
 // restore sets a snapshot, refitting the added peaks when they differ.

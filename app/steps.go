@@ -172,14 +172,13 @@ func checkCell() fyne.CanvasObject {
 	return container.NewStack(c, l)
 }
 
-func (u *ui) peaksStep() fyne.CanvasObject {
-	u.peakTable = widget.NewTable(
-		func() (int, int) {
-			if u.m.Doc == nil {
-				return 1, len(peakColumns)
-			}
-			return len(u.m.Doc.Peaks) + 1, len(peakColumns)
-		},
+// checkTable makes a table whose row 0 holds the column titles and whose
+// first column is a check box: cell gives a cell's text, or for column 0
+// the box's state and whether it may change; toggle is called with the
+// row (≥ 1) when the user ticks or unticks it.
+func (u *ui) checkTable(titles []string, rows func() int, cell func(row, col int) (string, bool), enabled func(row int) bool, toggle func(row int)) *widget.Table {
+	t := widget.NewTable(
+		func() (int, int) { return rows() + 1, len(titles) },
 		checkCell,
 		func(id widget.TableCellID, o fyne.CanvasObject) {
 			st := o.(*fyne.Container)
@@ -189,34 +188,50 @@ func (u *ui) peaksStep() fyne.CanvasObject {
 				c.Hide()
 				l.Show()
 				l.TextStyle = fyne.TextStyle{Bold: true}
-				l.SetText(peakColumns[id.Col])
+				l.SetText(titles[id.Col])
 				return
 			}
 			l.TextStyle = fyne.TextStyle{}
-			text, kept := u.peakCell(id.Row, id.Col)
-			if id.Col == 0 {
-				l.Hide()
-				c.Show()
-				c.SetChecked(kept)
-				p := u.m.Doc.Peaks[id.Row-1]
-				if p.CompanionOf != nil && !p.Rejected {
-					c.Disable()
-				} else {
-					c.Enable()
-				}
-				row := id.Row - 1
-				c.OnChanged = func(bool) {
-					if !u.refreshing {
-						u.togglePeak(row)
-					}
-				}
+			text, on := cell(id.Row, id.Col)
+			if id.Col != 0 {
+				c.Hide()
+				l.Show()
+				l.SetText(text)
 				return
 			}
-			c.Hide()
-			l.Show()
-			l.SetText(text)
+			l.Hide()
+			c.Show()
+			c.SetChecked(on)
+			if enabled(id.Row) {
+				c.Enable()
+			} else {
+				c.Disable()
+			}
+			row := id.Row
+			c.OnChanged = func(bool) {
+				if !u.refreshing {
+					toggle(row)
+				}
+			}
 		})
-	u.peakTable.StickyRowCount = 1
+	t.StickyRowCount = 1
+	return t
+}
+
+func (u *ui) peaksStep() fyne.CanvasObject {
+	u.peakTable = u.checkTable(peakColumns,
+		func() int {
+			if u.m.Doc == nil {
+				return 0
+			}
+			return len(u.m.Doc.Peaks)
+		},
+		u.peakCell,
+		func(row int) bool {
+			p := u.m.Doc.Peaks[row-1]
+			return p.CompanionOf == nil || p.Rejected
+		},
+		func(row int) { u.togglePeak(row - 1) })
 	for i, w := range []float32{64, 40, 120, 130, 80, 96, 60, 150, 160} {
 		u.peakTable.SetColumnWidth(i, w)
 	}
@@ -404,46 +419,19 @@ func (u *ui) refineStep() fyne.CanvasObject {
 	u.paramsText = widget.NewLabel("")
 	u.paramsText.TextStyle = fyne.TextStyle{Monospace: true}
 	u.paramsText.Wrapping = fyne.TextWrapWord
-	u.resTable = widget.NewTable(
-		func() (int, int) {
-			s := u.m.Solution()
-			if s == nil || s.Refined == nil {
-				return 1, len(resColumns)
+	u.resTable = u.checkTable(resColumns,
+		func() int {
+			if s := u.m.Solution(); s != nil && s.Refined != nil {
+				return len(s.Residuals)
 			}
-			return len(s.Residuals) + 1, len(resColumns)
+			return 0
 		},
-		checkCell,
-		func(id widget.TableCellID, o fyne.CanvasObject) {
-			st := o.(*fyne.Container)
-			c, l := st.Objects[0].(*widget.Check), st.Objects[1].(*widget.Label)
-			c.OnChanged = nil
-			if id.Row == 0 {
-				c.Hide()
-				l.Show()
-				l.TextStyle = fyne.TextStyle{Bold: true}
-				l.SetText(resColumns[id.Col])
-				return
-			}
-			l.TextStyle = fyne.TextStyle{}
-			text, used := u.resCell(id.Row, id.Col)
-			if id.Col == 0 {
-				l.Hide()
-				c.Show()
-				c.SetChecked(used)
-				tt := u.m.Solution().Residuals[id.Row-1].TwoTheta
-				c.OnChanged = func(bool) {
-					if !u.refreshing {
-						u.m.ToggleExcluded(tt)
-						u.edited()
-					}
-				}
-				return
-			}
-			c.Hide()
-			l.Show()
-			l.SetText(text)
+		u.resCell,
+		func(int) bool { return true },
+		func(row int) {
+			u.m.ToggleExcluded(u.m.Solution().Residuals[row-1].TwoTheta)
+			u.edited()
 		})
-	u.resTable.StickyRowCount = 1
 	for i, w := range []float32{44, 130, 120, 100, 90, 60, 110} {
 		u.resTable.SetColumnWidth(i, w)
 	}

@@ -387,6 +387,12 @@ func (u *ui) syncFields() {
 }
 
 func (u *ui) openDialog() {
+	u.pickFile([]string{".xy", ".xye", ".csv", ".txt", ".dat", ".cif", ".asc"}, u.open)
+}
+
+// pickFile shows a file dialog (in the open scan's folder) for files with
+// the given extensions and hands the chosen path to use.
+func (u *ui) pickFile(exts []string, use func(path string)) {
 	d := dialog.NewFileOpen(func(r fyne.URIReadCloser, err error) {
 		if err != nil {
 			u.showError("The file dialog failed", err, "")
@@ -397,9 +403,9 @@ func (u *ui) openDialog() {
 		}
 		path := r.URI().Path()
 		r.Close()
-		u.open(path)
+		use(path)
 	}, u.win)
-	d.SetFilter(storage.NewExtensionFileFilter([]string{".xy", ".xye", ".csv", ".txt", ".dat", ".cif", ".asc"}))
+	d.SetFilter(storage.NewExtensionFileFilter(exts))
 	if u.m.Path != "" {
 		if l, err := storage.ListerForURI(storage.NewFileURI(filepath.Dir(u.m.Path))); err == nil {
 			d.SetLocation(l)

@@ -433,22 +433,6 @@ func (x *pdfWriter) settings(doc *Document) {
 		}
 		return v
 	}
-	rej := "none"
-	if len(s.Rejected) > 0 {
-		var r []string
-		for _, v := range s.Rejected {
-			r = append(r, fmt.Sprintf("%.4f°", v))
-		}
-		rej = strings.Join(r, ", ")
-	}
-	add := "none"
-	if len(s.Added) > 0 {
-		var r []string
-		for _, v := range s.Added {
-			r = append(r, fmt.Sprintf("%.4f°", v))
-		}
-		add = strings.Join(r, ", ")
-	}
 	z := "from the density"
 	if s.Z > 0 {
 		z = fmt.Sprint(s.Z)
@@ -468,8 +452,8 @@ func (x *pdfWriter) settings(doc *Document) {
 		{"formula", opt(s.Formula)},
 		{"density", opt(s.Density)},
 		{"z", z},
-		{"rejected_peaks", rej},
-		{"added_peaks", add},
+		{"rejected_peaks", angles(s.Rejected)},
+		{"added_peaks", angles(s.Added)},
 		{"excluded_lines", angles(s.Excluded)},
 	}
 	x.keyValues(rows, 38)

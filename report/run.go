@@ -27,16 +27,9 @@ type Extraction struct {
 // Extract runs the peak extraction of a scan with the settings, and fits
 // the peaks the settings add.
 func Extract(ctx context.Context, scan *peaks.Scan, s Settings, progress Progress) (*Extraction, error) {
-	s, err := s.Resolve()
+	s, o, progress, err := prepare(scan, s, progress)
 	if err != nil {
-		return nil, fmt.Errorf("%s: settings: %w", scan.Path, err)
-	}
-	o, err := s.options()
-	if err != nil {
-		return nil, fmt.Errorf("%s: settings: %w", scan.Path, err)
-	}
-	if progress == nil {
-		progress = func(string, float64) {}
+		return nil, err
 	}
 	pr, err := peaks.Extract(ctx, scan, o.peaks, func(done, total int) { progress("peaks", frac(done, total)) })
 	if err != nil {
@@ -118,16 +111,9 @@ func Run(ctx context.Context, scan *peaks.Scan, s Settings, progress Progress) (
 // density gives no whole Z rank last). The context cancels the work.
 func Analyse(ctx context.Context, e *Extraction, s Settings, progress Progress) (*Document, error) {
 	scan, pr := e.Scan, e.Result
-	s, err := s.Resolve()
+	s, o, progress, err := prepare(scan, s, progress)
 	if err != nil {
-		return nil, fmt.Errorf("%s: settings: %w", scan.Path, err)
-	}
-	o, err := s.options()
-	if err != nil {
-		return nil, fmt.Errorf("%s: settings: %w", scan.Path, err)
-	}
-	if progress == nil {
-		progress = func(string, float64) {}
+		return nil, err
 	}
 	doc := &Document{
 		Program: Program, Version: Version, Schema: Schema, Sample: s.Sample,
@@ -175,6 +161,23 @@ func Analyse(ctx context.Context, e *Extraction, s Settings, progress Progress) 
 	}
 	progress("refinement", 1)
 	return doc, nil
+}
+
+// prepare resolves the settings into each stage's options and gives a
+// progress callback that may be called.
+func prepare(scan *peaks.Scan, s Settings, progress Progress) (Settings, options, Progress, error) {
+	s, err := s.Resolve()
+	if err != nil {
+		return s, options{}, nil, fmt.Errorf("%s: settings: %w", scan.Path, err)
+	}
+	o, err := s.options()
+	if err != nil {
+		return s, o, nil, fmt.Errorf("%s: settings: %w", scan.Path, err)
+	}
+	if progress == nil {
+		progress = func(string, float64) {}
+	}
+	return s, o, progress, nil
 }
 
 // rejected reports whether the peak at tt is among the rejected angles
