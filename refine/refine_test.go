@@ -179,6 +179,11 @@ func TestIndependentMinimiser(t *testing.T) {
 			t.Logf("%s: BFGS: %v after %d evaluations, |∇| = %.1e", test.cell.System, err, m.Stats.FuncEvaluations, floats.Norm(m.Gradient, 2))
 		}
 		got := toX(m.X)
+		worst := 0.0
+		for i, p := range res.Params {
+			worst = math.Max(worst, math.Abs(got[i]-p.Value)/math.Max(math.Abs(p.Value), 0.1))
+		}
+		t.Logf("%s: largest relative difference %.1e", test.cell.System, worst)
 		for i, p := range res.Params {
 			// Corrections near zero are compared relative to 0.1° or
 			// 0.1 mm, a tenth of their usual range.
