@@ -18,8 +18,9 @@ FUZZTIME  ?= 10s
 
 .PHONY: run test build deps test-deps install-pkgs screenshot fmt-check vet static unit fuzz-seeds fuzz bench bench-score clean
 
+# Fyne cannot parse the C/POSIX locale: use English for those only.
 run: deps build
-	LANG=$${LANG:-en_US.UTF-8} $(BIN)/reticle-desktop $(DEMO)
+	@case "$$LANG" in ""|C|C.*|POSIX) export LANG=en_US.UTF-8;; esac; $(BIN)/reticle-desktop $(DEMO)
 
 build:
 	$(GO) build -o $(BIN)/reticle ./cmd/reticle
