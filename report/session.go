@@ -62,6 +62,9 @@ func ReadSession(path string) (*Session, error) {
 		if err := json.Unmarshal(data, &d); err != nil {
 			return nil, fmt.Errorf("report: result document %s: %w", path, err)
 		}
+		if d.File == "" {
+			return nil, fmt.Errorf("report: result document %s names no scan", path)
+		}
 		return &Session{Format: SessionFormat, Version: SessionVersion, Scan: ScanRef{d.File, d.SHA256}, Settings: d.Settings}, nil
 	}
 	return nil, fmt.Errorf("report: %s is neither a %s session (format %q) nor a result document", path, Program, SessionFormat)

@@ -1,0 +1,77 @@
+package report
+
+import (
+	"bytes"
+	"os"
+	"path/filepath"
+	"reflect"
+	"strings"
+	"testing"
+)
+
+// FuzzReadCSV: any input either fails with ErrCSV or reads into rows
+// that write and read back unchanged.
+func FuzzReadCSV(f *testing.F) {
+	head := strings.Join(csvHeader, ",") + "\n"
+	f.Add(head)
+	f.Add(head + "1,19.0082,0.0007,4.665,0.0002,1517,20,100,2,0.0668,0.001,0.5,120,29,,,false,1 1 1,19.0075,0.0006\n")
+	f.Add(head + "2,31.28,0.0005,2.857,0.0001,1964,20,100,2,0.0677,0.001,0.5,120,60,k-beta,1,true,,,\n")
+	f.Add("a,b\n1,2\n")
+	f.Fuzz(func(t *testing.T, s string) {
+		rows, err := ReadCSV(strings.NewReader(s))
+		if err != nil {
+			return
+		}
+		doc := &Document{}
+		for _, r := range rows {
+			doc.Peaks = append(doc.Peaks, r.Peak)
+		}
+		var buf bytes.Buffer
+		if err := WriteCSV(&buf, doc, -1); err != nil {
+			t.Fatal(err)
+		}
+		again, err := ReadCSV(&buf)
+		if err != nil {
+			t.Fatalf("%q: written list does not read: %v", s, err)
+		}
+		for i := range again {
+			if !reflect.DeepEqual(again[i].Peak, rows[i].Peak) {
+				t.Fatalf("%q: row %d changed: %+v → %+v", s, i+1, rows[i].Peak, again[i].Peak)
+			}
+		}
+	})
+}
+
+// FuzzReadSession: any file either fails with an error or reads into a
+// session that names a scan.
+func FuzzReadSession(f *testing.F) {
+	f.Add(`{"format":"reticle-session","version":1,"scan":{"path":"a.xy","sha256":"ab"},"settings":{},"solution":1}`)
+	f.Add(`{"program":"Reticle","schema":1,"file":"a.xy","settings":{"formula":"NaCl"}}`)
+	f.Add(`{"format":"reticle-session","version":9}`)
+	f.Add(`[]`)
+	dir := f.TempDir()
+	f.Fuzz(func(t *testing.T, s string) {
+		p := filepath.Join(dir, "s.json")
+		if err := os.WriteFile(p, []byte(s), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		got, err := ReadSession(p)
+		if err != nil {
+			return
+		}
+		if got.Scan.Path == "" {
+			t.Fatalf("%q: a session without a scan was accepted", s)
+		}
+	})
+}
+
+func BenchmarkWritePDF(b *testing.B) {
+	doc := demoDoc(b)
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		var buf bytes.Buffer
+		if err := WritePDF(&buf, doc, 0, A4, goldenDate); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
