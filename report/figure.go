@@ -266,13 +266,13 @@ func Figure(doc *Document, k int, o FigureOptions) *plot.Plot {
 	}
 	if len(acc) > 0 {
 		s, _ := plotter.NewScatter(acc)
-		s.GlyphStyle = draw.GlyphStyle{Color: ColourFitted, Radius: vg.Points(2.6), Shape: draw.TriangleGlyph{}}
+		s.GlyphStyle = draw.GlyphStyle{Color: ColourFitted, Radius: vg.Points(3), Shape: draw.TriangleGlyph{}}
 		p.Add(s)
 		p.Legend.Add("accepted peak", s)
 	}
 	if len(rej) > 0 {
 		s, _ := plotter.NewScatter(rej)
-		s.GlyphStyle = draw.GlyphStyle{Color: ColourObserved, Radius: vg.Points(2.6), Shape: draw.CrossGlyph{}}
+		s.GlyphStyle = draw.GlyphStyle{Color: color.Black, Radius: vg.Points(4), Shape: draw.CrossGlyph{}}
 		p.Add(s)
 		p.Legend.Add("rejected peak", s)
 	}

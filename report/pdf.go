@@ -216,7 +216,7 @@ func (x *pdfWriter) figure(doc *Document, k int) error {
 	p.ImageOptions("pattern", x.left, p.GetY(), w, h, true, fpdf.ImageOptions{ImageType: "PNG"}, 0, "")
 	p.SetFont(fontSans, "I", 7.5)
 	caption := "Observed counts (dark grey), fitted profile (orange, beneath), background (blue, dashed), difference observed − fitted (green, offset below); " +
-		"pink ticks mark the calculated lines of the reported cell; triangles mark accepted peaks, crosses rejected ones."
+		"pink ticks mark the calculated lines of the reported cell; triangles mark accepted peaks, black crosses rejected ones."
 	p.MultiCell(0, 3.6, caption, "", "L", false)
 	return nil
 }
