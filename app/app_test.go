@@ -33,6 +33,18 @@ func newTestUI(t testing.TB, autosave string) *ui {
 	return u
 }
 
+// demoUI is newTestUI with the demo scan opened and analysed.
+func demoUI(t testing.TB, autosave string) *ui {
+	t.Helper()
+	u := newTestUI(t, autosave)
+	u.open(demoScan)
+	u.wait()
+	if u.m.Doc == nil {
+		t.Fatalf("the demo did not open: %s", u.status.Text)
+	}
+	return u
+}
+
 // shot saves what the window shows, for looking at.
 func shot(t *testing.T, u *ui, name string) {
 	t.Helper()
@@ -159,9 +171,7 @@ func TestWorkflow(t *testing.T) {
 // same peaks, cell and figures of merit.
 func TestSessionRestore(t *testing.T) {
 	autosave := filepath.Join(t.TempDir(), "autosave.reticle.json")
-	u := newTestUI(t, autosave)
-	u.open(demoScan)
-	u.wait()
+	u := demoUI(t, autosave)
 	u.togglePeak(2)
 	u.wait()
 	u.cellTable.Select(widget.TableCellID{Row: 2, Col: 0})
@@ -209,9 +219,7 @@ func TestSessionRestore(t *testing.T) {
 // toggled, the candidates recomputed and the pattern redrawn at
 // 1280×860.
 func BenchmarkToggle(b *testing.B) {
-	u := newTestUI(b, "")
-	u.open(demoScan)
-	u.wait()
+	u := demoUI(b, "")
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
 		u.togglePeak(3)
@@ -227,9 +235,7 @@ func TestHelperEditAndHang(t *testing.T) {
 	if autosave == "" {
 		t.Skip("run by TestKilledSession")
 	}
-	u := newTestUI(t, autosave)
-	u.open(demoScan)
-	u.wait()
+	u := demoUI(t, autosave)
 	u.togglePeak(2)
 	u.wait()
 	u.cellTable.Select(widget.TableCellID{Row: 2, Col: 0})

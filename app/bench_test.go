@@ -11,9 +11,7 @@ import (
 
 // BenchmarkRender measures one redraw of the pattern at the window's size.
 func BenchmarkRender(b *testing.B) {
-	u := newTestUI(b, "")
-	u.open(demoScan)
-	u.wait()
+	u := demoUI(b, "")
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
 		u.plot.render()
@@ -31,9 +29,7 @@ func BenchmarkAnalyse(b *testing.B) {
 
 // BenchmarkRefreshTables measures the refresh of everything but the plot.
 func BenchmarkRefreshAll(b *testing.B) {
-	u := newTestUI(b, "")
-	u.open(demoScan)
-	u.wait()
+	u := demoUI(b, "")
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
 		u.refreshAll()

@@ -71,12 +71,17 @@ func (m *Model) Analyse(ctx context.Context, progress report.Progress) error {
 	if err != nil {
 		return err
 	}
-	m.LastRun = time.Since(t0)
-	m.Doc = doc
+	m.Apply(doc, time.Since(t0))
+	return nil
+}
+
+// Apply takes the result of an analysis that took the given time (run on
+// a copy of the state, off the UI thread).
+func (m *Model) Apply(doc *report.Document, took time.Duration) {
+	m.Doc, m.LastRun = doc, took
 	if m.Selected >= len(doc.Solutions) {
 		m.Selected = 0
 	}
-	return nil
 }
 
 // Solution returns the chosen solution, or nil.
@@ -126,8 +131,9 @@ func (m *Model) AddPeak(tt float64) (peaks.Peak, error) {
 	if err != nil {
 		return p, err
 	}
-	m.undo = append(m.undo, snapshot{cloneSettings(m.Settings), m.Selected})
-	m.redo = nil
+	// The step is recorded only once the fit has succeeded; the
+	// settings are still those before it.
+	m.push()
 	m.Settings.Added = append(m.Settings.Added, tt)
 	return p, nil
 }
@@ -204,19 +210,4 @@ func (m *Model) Session() *report.Session {
 		s.Scan = report.ScanRef{Path: m.Path, SHA256: m.Scan.SHA256}
 	}
 	return s
-}
-
-// OpenSession reopens a session; changed reports that the scan's
-// SHA-256 differs from the one the session recorded.
-func (m *Model) OpenSession(ctx context.Context, s *report.Session) (changed bool, err error) {
-	if err := m.Open(ctx, s.Scan.Path, s.Settings); err != nil {
-		return false, err
-	}
-	if err := m.Analyse(ctx, nil); err != nil {
-		return false, err
-	}
-	if s.Solution > 0 && s.Solution <= len(m.Doc.Solutions) {
-		m.Selected = s.Solution - 1
-	}
-	return s.Scan.SHA256 != "" && s.Scan.SHA256 != m.Scan.SHA256, nil
 }

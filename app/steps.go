@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -10,8 +11,8 @@ import (
 	"fyne.io/fyne/v2/container"
 	"fyne.io/fyne/v2/widget"
 
-	"reticle/density"
 	"reticle/peaks"
+	"reticle/refine"
 	"reticle/report"
 )
 
@@ -35,7 +36,7 @@ func (u *ui) scanStep() fyne.CanvasObject {
 	switch {
 	case remembered == "":
 		u.waveSel.SetSelected("from the file")
-	case contains(waveChoices, remembered):
+	case slices.Contains(waveChoices, remembered):
 		u.waveSel.SetSelected(remembered)
 	default:
 		u.waveSel.SetSelected("typed in Å")
@@ -88,15 +89,6 @@ func (u *ui) fillRecent(box *fyne.Container) {
 	if len(box.Objects) == 0 {
 		box.Add(widget.NewLabel("none yet"))
 	}
-}
-
-func contains(list []string, s string) bool {
-	for _, x := range list {
-		if x == s {
-			return true
-		}
-	}
-	return false
 }
 
 // refreshScan shows the scan's facts.
@@ -396,7 +388,7 @@ func (u *ui) refineStep() fyne.CanvasObject {
 	u.zeroCheck.SetChecked(true)
 	u.refreshing = false
 	u.radiusEntry = widget.NewEntry()
-	u.radiusEntry.SetText("240")
+	u.radiusEntry.SetText(strconv.FormatFloat(refine.DefaultRadius, 'g', -1, 64))
 	u.radiusEntry.OnSubmitted = func(t string) {
 		r, err := strconv.ParseFloat(strings.TrimSpace(t), 64)
 		if err != nil || !(r > 0) {
@@ -529,21 +521,9 @@ func (u *ui) applyContents() {
 		u.showError("The contents need a density or Z", fmt.Errorf("formula %s alone gives no number of formula units", f), "Type the measured density (e.g. 3.58(2) g/cm³) or Z.")
 		return
 	}
-	if _, err := s.Resolve(); err != nil {
-		u.showError("The contents cannot be worked out", err, "Correct the field named in the message.")
+	if _, err := s.Check(); err != nil {
+		u.showError("The contents cannot be worked out", err, "Element symbols start with a capital (Co, not CO); counts may be decimal (Fe0.95O); hydrates use · or * (CuSO4·5H2O); the density is in g/cm³ with its esd, e.g. 3.58(2).")
 		return
-	}
-	if f != "" {
-		if _, err := density.ParseFormula(f); err != nil {
-			u.showError("The formula is not usable", err, "Element symbols start with a capital (Co, not CO); counts may be decimal (Fe0.95O); hydrates use · or * (CuSO4·5H2O).")
-			return
-		}
-	}
-	if d != "" {
-		if _, err := report.ParseDensity(d); err != nil {
-			u.showError("The measured density is not usable", err, "Type the density in g/cm³, with its esd in parentheses, e.g. 3.58(2).")
-			return
-		}
 	}
 	u.m.Change(func(st *report.Settings) { st.Formula, st.Density, st.Z = f, d, z })
 	u.edited()

@@ -23,6 +23,7 @@ import (
 	"fyne.io/fyne/v2/widget"
 
 	"reticle/peaks"
+	"reticle/refine"
 	"reticle/report"
 )
 
@@ -250,10 +251,7 @@ func (u *ui) recomputeThen(after func()) {
 				u.showError("The analysis failed", err, "Check the settings on the Scan step (wavelength) and the peaks kept on the Peaks step.")
 				return
 			}
-			u.m.Doc, u.m.LastRun = doc, took
-			if u.m.Selected >= len(doc.Solutions) {
-				u.m.Selected = 0
-			}
+			u.m.Apply(doc, took)
 			u.progress.Set(1)
 			u.refreshAll()
 			u.saveAutosave()
@@ -377,6 +375,16 @@ func (u *ui) syncFields() {
 	}
 	u.zeroCheck.SetChecked(strings.Contains(c, "zero") || c == "both")
 	u.dispCheck.SetChecked(strings.Contains(c, "displacement") || c == "both")
+	r := s.Radius
+	if r == 0 {
+		r = refine.DefaultRadius
+	}
+	u.radiusEntry.SetText(strconv.FormatFloat(r, 'g', -1, 64))
+	sc := s.Scaling
+	if sc == "" {
+		sc = refine.ScaleSignificant.String()
+	}
+	u.scalingSel.SetSelected(sc)
 	u.formulaEntry.SetText(s.Formula)
 	u.densityEntry.SetText(s.Density)
 	if s.Z > 0 {

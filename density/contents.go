@@ -32,64 +32,31 @@ func LatticePoints(c indexing.Centring) int {
 // VolumeESD returns the volume in Å³ of a cell and its uncertainty from
 // the esds of its parameters taken as independent (use the refinement's
 // volume esd, which includes correlations, when there is one). The
-// general triclinic formula is used: V = abc·√(1 − cos²α − cos²β − cos²γ
-// + 2 cos α cos β cos γ).
+// general triclinic formula V = abc·√D, D = 1 − cos²α − cos²β − cos²γ +
+// 2 cos α cos β cos γ, gives ∂V/∂a = V/a (edges equal by symmetry move
+// together: 3V/a for cubic, 2V/a for a = b) and ∂V/∂α = abc·sin α·(cos α −
+// cos β cos γ)/√D per radian.
 func VolumeESD(c indexing.Cell, e indexing.CellESD) (float64, float64) {
 	v := c.Volume()
-	// Derivatives by central differences of the exact formula: the edges
-	// enter as V/x, the angles through the square root.
+	sq := func(x float64) float64 { return x * x }
 	var s2 float64
-	params := []struct {
-		set func(*indexing.Cell, float64)
-		get func(indexing.Cell) float64
-		u   float64
-	}{
-		{func(c *indexing.Cell, x float64) { c.A = x }, func(c indexing.Cell) float64 { return c.A }, e.A},
-		{func(c *indexing.Cell, x float64) { c.B = x }, func(c indexing.Cell) float64 { return c.B }, e.B},
-		{func(c *indexing.Cell, x float64) { c.C = x }, func(c indexing.Cell) float64 { return c.C }, e.C},
-		{func(c *indexing.Cell, x float64) { c.Alpha = x }, func(c indexing.Cell) float64 { return c.Alpha }, e.Alpha},
-		{func(c *indexing.Cell, x float64) { c.Beta = x }, func(c indexing.Cell) float64 { return c.Beta }, e.Beta},
-		{func(c *indexing.Cell, x float64) { c.Gamma = x }, func(c indexing.Cell) float64 { return c.Gamma }, e.Gamma},
-	}
-	tied := tiedEdges(c.System)
-	for i, p := range params {
-		if p.u == 0 || tied[i] {
-			continue
+	switch c.System {
+	case indexing.Cubic:
+		s2 = sq(3 * v / c.A * e.A)
+	case indexing.Tetragonal, indexing.Hexagonal, indexing.Rhombohedral:
+		s2 = sq(2*v/c.A*e.A) + sq(v/c.C*e.C)
+	default:
+		s2 = sq(v/c.A*e.A) + sq(v/c.B*e.B) + sq(v/c.C*e.C)
+		r := math.Pi / 180
+		ca, cb, cg := math.Cos(c.Alpha*r), math.Cos(c.Beta*r), math.Cos(c.Gamma*r)
+		abc := c.A * c.B * c.C
+		root := v / abc
+		angle := func(deg, own, o1, o2, u float64) float64 {
+			return sq(abc * math.Sin(deg*r) * (own - o1*o2) / root * r * u)
 		}
-		h := 1e-6 * math.Max(1, math.Abs(p.get(c)))
-		up, dn := c, c
-		p.set(&up, p.get(c)+h)
-		p.set(&dn, p.get(c)-h)
-		if i == 0 {
-			// Edges equal by symmetry move together.
-			for j := 1; j < 3; j++ {
-				if tied[j] {
-					params[j].set(&up, p.get(c)+h)
-					params[j].set(&dn, p.get(c)-h)
-				}
-			}
-		}
-		d := (general(up) - general(dn)) / (2 * h)
-		s2 += d * d * p.u * p.u
+		s2 += angle(c.Alpha, ca, cb, cg, e.Alpha) + angle(c.Beta, cb, ca, cg, e.Beta) + angle(c.Gamma, cg, ca, cb, e.Gamma)
 	}
 	return v, math.Sqrt(s2)
-}
-
-// tiedEdges marks parameters fixed to a by symmetry (b, and c for cubic).
-func tiedEdges(s indexing.System) [6]bool {
-	switch s {
-	case indexing.Cubic:
-		return [6]bool{false, true, true}
-	case indexing.Tetragonal, indexing.Hexagonal, indexing.Rhombohedral:
-		return [6]bool{false, true, false}
-	}
-	return [6]bool{}
-}
-
-func general(c indexing.Cell) float64 {
-	r := math.Pi / 180
-	ca, cb, cg := math.Cos(c.Alpha*r), math.Cos(c.Beta*r), math.Cos(c.Gamma*r)
-	return c.A * c.B * c.C * math.Sqrt(1-ca*ca-cb*cb-cg*cg+2*ca*cb*cg)
 }
 
 // XRayDensity returns ρ = Z·M/(N_A·V) in g/cm³ with its uncertainty, for

@@ -20,14 +20,16 @@ type Formula struct {
 
 // Errors of ParseFormula, wrapped in a *FormulaError.
 var (
-	ErrSymbol     = errors.New("unknown element symbol")
-	ErrBracket    = errors.New("unbalanced bracket")
-	ErrCount      = errors.New("bad count")
-	ErrEmpty      = errors.New("empty formula or group")
-	ErrCharacter  = errors.New("unexpected character")
-	ErrTooLarge   = errors.New("count too large")
-	maxFormulaLen = 1000
+	ErrSymbol    = errors.New("unknown element symbol")
+	ErrBracket   = errors.New("unbalanced bracket")
+	ErrCount     = errors.New("bad count")
+	ErrEmpty     = errors.New("empty formula or group")
+	ErrCharacter = errors.New("unexpected character")
+	ErrTooLarge  = errors.New("count too large")
 )
+
+// maxFormulaLen is the longest formula read, in characters.
+const maxFormulaLen = 1000
 
 // A FormulaError points at the offending character of a formula.
 type FormulaError struct {
@@ -191,8 +193,6 @@ func (p *formulaParser) sequence(depth int) ([]term, error) {
 			}
 			sym := string(p.src[start:p.pos])
 			if _, ok := bySymbol[sym]; !ok {
-				// Try the single capital when the lowercase letter
-				// belongs to nothing ("Co" vs "C" + "o" is an error).
 				return nil, p.fail(start, ErrSymbol, fmt.Sprintf("%q (symbols are H to Pu and D, a capital then lowercase, e.g. Co, not CO)", sym))
 			}
 			n, err := p.count()

@@ -68,13 +68,10 @@ func Index(ctx context.Context, lines []Line, opt Options, progress func(done, t
 	done := 0
 	tick := func() {
 		mu.Lock()
+		defer mu.Unlock()
 		done++
-		d := done
-		mu.Unlock()
 		if progress != nil {
-			mu.Lock()
-			progress(d, total)
-			mu.Unlock()
+			progress(done, total)
 		}
 	}
 	pools := make([][]*fit, len(gens))

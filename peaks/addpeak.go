@@ -48,18 +48,19 @@ func FitAt(s *Scan, res *Result, twoTheta float64) (Peak, []float64, error) {
 		}
 	}
 	w := make([]float64, n)
-	for i := range w {
-		if s.ESD != nil {
-			w[i] = 1 / (s.ESD[i] * s.ESD[i])
-		} else {
-			w[i] = 1 / math.Max(res.Profile[i], 1)
-		}
-	}
 	md := &model{x: x, y: y, w: w, bg: res.Background, rad: res.Radiation}
 	c := &component{x: x[best], anchor: x[best], h: math.Max(y[best]-res.Profile[best], 1), w: w0, eta: eta, fixedShape: true, flags: FlagAdded | FlagUser}
 	wlo, whi := md.window(c)
 	if whi-wlo < 8 {
 		return Peak{}, nil, fmt.Errorf("peaks: too few points near %.4f°: %w", twoTheta, ErrNoPeak)
+	}
+	// Weights where the fit looks: the esd column, else the model counts.
+	for i := wlo; i < whi; i++ {
+		if s.ESD != nil {
+			w[i] = 1 / (s.ESD[i] * s.ESD[i])
+		} else {
+			w[i] = 1 / math.Max(res.Profile[i], 1)
+		}
 	}
 	base := append([]float64(nil), res.Profile[wlo:whi]...)
 	md.fitGroup([]*component{c}, wlo, whi, base)

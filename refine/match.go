@@ -82,12 +82,13 @@ func sameAssignment(a, b []Observation) bool {
 	return true
 }
 
-// nearest returns the calculated line nearest to tt and its distance.
+// A calcLine is a calculated line at its corrected position.
 type calcLine struct {
 	tt  float64
 	hkl []indexing.HKL
 }
 
+// calcLines lists a cell's calculated lines below ttmax, by position.
 func calcLines(c indexing.Cell, o Options, zero, disp, ttmax float64) []calcLine {
 	s := math.Sin(math.Min(ttmax, 179.9) * deg / 2)
 	qmax := 4 * s * s / (o.Wavelength * o.Wavelength)
@@ -103,6 +104,7 @@ func calcLines(c indexing.Cell, o Options, zero, disp, ttmax float64) []calcLine
 	return out
 }
 
+// nearestCalc returns the calculated line nearest to tt and its distance.
 func nearestCalc(cl []calcLine, tt float64) (calcLine, float64) {
 	k := sort.Search(len(cl), func(i int) bool { return cl[i].tt >= tt })
 	best, bd := calcLine{}, math.Inf(1)

@@ -2,6 +2,7 @@ package refine
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 
@@ -127,7 +128,7 @@ func Refine(ctx context.Context, cell indexing.Cell, obs []Observation, opt Opti
 	}
 	x, chi2, cov, err := leastSquares(ctx, len(fitted), x0, f, opt.MaxIterations)
 	if err != nil {
-		if err == context.Canceled || err == context.DeadlineExceeded {
+		if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
 			return nil, err
 		}
 		return nil, fmt.Errorf("refine: %s %s from %d lines: %w", cell.System, cell.Centring, len(fitted), err)
@@ -139,6 +140,8 @@ func Refine(ctx context.Context, cell indexing.Cell, obs []Observation, opt Opti
 	} else {
 		res.Warnings = append(res.Warnings, "as many parameters as lines: the fit is exact and the uncertainties rest on the peak esds alone")
 	}
+	unscaled := mat.NewSymDense(cov.SymmetricDim(), nil)
+	unscaled.CopySym(cov)
 	if opt.Scaling.scale(chi2, res.DOF) {
 		cov.ScaleSym(res.Chi2Reduced, cov)
 		res.Scaled = true
@@ -148,7 +151,7 @@ func Refine(ctx context.Context, cell indexing.Cell, obs []Observation, opt Opti
 	// the corrections fixed by a standard with their effect on the cell.
 	full := cov
 	if corrCov != nil {
-		full = propagateStandard(cell.System, p, z, d, obs, fitted, opt, cov, corrCov)
+		full = propagateStandard(cell.System, p, z, d, obs, fitted, opt, unscaled, cov, corrCov)
 		names = append(names, corrNames...)
 	}
 	res.Cell = buildCell(cell.System, cell.Centring, p)

@@ -77,12 +77,13 @@ func leastSquares(ctx context.Context, n int, x0 []float64, f residualFunc, maxI
 	if ok := ch.Factorize(&jtj); !ok {
 		return nil, 0, nil, ErrSingular
 	}
+	// The factorisation's own estimate of the condition number.
+	if c := ch.Cond(); c > 1e14 || math.IsNaN(c) {
+		return nil, 0, nil, fmt.Errorf("%w (condition number %.2g)", ErrSingular, c)
+	}
 	cov = mat.NewSymDense(p, nil)
 	if err := ch.InverseTo(cov); err != nil {
 		return nil, 0, nil, fmt.Errorf("%w: %v", ErrSingular, err)
-	}
-	if c := mat.Cond(&jtj, 2); c > 1e14 || math.IsNaN(c) {
-		return nil, 0, nil, fmt.Errorf("%w (condition number %.2g)", ErrSingular, c)
 	}
 	return x, chi2, cov, nil
 }

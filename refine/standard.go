@@ -134,12 +134,13 @@ func fitStandard(ctx context.Context, opt Options, obs []Observation, idx []int)
 }
 
 // propagateStandard builds the joint covariance of the unknown's cell
-// parameters and the corrections fixed by the standard. With x̂ the cell
+// parameters and the corrections fixed by the standard; inv is the
+// unknown's unscaled (JₓᵀJₓ)⁻¹ and cx its covariance as reported. With x̂ the cell
 // minimising the unknown's χ² at corrections c, dx̂/dc = −(JₓᵀJₓ)⁻¹JₓᵀJ_c
 // (weighted Jacobians), so
 //
 //	cov = [[Cₓ + K C_c Kᵀ, K C_c], [C_c Kᵀ, C_c]],  K = dx̂/dc.
-func propagateStandard(s indexing.System, p []float64, zero, disp float64, obs []Observation, fitted []int, opt Options, cx, cc *mat.SymDense) *mat.SymDense {
+func propagateStandard(s indexing.System, p []float64, zero, disp float64, obs []Observation, fitted []int, opt Options, inv, cx, cc *mat.SymDense) *mat.SymDense {
 	np, nc := len(p), cc.SymmetricDim()
 	jx := mat.NewDense(len(fitted), np, nil)
 	jc := mat.NewDense(len(fitted), nc, nil)
@@ -158,17 +159,11 @@ func propagateStandard(s indexing.System, p []float64, zero, disp float64, obs [
 			jc.Set(row, k, pt.dDisp/o.ESD)
 		}
 	}
-	// Unscaled (JₓᵀJₓ)⁻¹ for K: the χ² scaling of Cₓ does not enter the
-	// sensitivity.
-	var jtj mat.SymDense
-	jtj.SymOuterK(1, jx.T())
-	var ch mat.Cholesky
-	ch.Factorize(&jtj)
-	var inv mat.SymDense
-	_ = ch.InverseTo(&inv)
+	// The unscaled inverse for K: the χ² scaling of Cₓ does not enter
+	// the sensitivity.
 	var jtjc, k mat.Dense
 	jtjc.Mul(jx.T(), jc)
-	k.Mul(&inv, &jtjc)
+	k.Mul(inv, &jtjc)
 	k.Scale(-1, &k)
 	var kc, kck mat.Dense
 	kc.Mul(&k, cc)

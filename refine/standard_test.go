@@ -63,6 +63,8 @@ func TestStandard(t *testing.T) {
 	}
 	f := float64(within) / float64(draws)
 	t.Logf("a within 1 esd in %.3f of %d draws", f, draws)
+	// 0.045 is three binomial standard deviations of a fraction of 0.68
+	// over 1,000 draws (√(0.68·0.32/1000) = 0.0148).
 	if !testing.Short() && math.Abs(f-0.68) > 0.045 {
 		t.Errorf("a within 1 esd in %.3f of draws, want 0.68 ± 0.045", f)
 	}

@@ -69,7 +69,7 @@ func RefineSolution(ctx context.Context, j *Solution, sol indexing.Solution, opt
 	var at []int
 	for i, l := range sol.Lines {
 		if l.Indexed && l.ESD > 0 {
-			obs = append(obs, refine.Observation{TwoTheta: l.TwoTheta, ESD: l.ESD, HKL: l.HKL, Excluded: rejected(l.TwoTheta, excluded)})
+			obs = append(obs, refine.Observation{TwoTheta: l.TwoTheta, ESD: l.ESD, HKL: l.HKL, Excluded: within(l.TwoTheta, excluded)})
 			at = append(at, i)
 		}
 	}
@@ -97,7 +97,7 @@ func RefineSolution(ctx context.Context, j *Solution, sol indexing.Solution, opt
 func NewRefined(r *refine.Result) Refined {
 	j := Refined{
 		AESD: r.CellESD.A, BESD: r.CellESD.B, CESD: r.CellESD.C, VolumeESD: r.VolumeESD, ZeroESD: r.ZeroESD,
-		Radius: r.Radius, Chi2Reduced: r.Chi2Reduced, DOF: r.DOF, Scaled: r.Scaled, Scaling: r.Scaling.String(),
+		Radius: r.Radius, Chi2Reduced: r.Chi2Reduced, Fitted: r.N, DOF: r.DOF, Scaled: r.Scaled, Scaling: r.Scaling.String(),
 		Correlation: r.Correlation, Flagged: r.Flagged, Warnings: r.Warnings,
 		Params: []Param{}, Residuals: []Residual{},
 	}

@@ -23,13 +23,10 @@ func cifSystem(s string) string {
 
 // blockName makes a CIF data block name from the sample or the file name.
 func blockName(doc *Document) string {
-	name := doc.Sample
-	if name == "" {
-		name = strings.TrimSuffix(filepath.Base(doc.File), filepath.Ext(doc.File))
-	}
+	// Printable ASCII without the characters CIF reserves.
 	var b strings.Builder
-	for _, r := range name {
-		if r > ' ' && r < 127 && r != '#' && r != '$' && r != '\'' && r != '"' && r != '_' && r != ';' && r != '[' && r != ']' {
+	for _, r := range recordName(doc) {
+		if r > ' ' && r < 127 && !strings.ContainsRune(`#$'"_;[]`, r) {
 			b.WriteRune(r)
 		} else {
 			b.WriteByte('_')

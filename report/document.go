@@ -171,6 +171,7 @@ type Refined struct {
 	DisplacementESD *float64    `json:"displacement_mm_esd,omitempty"`
 	Radius          float64     `json:"goniometer_radius_mm"`
 	Chi2Reduced     float64     `json:"chi2_reduced"`
+	Fitted          int         `json:"lines_fitted"` // residuals not excluded
 	DOF             int         `json:"degrees_of_freedom"`
 	Scaled          bool        `json:"esd_scaled_by_chi2"`
 	Scaling         string      `json:"esd_scaling"`

@@ -41,11 +41,7 @@ var ErrExists = errors.New("file exists")
 // files: the sample name or the scan's file name, with characters unsafe
 // in file names replaced.
 func BaseName(doc *Document) string {
-	name := doc.Sample
-	if name == "" {
-		name = strings.TrimSuffix(filepath.Base(doc.File), filepath.Ext(doc.File))
-	}
-	name = strings.Map(func(r rune) rune {
+	name := strings.Map(func(r rune) rune {
 		if r < ' ' || strings.ContainsRune(`/\:*?"<>|`, r) {
 			return '_'
 		}
@@ -53,11 +49,20 @@ func BaseName(doc *Document) string {
 			return '-'
 		}
 		return r
-	}, strings.TrimSpace(name))
+	}, strings.TrimSpace(recordName(doc)))
 	if name == "" || name == "." || name == ".." {
 		name = "reticle-report"
 	}
 	return name
+}
+
+// recordName names a document's records: the sample, else the scan's file
+// name without its extension.
+func recordName(doc *Document) string {
+	if doc.Sample != "" {
+		return doc.Sample
+	}
+	return strings.TrimSuffix(filepath.Base(doc.File), filepath.Ext(doc.File))
 }
 
 // Files are the paths WriteAll writes.
@@ -83,27 +88,29 @@ func WriteAll(dir string, doc *Document, k int, paper Paper, date time.Time, for
 			}
 		}
 	}
-	var bufs [4]bytes.Buffer
-	if err := WritePDF(&bufs[0], doc, k, paper, date); err != nil {
-		return f, err
+	outs := []struct {
+		path  *string
+		write func(*bytes.Buffer) error
+	}{
+		{&f.PDF, func(b *bytes.Buffer) error { return WritePDF(b, doc, k, paper, date) }},
+		{&f.CIF, func(b *bytes.Buffer) error { return WriteCIF(b, doc, k, date) }},
+		{&f.CSV, func(b *bytes.Buffer) error { return WriteCSV(b, doc, k) }},
+		{&f.JSON, func(b *bytes.Buffer) error { return WriteJSON(b, doc) }},
 	}
-	if len(doc.Solutions) > 0 {
-		if err := WriteCIF(&bufs[1], doc, k, date); err != nil {
+	if len(doc.Solutions) == 0 {
+		// No cell, no CIF.
+		f.CIF = ""
+		outs = append(outs[:1], outs[2:]...)
+	}
+	// Every record is made before any is written.
+	bufs := make([]bytes.Buffer, len(outs))
+	for i, o := range outs {
+		if err := o.write(&bufs[i]); err != nil {
 			return f, err
 		}
 	}
-	if err := WriteCSV(&bufs[2], doc, k); err != nil {
-		return f, err
-	}
-	if err := WriteJSON(&bufs[3], doc); err != nil {
-		return f, err
-	}
-	for i, p := range []string{f.PDF, f.CIF, f.CSV, f.JSON} {
-		if i == 1 && len(doc.Solutions) == 0 {
-			f.CIF = ""
-			continue
-		}
-		if err := SafeWrite(p, bufs[i].Bytes(), force); err != nil {
+	for i, o := range outs {
+		if err := SafeWrite(*o.path, bufs[i].Bytes(), force); err != nil {
 			return f, err
 		}
 	}

@@ -240,7 +240,7 @@ func (x *pdfWriter) refined(doc *Document, s *Solution) {
 	if s.Scaled {
 		scaled = "esds multiplied by χ²_red"
 	}
-	rows = append(rows, [2]string{"fit", fmt.Sprintf("%d lines, %d degrees of freedom, χ²_red = %.3f (%s; convention: %s)", len(s.Residuals)-countExcluded(s.Residuals), s.DOF, s.Chi2Reduced, scaled, s.Scaling)})
+	rows = append(rows, [2]string{"fit", fmt.Sprintf("%d lines, %d degrees of freedom, χ²_red = %.3f (%s; convention: %s)", s.Fitted, s.DOF, s.Chi2Reduced, scaled, s.Scaling)})
 	rows = append(rows, [2]string{"figures of merit", fmt.Sprintf("M%d = %.1f (de Wolff 1968), F%d = %.1f (%.4f°, %d) (Smith & Snyder 1979)", s.N, s.M, s.N, s.FN, s.FNMeanDiff, s.FNPossible)})
 	x.keyValues(rows, 30)
 	if n := len(s.ParamNames); n > 1 {
@@ -264,16 +264,6 @@ func (x *pdfWriter) refined(doc *Document, s *Solution) {
 	for _, m := range s.Warnings {
 		x.para("Note: " + m)
 	}
-}
-
-func countExcluded(rs []Residual) int {
-	n := 0
-	for _, r := range rs {
-		if r.Excluded {
-			n++
-		}
-	}
-	return n
 }
 
 func (x *pdfWriter) contents(s *Solution) {

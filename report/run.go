@@ -127,7 +127,7 @@ func Analyse(ctx context.Context, e *Extraction, s Settings, progress Progress) 
 	var lines []indexing.Line
 	for _, p := range e.Peaks() {
 		j := NewPeak(p)
-		j.Rejected = rejected(p.TwoTheta, s.Rejected)
+		j.Rejected = within(p.TwoTheta, s.Rejected)
 		doc.Peaks = append(doc.Peaks, j)
 		if !p.Companion() && !j.Rejected {
 			lines = append(lines, indexing.Line{TwoTheta: p.TwoTheta, ESD: p.TwoThetaESD})
@@ -180,9 +180,9 @@ func prepare(scan *peaks.Scan, s Settings, progress Progress) (Settings, options
 	return s, o, progress, nil
 }
 
-// rejected reports whether the peak at tt is among the rejected angles
-// (within 0.005°).
-func rejected(tt float64, list []float64) bool {
+// within reports whether tt lies within 0.005° of an angle in list (the
+// user's rejected peaks or excluded lines).
+func within(tt float64, list []float64) bool {
 	for _, r := range list {
 		if math.Abs(r-tt) <= 0.005 {
 			return true

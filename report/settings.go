@@ -107,6 +107,18 @@ type options struct {
 	measured *density.Measured
 }
 
+// Check resolves the settings and parses every part of them (radiation,
+// systems, corrections, formula, density), so that a bad setting is
+// reported before any scan is read. Errors begin with the setting's name.
+func (s Settings) Check() (Settings, error) {
+	r, err := s.Resolve()
+	if err != nil {
+		return r, err
+	}
+	_, err = r.options()
+	return r, err
+}
+
 func (s Settings) options() (options, error) {
 	var o options
 	o.peaks = peaks.Options{Threshold: s.Threshold, BackgroundWidth: s.BackgroundWidth}

@@ -26,7 +26,7 @@ func addContentsFlags(fs *flag.FlagSet) *contentsFlags {
 	return f
 }
 
-// input parses the flags; ok is false when no formula was given.
+// input parses the flags; without a formula it returns the zero Formula.
 func (f *contentsFlags) input() (density.Formula, *density.Measured, error) {
 	if f.formula == "" {
 		if f.density != "" || f.z != 0 {

@@ -9,7 +9,6 @@ import (
 	"strings"
 	"text/tabwriter"
 
-	"reticle/indexing"
 	"reticle/peaks"
 	"reticle/report"
 )
@@ -58,35 +57,9 @@ func (f *settingsFlags) settings() (report.Settings, error) {
 			s.Systems = append(s.Systems, strings.TrimSpace(name))
 		}
 	}
-	r, err := s.Resolve()
-	if err != nil {
-		return r, err
-	}
-	// Check the parts Resolve leaves to Run, so that bad flags stop
-	// before any file is read.
-	if _, err := report.RefineOptions(r.Corrections, r.Radius, r.FlagLimit, r.Scaling); err != nil {
-		return r, fmt.Errorf("--%v", err)
-	}
-	return r, checkSettings(r)
-}
-
-func checkSettings(s report.Settings) error {
-	if s.Wavelength != "" {
-		if _, err := peaks.ParseRadiation(s.Wavelength); err != nil {
-			return fmt.Errorf("--wavelength: %v", err)
-		}
-	}
-	for _, name := range s.Systems {
-		if _, err := indexing.ParseSystem(name); err != nil {
-			return fmt.Errorf("--systems: %v", err)
-		}
-	}
-	if s.Formula != "" {
-		if _, _, err := (&contentsFlags{formula: s.Formula, density: s.Density, z: s.Z}).input(); err != nil {
-			return err
-		}
-	}
-	return nil
+	// Every part is parsed now, so that a bad flag stops before any
+	// file is read; the errors name the setting.
+	return s.Check()
 }
 
 func cmdIndex(args []string, stdout, stderr io.Writer) int {

@@ -157,17 +157,9 @@ func refineFile(path string, cell indexing.Cell, cellText string, popt peaks.Opt
 	return doc, nil
 }
 
-func hklText(v [][3]int) string {
-	var names []string
-	for _, h := range v {
-		names = append(names, fmt.Sprintf("%d %d %d", h[0], h[1], h[2]))
-	}
-	return strings.Join(names, " / ")
-}
-
 func printRefinement(w io.Writer, d refineDocJSON) {
 	fmt.Fprintf(w, "%s  %s, λ = %.7f Å\n", d.File, d.Radiation, d.Wavelength)
-	fmt.Fprintf(w, "refined %s %s from %d lines (started from %s)\n", d.System, d.Centring, len(d.Residuals)-countExcluded(d.Residuals), d.StartCell)
+	fmt.Fprintf(w, "refined %s %s from %d lines (started from %s)\n", d.System, d.Centring, d.Fitted, d.StartCell)
 	for _, p := range d.Params {
 		note := ""
 		if p.FromStandard {
@@ -226,19 +218,9 @@ func printResiduals(w io.Writer, title string, rs []report.Residual) {
 		case r.Flagged:
 			mark = "flagged"
 		}
-		fmt.Fprintf(tw, "%s\t%.4f\t%.4f\t%.4f\t%+.4f\t%+.1f\t%s\t\n", hklText(r.HKL), r.TwoTheta, r.ESD, r.TwoThetaCalc, r.Delta, r.Norm, mark)
+		fmt.Fprintf(tw, "%s\t%.4f\t%.4f\t%.4f\t%+.4f\t%+.1f\t%s\t\n", report.HKLText(r.HKL), r.TwoTheta, r.ESD, r.TwoThetaCalc, r.Delta, r.Norm, mark)
 	}
 	tw.Flush()
-}
-
-func countExcluded(rs []report.Residual) int {
-	n := 0
-	for _, r := range rs {
-		if r.Excluded {
-			n++
-		}
-	}
-	return n
 }
 
 func joinAngles(v []float64) string {

@@ -1,9 +1,11 @@
 package main
 
 import (
+	"context"
 	"flag"
 	"fmt"
 	"io"
+	"os"
 	"path/filepath"
 	"time"
 
@@ -37,8 +39,13 @@ func reportAt(args []string, stdout, stderr io.Writer, date time.Time) int {
 		fmt.Fprintf(stderr, "reticle report: --paper: %v\n", err)
 		return 2
 	}
+	if *solution < 0 {
+		fmt.Fprintf(stderr, "reticle report: --solution: want a rank of 1 or more (0: the best), got %d\n", *solution)
+		return 2
+	}
 	var settings report.Settings
 	var paths []string
+	var wantSHA string // the session's record of the scan
 	chosen := *solution
 	if *session != "" {
 		if fs.NArg() > 0 {
@@ -50,19 +57,16 @@ func reportAt(args []string, stdout, stderr io.Writer, date time.Time) int {
 			fmt.Fprintf(stderr, "reticle report: %v\n", err)
 			return 1
 		}
-		settings, paths = s.Settings, []string{s.Scan.Path}
+		settings, paths, wantSHA = s.Settings, []string{s.Scan.Path}, s.Scan.SHA256
 		if !filepath.IsAbs(s.Scan.Path) {
-			// Relative scan paths are taken from the session's directory.
-			if _, err := peaks.ReadFile(s.Scan.Path); err != nil {
+			// A relative scan path not found from here is taken from
+			// the session's directory.
+			if _, err := os.Stat(s.Scan.Path); err != nil {
 				paths[0] = filepath.Join(filepath.Dir(*session), s.Scan.Path)
 			}
 		}
 		if chosen == 0 {
 			chosen = s.Solution
-		}
-		if err := checkHash(paths[0], s.Scan.SHA256, stderr); err != nil {
-			fmt.Fprintf(stderr, "reticle report: %v\n", err)
-			return 1
 		}
 	} else {
 		if fs.NArg() == 0 {
@@ -77,7 +81,16 @@ func reportAt(args []string, stdout, stderr io.Writer, date time.Time) int {
 	}
 	status := 0
 	for _, path := range paths {
-		doc, err := analyse(path, settings)
+		scan, err := peaks.ReadFile(path)
+		if err != nil {
+			fmt.Fprintf(stderr, "reticle report: %v\n", err)
+			status = 1
+			continue
+		}
+		if wantSHA != "" && scan.SHA256 != wantSHA {
+			fmt.Fprintf(stderr, "reticle report: warning: %s has changed since the session was saved (SHA-256 %s, session %s)\n", path, scan.SHA256, wantSHA)
+		}
+		doc, err := report.Run(context.Background(), scan, settings, nil)
 		if err != nil {
 			fmt.Fprintf(stderr, "reticle report: %v\n", err)
 			status = 1
@@ -105,17 +118,4 @@ func reportAt(args []string, stdout, stderr io.Writer, date time.Time) int {
 		}
 	}
 	return status
-}
-
-// checkHash warns when a scan no longer matches the SHA-256 a session
-// recorded.
-func checkHash(path, want string, stderr io.Writer) error {
-	s, err := peaks.ReadFile(path)
-	if err != nil {
-		return err
-	}
-	if want != "" && s.SHA256 != want {
-		fmt.Fprintf(stderr, "reticle report: warning: %s has changed since the session was saved (SHA-256 %s, session %s)\n", path, s.SHA256, want)
-	}
-	return nil
 }

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"os"
 	"path/filepath"
+	"reticle/report"
 	"strings"
 	"testing"
 	"time"
@@ -45,6 +46,15 @@ func TestReportCommand(t *testing.T) {
 	if !bytes.Equal(first, again) {
 		t.Error("the JSON regenerated from --session differs")
 	}
+	// A session whose scan has changed since it was saved: a warning.
+	stale := filepath.Join(t.TempDir(), "stale.reticle.json")
+	abs, _ := filepath.Abs(demo)
+	if err := report.WriteSession(stale, &report.Session{Scan: report.ScanRef{Path: abs, SHA256: "0123"}}, false); err != nil {
+		t.Fatal(err)
+	}
+	if code, _, errs := runCmd("report", "--out", t.TempDir(), "--session", stale); code != 0 || !strings.Contains(errs, "has changed since the session was saved") {
+		t.Errorf("changed scan: exit %d, %q", code, errs)
+	}
 	for _, test := range []struct {
 		args []string
 		code int
@@ -57,6 +67,7 @@ func TestReportCommand(t *testing.T) {
 		{[]string{"report", "--out", dir, "--session", demo}, 1, "not JSON"},
 		{[]string{"report", "--out", filepath.Join(dir, "missing"), "--force", demo}, 1, "no such file"},
 		{[]string{"report", "--out", dir2, "--force", "--solution", "99", demo}, 1, "no solution 99"},
+		{[]string{"report", "--out", dir2, "--solution", "-1", demo}, 2, "--solution"},
 	} {
 		code, _, errs := runCmd(test.args...)
 		if code != test.code || !strings.Contains(errs, test.msg) {
