@@ -54,19 +54,11 @@ func (o Options) withDefaults() Options {
 	setDefault(&o.MaxM, 16)
 	setDefault(&o.MaxL, 8)
 	setDefault(&o.MaxSolutions, 10)
-	if o.MaxImpurities == 0 {
-		o.MaxImpurities = 3
-	} else if o.MaxImpurities < 0 {
-		o.MaxImpurities = 0
-	}
+	setDefaultOrNone(&o.MaxImpurities, 3)
 	setDefault(&o.Tolerance, 0.03)
 	setDefault(&o.MaxEdge, 60)
 	setDefault(&o.MaxVolume, 20000)
-	if o.ZeroRange == 0 {
-		o.ZeroRange = 0.1
-	} else if o.ZeroRange < 0 {
-		o.ZeroRange = 0
-	}
+	setDefaultOrNone(&o.ZeroRange, 0.1)
 	return o
 }
 
@@ -75,4 +67,14 @@ func setDefault[T int | float64](v *T, d T) {
 	if *v == 0 {
 		*v = d
 	}
+}
+
+// setDefaultOrNone replaces a zero value by its default and a negative
+// one, which means "none", by zero.
+func setDefaultOrNone[T int | float64](v *T, d T) {
+	if *v < 0 {
+		*v = 0
+		return
+	}
+	setDefault(v, d)
 }
