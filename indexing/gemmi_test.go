@@ -35,6 +35,9 @@ func TestAgainstGemmi(t *testing.T) {
 		}
 		fs := strings.Split(sc.Text(), "\t")
 		lt, ok := lattice[fs[0]]
+		if !ok && len(fs) == 7 {
+			continue // a system this package does not search
+		}
 		if !ok || len(fs) != 7 {
 			t.Fatalf("bad golden line %q", sc.Text())
 		}

@@ -1,0 +1,59 @@
+package cell
+
+import "math"
+
+// This file is the program's one statement of Bragg's law, λ = 2d sin θ.
+
+// DSpacing returns the d-spacing in Å of a reflection at twoTheta degrees
+// for wavelength lambda Å. It returns NaN outside 0 < 2θ < 180.
+func DSpacing(twoTheta, lambda float64) float64 {
+	if !(twoTheta > 0 && twoTheta < 180) {
+		return math.NaN()
+	}
+	return lambda / (2 * math.Sin(twoTheta*deg/2))
+}
+
+// TwoTheta returns the angle in degrees 2θ of a d-spacing d Å for
+// wavelength lambda Å, NaN when λ > 2d (no reflection).
+func TwoTheta(d, lambda float64) float64 {
+	s := lambda / (2 * d)
+	if !(s > 0 && s <= 1) {
+		return math.NaN()
+	}
+	return 2 * math.Asin(s) / deg
+}
+
+// DSpacingESD returns d and its standard uncertainty from 2θ ± s2θ
+// (degrees) and λ ± sλ (Å), propagated to first order:
+// σd² = (d/λ · sλ)² + (d cot θ · s2θ/2 in radians)².
+func DSpacingESD(twoTheta, s2θ, lambda, sλ float64) (d, sd float64) {
+	d = DSpacing(twoTheta, lambda)
+	th := twoTheta * deg / 2
+	return d, math.Hypot(d/lambda*sλ, d/math.Tan(th)*s2θ*deg/2)
+}
+
+// TwoThetaESD returns 2θ and its standard uncertainty in degrees from
+// d ± sd and λ ± sλ: σ2θ = 2 tan θ · √((sd/d)² + (sλ/λ)²) in radians.
+func TwoThetaESD(d, sd, lambda, sλ float64) (tt, stt float64) {
+	tt = TwoTheta(d, lambda)
+	return tt, 2 * math.Tan(tt*deg/2) * math.Hypot(sd/d, sλ/lambda) / deg
+}
+
+// QOf returns Q = 1/d² in Å⁻² of a line at twoTheta degrees.
+func QOf(twoTheta, lambda float64) float64 {
+	s := 2 * math.Sin(twoTheta*deg/2) / lambda
+	return s * s
+}
+
+// TwoThetaOfQ returns the angle in degrees 2θ of Q = 1/d² Å⁻², NaN beyond
+// 180°.
+func TwoThetaOfQ(q, lambda float64) float64 {
+	return TwoTheta(1/math.Sqrt(q), lambda)
+}
+
+// DTwoThetaDQ returns d(2θ)/dQ in degrees per Å⁻² at Q: 2θ = 2 asin(λ√Q/2)
+// gives λ/(2√Q·cos θ) radians.
+func DTwoThetaDQ(q, lambda float64) float64 {
+	s := lambda * math.Sqrt(q) / 2
+	return lambda / (2 * math.Sqrt(q) * math.Sqrt(1-s*s)) / deg
+}
