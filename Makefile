@@ -16,7 +16,7 @@ SYSTEM_PKGS := gcc pkg-config libgl1-mesa-dev xorg-dev
 TEST_PKGS := $(SYSTEM_PKGS) poppler-utils
 FUZZTIME  ?= 10s
 
-.PHONY: run test build deps test-deps install-pkgs screenshot fmt-check vet static unit fuzz-seeds fuzz bench bench-score clean
+.PHONY: run test test-long build deps test-deps install-pkgs screenshot fmt-check vet static unit fuzz-seeds fuzz bench bench-score clean
 
 # Fyne cannot parse the C/POSIX locale: use English for those only.
 run: deps build
@@ -56,7 +56,12 @@ static:
 	CGO_ENABLED=0 $(GO) build -o /dev/null ./cmd/reticle
 
 unit:
-	LANG=en_US.UTF-8 $(GO) test -count=1 -timeout 45m ./...
+	LANG=en_US.UTF-8 $(GO) test -count=1 ./...
+
+# The full-size property and Monte Carlo tests (RETICLE_LONG=1), which
+# take far longer than make test's.
+test-long:
+	LANG=en_US.UTF-8 RETICLE_LONG=1 $(GO) test -count=1 -timeout 6h ./...
 
 # The seed corpus of every fuzz target, run on its own so the log shows it.
 fuzz-seeds:

@@ -15,8 +15,20 @@ import (
 	"fyne.io/fyne/v2/test"
 	"fyne.io/fyne/v2/widget"
 
+	"reticle/analysis"
 	"reticle/report"
 )
+
+// cellColumnText returns the text of the candidate table's cell in row
+// (≥ 1) under the column titled title.
+func cellColumnText(u *ui, row int, title string) string {
+	for _, c := range u.cellCols {
+		if c.title == title {
+			return c.text(u, &u.m.A.Candidates[row-1])
+		}
+	}
+	return ""
+}
 
 // newTestUI builds the window on the headless test driver, with its
 // autosave in a temporary directory.
@@ -39,7 +51,7 @@ func demoUI(t testing.TB, autosave string) *ui {
 	u := newTestUI(t, autosave)
 	u.open(demoScan)
 	u.wait()
-	if u.m.Doc == nil {
+	if u.m.A == nil {
 		t.Fatalf("the demo did not open: %s", u.status.Text)
 	}
 	return u
@@ -61,8 +73,8 @@ func shot(t *testing.T, u *ui, name string) {
 }
 
 // findPeak returns the index of the peak within 0.01° of tt.
-func findPeak(doc *report.Document, tt float64) int {
-	for i, p := range doc.Peaks {
+func findPeak(a *analysis.Analysis, tt float64) int {
+	for i, p := range a.Peaks {
 		if math.Abs(p.TwoTheta-tt) < 0.01 {
 			return i
 		}
@@ -79,13 +91,13 @@ func TestWorkflow(t *testing.T) {
 	u := newTestUI(t, "")
 	// A high threshold leaves the weak lines out, so that one can be
 	// added by hand.
-	u.openWith(demoScan, report.Settings{Threshold: 14}, 0)
+	u.openWith(demoScan, analysis.Settings{Threshold: 14}, 0)
 	u.wait()
-	doc := u.m.Doc
-	if doc == nil || len(doc.Solutions) == 0 {
+	doc := u.m.A
+	if doc == nil || len(doc.Candidates) == 0 {
 		t.Fatalf("no result after opening: %v", u.status.Text)
 	}
-	if got := u.cellCell(1, 1) + " " + u.cellCell(1, 2); got != "cubic F" {
+	if got := cellColumnText(u, 1, "system") + " " + cellColumnText(u, 1, ""); got != "cubic F" {
 		t.Fatalf("first candidate %q, want cubic F", got)
 	}
 	shot(t, u, "1-opened")
@@ -95,40 +107,40 @@ func TestWorkflow(t *testing.T) {
 	if findPeak(doc, weak) >= 0 {
 		t.Fatalf("the weak line at %.3f° was extracted at threshold 14", weak)
 	}
-	lines := doc.Lines
+	lines := len(doc.Lines)
 	pos := u.plot.pixel(weak, 0)
 	u.plot.Tapped(&fyne.PointEvent{Position: fyne.NewPos(pos.X, (u.plot.dataMin.Y+u.plot.dataMax.Y)/2)})
 	u.wait()
-	i := findPeak(u.m.Doc, weak)
-	if i < 0 || u.m.Doc.Lines != lines+1 {
-		t.Fatalf("click at %.3f° added nothing (%d lines, status %q)", weak, u.m.Doc.Lines, u.status.Text)
+	i := findPeak(u.m.A, weak)
+	if i < 0 || len(u.m.A.Lines) != lines+1 {
+		t.Fatalf("click at %.3f° added nothing (%d lines, status %q)", weak, len(u.m.A.Lines), u.status.Text)
 	}
-	if text, _ := u.peakCell(i+1, 8); text != "added" {
-		t.Errorf("the added peak's note is %q", text)
+	if text, _ := u.peakCell(i+1, 9); !strings.Contains(text, "user-added") {
+		t.Errorf("the added peak's flags are %q", text)
 	}
-	if hkl, _ := u.peakCell(i+1, 7); hkl != "3 3 1" {
+	if hkl, _ := u.peakCell(i+1, 8); hkl != "3 3 1" {
 		t.Errorf("the added peak indexes as %q, want 3 3 1", hkl)
 	}
 	// Reject the first peak by clicking its marker.
-	first := u.m.Doc.Peaks[0]
+	first := u.m.A.Peaks[0]
 	mp := u.plot.pixel(first.TwoTheta, report.PeakMarkerY(first, u.plot.opt.Scale, u.plot.span))
 	u.plot.Tapped(&fyne.PointEvent{Position: mp})
 	u.wait()
-	if note, kept := u.peakCell(1, 8); !strings.Contains(note, "rejected") {
+	if note, kept := u.peakCell(1, 9); !strings.Contains(note, "rejected") {
 		t.Fatalf("clicking the first marker did not reject it: note %q, kept %v", note, kept)
 	}
-	if u.m.Doc.Lines != lines {
-		t.Errorf("%d lines after one added and one rejected, want %d", u.m.Doc.Lines, lines)
+	if len(u.m.A.Lines) != lines {
+		t.Errorf("%d lines after one added and one rejected, want %d", len(u.m.A.Lines), lines)
 	}
 	shot(t, u, "2-edited")
 	u.undo()
 	u.wait()
-	if note, _ := u.peakCell(1, 8); strings.Contains(note, "rejected") || u.m.Doc.Lines != lines+1 {
-		t.Fatalf("undo left the peak rejected (%q, %d lines)", note, u.m.Doc.Lines)
+	if note, _ := u.peakCell(1, 9); strings.Contains(note, "rejected") || len(u.m.A.Lines) != lines+1 {
+		t.Fatalf("undo left the peak rejected (%q, %d lines)", note, len(u.m.A.Lines))
 	}
 	// Select the second candidate, then the first again.
 	u.cellTable.Select(widget.TableCellID{Row: 2, Col: 1})
-	if u.m.Selected != 1 || !strings.Contains(u.paramsSummary(), "(solution 2)") {
+	if u.m.Selected != 1 || !strings.Contains(u.paramsSummary(), "(candidate 2)") {
 		t.Fatalf("selecting row 2: selected %d, summary %q", u.m.Selected, u.paramsSummary())
 	}
 	u.cellTable.Select(widget.TableCellID{Row: 1, Col: 1})
@@ -142,8 +154,8 @@ func TestWorkflow(t *testing.T) {
 	if !strings.Contains(sum, "displacement") || !strings.Contains(sum, "cubic F") {
 		t.Fatalf("refinement summary %q", sum)
 	}
-	a := u.m.Solution().A
-	if e := u.m.Solution().AESD; !(e > 0) || math.Abs(a-8.083) > 3*e {
+	a := u.m.Solution().Cell().A
+	if e := u.m.Solution().Refined.ESD.A; !(e > 0) || math.Abs(a-8.083) > 3*e {
 		t.Errorf("a = %.5f(%.5f), made with 8.083", a, e)
 	}
 	shot(t, u, "3-refined")
@@ -156,7 +168,7 @@ func TestWorkflow(t *testing.T) {
 	if c := u.contentsSummary(); !strings.Contains(c, "Z                    8") || !strings.Contains(c, "atoms per cell       56") {
 		t.Fatalf("contents %q", c)
 	}
-	if z := u.cellCell(1, 9); z != "8" {
+	if z := cellColumnText(u, 1, "Z"); z != "8" {
 		t.Errorf("Z column %q", z)
 	}
 	u.tabs.SelectIndex(4)
@@ -175,7 +187,7 @@ func TestSessionRestore(t *testing.T) {
 	u.togglePeak(2)
 	u.wait()
 	u.cellTable.Select(widget.TableCellID{Row: 2, Col: 0})
-	want := u.m.Doc
+	want := u.m.A
 	wantSel := u.m.Selected
 	// "Killed": no clean exit, so the autosave stays.
 	if _, err := os.Stat(autosave); err != nil {
@@ -191,22 +203,21 @@ func TestSessionRestore(t *testing.T) {
 	}
 	v.restoreSession(s)
 	v.wait()
-	got := v.m.Doc
+	got := v.m.A
 	if got == nil || v.m.Selected != wantSel {
 		t.Fatalf("restored selection %d, want %d", v.m.Selected, wantSel)
 	}
-	if len(got.Peaks) != len(want.Peaks) || got.Lines != want.Lines {
-		t.Fatalf("restored %d peaks, %d lines; want %d, %d", len(got.Peaks), got.Lines, len(want.Peaks), want.Lines)
+	if len(got.Peaks) != len(want.Peaks) || len(got.Lines) != len(want.Lines) {
+		t.Fatalf("restored %d peaks, %d lines; want %d, %d", len(got.Peaks), len(got.Lines), len(want.Peaks), len(want.Lines))
 	}
 	for i := range got.Peaks {
 		if got.Peaks[i].TwoTheta != want.Peaks[i].TwoTheta || got.Peaks[i].Rejected != want.Peaks[i].Rejected {
 			t.Fatalf("peak %d: %+v, want %+v", i+1, got.Peaks[i], want.Peaks[i])
 		}
 	}
-	a, b := got.Solutions[wantSel], want.Solutions[wantSel]
-	if a.A != b.A || a.C != b.C || a.M != b.M || a.FN != b.FN || a.System != b.System {
-		t.Errorf("restored cell %s %s a=%g c=%g M=%g F=%g; want %s %s a=%g c=%g M=%g F=%g",
-			a.System, a.Centring, a.A, a.C, a.M, a.FN, b.System, b.Centring, b.A, b.C, b.M, b.FN)
+	a, b := got.Candidates[wantSel], want.Candidates[wantSel]
+	if a.Cell() != b.Cell() || a.M != b.M || a.FN != b.FN {
+		t.Errorf("restored cell %v M=%g F=%g; want %v M=%g F=%g", a.Cell(), a.M, a.FN, b.Cell(), b.M, b.FN)
 	}
 	// A clean exit removes the autosave.
 	v.clearAutosave()
@@ -240,7 +251,7 @@ func TestHelperEditAndHang(t *testing.T) {
 	u.wait()
 	u.cellTable.Select(widget.TableCellID{Row: 2, Col: 0})
 	s := u.m.Solution()
-	fmt.Printf("READY %d %.17g %.17g %.17g\n", u.m.Doc.Lines, s.A, s.M, s.FN)
+	fmt.Printf("READY %d %.17g %.17g %.17g\n", len(u.m.A.Lines), s.Cell().A, s.M, s.FN)
 	os.Stdout.Sync()
 	select {}
 }
@@ -286,8 +297,8 @@ func TestKilledSession(t *testing.T) {
 	v.wait()
 	got := v.m.Solution()
 	near := func(x, y float64) bool { return math.Abs(x-y) <= 1e-8*math.Abs(y) }
-	if v.m.Doc.Lines != lines || !near(got.A, a) || !near(got.M, m) || !near(got.FN, fn) {
+	if len(v.m.A.Lines) != lines || !near(got.Cell().A, a) || !near(got.M, m) || !near(got.FN, fn) {
 		t.Errorf("restored %d lines, a %.9g, M %.9g, F %.9g; the killed program had %d, %.9g, %.9g, %.9g",
-			v.m.Doc.Lines, got.A, got.M, got.FN, lines, a, m, fn)
+			len(v.m.A.Lines), got.Cell().A, got.M, got.FN, lines, a, m, fn)
 	}
 }

@@ -25,7 +25,7 @@ func autosavePath() string {
 
 // saveAutosave writes the current state to the autosave file.
 func (u *ui) saveAutosave() {
-	if u.autosave == "" || u.m.Scan == nil {
+	if u.autosave == "" || u.m.Scan() == nil {
 		return
 	}
 	if err := os.MkdirAll(filepath.Dir(u.autosave), 0o755); err != nil {

@@ -51,7 +51,7 @@ func BenchmarkRenderMillion(b *testing.B) {
 	u := newTestUI(b, "")
 	u.open(p)
 	u.wait()
-	if u.m.Doc == nil {
+	if u.m.A == nil {
 		b.Fatal(u.status.Text)
 	}
 	b.ResetTimer()

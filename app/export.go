@@ -43,7 +43,7 @@ func (u *ui) exportStep() fyne.CanvasObject {
 
 // reportDialog asks for a folder and writes the report there.
 func (u *ui) reportDialog() {
-	if u.m.Doc == nil {
+	if u.m.A == nil {
 		u.setStatus("open a scan first")
 		return
 	}
@@ -67,10 +67,9 @@ func (u *ui) reportDialog() {
 
 // writeReport writes the four records into dir, asking before replacing.
 func (u *ui) writeReport(dir string, force bool) {
-	doc := *u.m.Doc
-	doc.Sample = u.m.Settings.Sample
-	doc.Settings.Sample = u.m.Settings.Sample
-	files, err := report.WriteAll(dir, &doc, u.m.Selected, paperFor(u.app), time.Now(), force)
+	a := *u.m.A
+	a.Settings.Sample = u.m.Settings.Sample
+	files, err := report.WriteAll(dir, &a, paperFor(u.app), time.Now(), force)
 	if errors.Is(err, report.ErrExists) {
 		dialog.ShowConfirm("Replace the report?", fmt.Sprintf("%v\n\nReplace the existing files?", err), func(ok bool) {
 			if ok {
@@ -96,7 +95,7 @@ func paperFor(a fyne.App) report.Paper {
 }
 
 func (u *ui) saveSessionDialog() {
-	if u.m.Scan == nil {
+	if u.m.Scan() == nil {
 		u.setStatus("open a scan first")
 		return
 	}
@@ -117,7 +116,7 @@ func (u *ui) saveSessionDialog() {
 		}
 		u.setStatus("session saved to %s", path)
 	}, u.win)
-	d.SetFileName(report.BaseName(&report.Document{ScanInfo: report.ScanInfo{File: u.m.Path}}) + ".reticle.json")
+	d.SetFileName(report.BaseName(u.m.A) + ".reticle.json")
 	d.Show()
 }
 
@@ -144,7 +143,7 @@ func (u *ui) restoreSession(s *report.Session) {
 	u.m.Settings = s.Settings
 	u.syncFields()
 	u.openWith(s.Scan.Path, s.Settings, s.Solution)
-	if s.Scan.SHA256 != "" && u.m.Scan != nil && u.m.Scan.SHA256 != s.Scan.SHA256 {
+	if scan := u.m.Scan(); s.Scan.SHA256 != "" && scan != nil && scan.SHA256 != s.Scan.SHA256 {
 		dialog.ShowInformation("The scan has changed",
 			fmt.Sprintf("%s is not the file the session was saved with (its SHA-256 differs).\nThe peaks and cells shown come from the file as it is now.", s.Scan.Path), u.win)
 	}

@@ -4,25 +4,23 @@ import (
 	"context"
 	"errors"
 	"fmt"
-	"math"
-	"slices"
 	"time"
 
+	"reticle/analysis"
 	"reticle/peaks"
 	"reticle/report"
 )
 
-// A Model is the state of one analysis in the desktop program: the scan,
-// its extraction, the settings (with the user's peak edits), the latest
-// result and the chosen solution, with undo and redo of every change. It
+// A Model is the state of one analysis in the desktop program: the scan's
+// extraction, the settings (with the user's peak edits), the latest
+// analysis and the chosen cell, with undo and redo of every change. It
 // holds no widgets; the window shows it.
 type Model struct {
 	Path     string
-	Scan     *peaks.Scan
-	Ext      *report.Extraction
-	Settings report.Settings
-	Doc      *report.Document
-	Selected int // index of the chosen solution in Doc.Solutions
+	Ext      *analysis.Extraction
+	Settings analysis.Settings
+	A        *analysis.Analysis
+	Selected int // index of the chosen candidate in A.Candidates
 
 	// LastRun is how long the last analysis took; edits recompute the
 	// candidates automatically while it stays below AutoLimit.
@@ -37,7 +35,7 @@ const AutoLimit = 500 * time.Millisecond
 
 // snapshot is what undo restores.
 type snapshot struct {
-	settings report.Settings
+	settings analysis.Settings
 	selected int
 }
 
@@ -46,79 +44,71 @@ var ErrNoScan = errors.New("no scan is open")
 
 // Open reads a scan and extracts its peaks with the settings (whose peak
 // edits are fitted again). The history is cleared.
-func (m *Model) Open(ctx context.Context, path string, s report.Settings) error {
-	scan, err := peaks.ReadFile(path)
+func (m *Model) Open(ctx context.Context, path string, s analysis.Settings) error {
+	ext, err := analysis.ReadExtract(ctx, path, s, nil)
 	if err != nil {
 		return err
 	}
-	ext, err := report.Extract(ctx, scan, s, nil)
-	if err != nil {
-		return err
-	}
-	m.Path, m.Scan, m.Ext, m.Settings = path, scan, ext, s
-	m.Doc, m.Selected, m.undo, m.redo = nil, 0, nil, nil
+	m.Path, m.Ext, m.Settings = path, ext, s
+	m.A, m.Selected, m.undo, m.redo = nil, 0, nil, nil
 	return nil
+}
+
+// Scan returns the open scan, or nil.
+func (m *Model) Scan() *peaks.Scan {
+	if m.Ext == nil {
+		return nil
+	}
+	return m.Ext.Scan
 }
 
 // Analyse indexes, refines and works out contents with the current
 // settings; progress may be nil.
-func (m *Model) Analyse(ctx context.Context, progress report.Progress) error {
+func (m *Model) Analyse(ctx context.Context, progress analysis.Progress) error {
 	if m.Ext == nil {
 		return ErrNoScan
 	}
 	t0 := time.Now()
-	doc, err := report.Analyse(ctx, m.Ext, m.Settings, progress)
+	a, err := analysis.Analyse(ctx, m.Ext, m.Settings, progress)
 	if err != nil {
 		return err
 	}
-	m.Apply(doc, time.Since(t0))
+	m.Apply(a, time.Since(t0))
 	return nil
 }
 
 // Apply takes the result of an analysis that took the given time (run on
-// a copy of the state, off the UI thread).
-func (m *Model) Apply(doc *report.Document, took time.Duration) {
-	m.Doc, m.LastRun = doc, took
-	if m.Selected >= len(doc.Solutions) {
+// a copy of the state, off the UI thread), keeping the chosen cell.
+func (m *Model) Apply(a *analysis.Analysis, took time.Duration) {
+	m.A, m.LastRun = a, took
+	if m.Selected >= len(a.Candidates) {
 		m.Selected = 0
 	}
+	a.Chosen = m.Selected
 }
 
-// Solution returns the chosen solution, or nil.
-func (m *Model) Solution() *report.Solution {
-	if m.Doc == nil || m.Selected < 0 || m.Selected >= len(m.Doc.Solutions) {
+// Solution returns the chosen candidate, or nil.
+func (m *Model) Solution() *analysis.Candidate {
+	if m.A == nil {
 		return nil
 	}
-	return &m.Doc.Solutions[m.Selected]
+	return m.A.ChosenCandidate()
 }
 
 func (m *Model) push() {
-	m.undo = append(m.undo, snapshot{cloneSettings(m.Settings), m.Selected})
+	m.undo = append(m.undo, snapshot{m.Settings.Clone(), m.Selected})
 	m.redo = nil
 }
 
-func cloneSettings(s report.Settings) report.Settings {
-	s.Systems = slices.Clone(s.Systems)
-	s.Rejected = slices.Clone(s.Rejected)
-	s.Added = slices.Clone(s.Added)
-	s.Excluded = slices.Clone(s.Excluded)
-	return s
-}
-
 // TogglePeak accepts a rejected peak or rejects an accepted one (index
-// into Doc.Peaks). K-beta companions are never indexed and cannot be
+// into A.Peaks). K-beta companions are never indexed and cannot be
 // accepted.
 func (m *Model) TogglePeak(i int) error {
-	if m.Doc == nil || i < 0 || i >= len(m.Doc.Peaks) {
+	if m.A == nil || i < 0 || i >= len(m.A.Peaks) {
 		return fmt.Errorf("no peak %d", i+1)
 	}
-	p := m.Doc.Peaks[i]
 	m.push()
-	if p.Rejected {
-		m.Settings.Rejected = slices.DeleteFunc(m.Settings.Rejected, func(x float64) bool { return math.Abs(x-p.TwoTheta) <= 0.005 })
-	} else {
-		m.Settings.Rejected = append(m.Settings.Rejected, p.TwoTheta)
-	}
+	m.Settings.Reject(m.A.Peaks[i].TwoTheta)
 	return nil
 }
 
@@ -140,7 +130,7 @@ func (m *Model) AddPeak(tt float64) (peaks.Peak, error) {
 
 // Change applies an edit of the settings (corrections, formula, ...) as
 // one undoable step.
-func (m *Model) Change(edit func(*report.Settings)) {
+func (m *Model) Change(edit func(*analysis.Settings)) {
 	m.push()
 	edit(&m.Settings)
 }
@@ -149,20 +139,17 @@ func (m *Model) Change(edit func(*report.Settings)) {
 // back.
 func (m *Model) ToggleExcluded(tt float64) {
 	m.push()
-	n := len(m.Settings.Excluded)
-	m.Settings.Excluded = slices.DeleteFunc(m.Settings.Excluded, func(x float64) bool { return math.Abs(x-tt) <= 0.005 })
-	if len(m.Settings.Excluded) == n {
-		m.Settings.Excluded = append(m.Settings.Excluded, tt)
-	}
+	m.Settings.Exclude(tt)
 }
 
-// Select chooses solution k (an undoable step).
+// Select chooses candidate k (an undoable step).
 func (m *Model) Select(k int) {
-	if m.Doc == nil || k < 0 || k >= len(m.Doc.Solutions) || k == m.Selected {
+	if m.A == nil || k < 0 || k >= len(m.A.Candidates) || k == m.Selected {
 		return
 	}
 	m.push()
 	m.Selected = k
+	m.A.Chosen = k
 }
 
 // CanUndo and CanRedo report whether there is a step to take.
@@ -185,29 +172,38 @@ func (m *Model) step(from, to *[]snapshot) error {
 	}
 	last := (*from)[len(*from)-1]
 	*from = (*from)[:len(*from)-1]
-	*to = append(*to, snapshot{cloneSettings(m.Settings), m.Selected})
+	*to = append(*to, snapshot{m.Settings.Clone(), m.Selected})
 	return m.restore(last)
 }
 
 // restore sets a snapshot, refitting the added peaks when they differ.
 func (m *Model) restore(s snapshot) error {
-	if !slices.Equal(s.settings.Added, m.Settings.Added) {
-		m.Ext.Added, m.Ext.Profile = nil, m.Ext.Result.Profile
-		for _, tt := range s.settings.Added {
-			if _, err := m.Ext.Add(tt); err != nil {
-				return err
-			}
+	if len(s.settings.Added) != len(m.Settings.Added) || !sameAngles(s.settings.Added, m.Settings.Added) {
+		if err := m.Ext.Refit(s.settings.Added); err != nil {
+			return err
 		}
 	}
 	m.Settings, m.Selected = s.settings, s.selected
+	if m.A != nil && m.Selected < len(m.A.Candidates) {
+		m.A.Chosen = m.Selected
+	}
 	return nil
+}
+
+func sameAngles(a, b []float64) bool {
+	for i := range a {
+		if a[i] != b[i] {
+			return false
+		}
+	}
+	return true
 }
 
 // Session returns the session that reopens this state.
 func (m *Model) Session() *report.Session {
-	s := &report.Session{Settings: cloneSettings(m.Settings), Solution: m.Selected + 1}
-	if m.Scan != nil {
-		s.Scan = report.ScanRef{Path: m.Path, SHA256: m.Scan.SHA256}
+	s := &report.Session{Settings: m.Settings.Clone(), Solution: m.Selected + 1}
+	if m.Ext != nil {
+		s.Scan = report.ScanRef{Path: m.Path, SHA256: m.Ext.Scan.SHA256}
 	}
 	return s
 }

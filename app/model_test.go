@@ -4,7 +4,7 @@ import (
 	"context"
 	"testing"
 
-	"reticle/report"
+	"reticle/analysis"
 )
 
 const demoScan = "../assets/demo/kiln-trial-07.xy"
@@ -12,7 +12,7 @@ const demoScan = "../assets/demo/kiln-trial-07.xy"
 func openDemo(t testing.TB) *Model {
 	t.Helper()
 	m := &Model{}
-	if err := m.Open(context.Background(), demoScan, report.Settings{}); err != nil {
+	if err := m.Open(context.Background(), demoScan, analysis.Settings{}); err != nil {
 		t.Fatal(err)
 	}
 	if err := m.Analyse(context.Background(), nil); err != nil {
@@ -24,22 +24,22 @@ func openDemo(t testing.TB) *Model {
 func TestModelEditsAndUndo(t *testing.T) {
 	ctx := context.Background()
 	m := openDemo(t)
-	lines := m.Doc.Lines
+	lines := len(m.A.Lines)
 	if err := m.TogglePeak(0); err != nil {
 		t.Fatal(err)
 	}
 	m.Analyse(ctx, nil)
-	if !m.Doc.Peaks[0].Rejected || m.Doc.Lines != lines-1 {
-		t.Fatalf("toggle: rejected %v, %d lines", m.Doc.Peaks[0].Rejected, m.Doc.Lines)
+	if !m.A.Peaks[0].Rejected || len(m.A.Lines) != lines-1 {
+		t.Fatalf("toggle: rejected %v, %d lines", m.A.Peaks[0].Rejected, len(m.A.Lines))
 	}
 	m.Undo()
 	m.Analyse(ctx, nil)
-	if m.Doc.Peaks[0].Rejected || m.Doc.Lines != lines {
-		t.Fatalf("undo: rejected %v, %d lines", m.Doc.Peaks[0].Rejected, m.Doc.Lines)
+	if m.A.Peaks[0].Rejected || len(m.A.Lines) != lines {
+		t.Fatalf("undo: rejected %v, %d lines", m.A.Peaks[0].Rejected, len(m.A.Lines))
 	}
 	m.Redo()
 	m.Analyse(ctx, nil)
-	if !m.Doc.Peaks[0].Rejected {
+	if !m.A.Peaks[0].Rejected {
 		t.Fatal("redo did not reject again")
 	}
 }

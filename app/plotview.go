@@ -15,6 +15,7 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 	"gonum.org/v1/plot/vg/vgimg"
 
+	"reticle/cell"
 	"reticle/report"
 )
 
@@ -98,15 +99,15 @@ func (v *plotView) render() {
 	if size.Width < 10 || size.Height < 10 {
 		return
 	}
-	doc := v.u.m.Doc
-	if doc == nil {
+	a := v.u.m.A
+	if a == nil {
 		return
 	}
 	sc := float64(v.scale())
 	wpx, hpx := int(float64(size.Width)*sc), int(float64(size.Height)*sc)
 	opt := v.opt
 	opt.Buckets = max(200, wpx/3)
-	p := report.Figure(doc, v.u.m.Selected, opt)
+	p := report.Figure(a, opt)
 	dpi := 96 * sc
 	c := vgimg.NewWith(vgimg.UseWH(vg.Length(float64(wpx)/dpi)*vg.Inch, vg.Length(float64(hpx)/dpi)*vg.Inch), vgimg.UseDPI(int(math.Round(dpi))))
 	dc := draw.New(c)
@@ -129,7 +130,7 @@ func (v *plotView) dataX(px float32) float64 {
 		return math.NaN()
 	}
 	f := float64(px-v.dataMin.X) / float64(v.dataMax.X-v.dataMin.X)
-	return v.opt.TwoTheta(v.xMin+f*(v.xMax-v.xMin), v.u.m.Doc.Wavelength)
+	return v.opt.TwoTheta(v.xMin+f*(v.xMax-v.xMin), v.u.m.A.Radiation.Lambda1)
 }
 
 // pixel converts data coordinates to logical pixels.
@@ -141,16 +142,16 @@ func (v *plotView) pixel(x, y float64) fyne.Position {
 
 // markerAt returns the peak whose marker lies within 9 pixels of pos.
 func (v *plotView) markerAt(pos fyne.Position) (int, bool) {
-	doc := v.u.m.Doc
-	if doc == nil {
+	a := v.u.m.A
+	if a == nil {
 		return 0, false
 	}
 	best, bd := -1, float32(9*9)
-	for i, pk := range doc.Peaks {
-		if pk.CompanionOf != nil && !pk.Rejected {
+	for i, pk := range a.Peaks {
+		if pk.Companion() && !pk.Rejected {
 			continue
 		}
-		q := v.pixel(v.opt.X(pk.TwoTheta, doc.Wavelength), report.PeakMarkerY(pk, v.opt.Scale, v.span))
+		q := v.pixel(v.opt.X(pk.TwoTheta, a.Radiation.Lambda1), report.PeakMarkerY(pk, v.opt.Scale, v.span))
 		dx, dy := q.X-pos.X, q.Y-pos.Y
 		if d := dx*dx + dy*dy; d < bd {
 			best, bd = i, d
@@ -161,7 +162,7 @@ func (v *plotView) markerAt(pos fyne.Position) (int, bool) {
 
 // Tapped toggles the peak under the pointer, or adds one there.
 func (v *plotView) Tapped(ev *fyne.PointEvent) {
-	if v.u.m.Doc == nil {
+	if v.u.m.A == nil {
 		return
 	}
 	if i, ok := v.markerAt(ev.Position); ok {
@@ -175,8 +176,7 @@ func (v *plotView) Tapped(ev *fyne.PointEvent) {
 
 // Scrolled zooms about the pointer: in when scrolling up.
 func (v *plotView) Scrolled(ev *fyne.ScrollEvent) {
-	doc := v.u.m.Doc
-	if doc == nil {
+	if v.u.m.A == nil {
 		return
 	}
 	at := v.dataX(ev.Position.X)
@@ -192,22 +192,21 @@ func (v *plotView) Scrolled(ev *fyne.ScrollEvent) {
 }
 
 func (v *plotView) viewRange() (float64, float64) {
-	doc := v.u.m.Doc
 	if v.opt.XMax > v.opt.XMin {
 		return v.opt.XMin, v.opt.XMax
 	}
-	return doc.Range[0], doc.Range[1]
+	return v.u.m.Scan().Range()
 }
 
 // setRange shows 2θ from lo to hi, clipped to the scan, at least 0.2° wide.
 func (v *plotView) setRange(lo, hi float64) {
-	doc := v.u.m.Doc
+	first, last := v.u.m.Scan().Range()
 	if hi-lo < 0.2 {
 		c := (lo + hi) / 2
 		lo, hi = c-0.1, c+0.1
 	}
-	lo, hi = math.Max(lo, doc.Range[0]), math.Min(hi, doc.Range[1])
-	if lo <= doc.Range[0] && hi >= doc.Range[1] {
+	lo, hi = math.Max(lo, first), math.Min(hi, last)
+	if lo <= first && hi >= last {
 		lo, hi = 0, 0
 	}
 	v.opt.XMin, v.opt.XMax = lo, hi
@@ -228,7 +227,7 @@ func (v *plotView) MouseUp(*desktop.MouseEvent) {}
 
 // Dragged pans, or draws the zoom box.
 func (v *plotView) Dragged(ev *fyne.DragEvent) {
-	if v.u.m.Doc == nil {
+	if v.u.m.A == nil {
 		return
 	}
 	if !v.dragging {
@@ -253,12 +252,12 @@ func (v *plotView) Dragged(ev *fyne.DragEvent) {
 		return
 	}
 	shift := -float64(ev.Dragged.DX) / w * (hi - lo)
-	doc := v.u.m.Doc
-	if lo+shift < doc.Range[0] {
-		shift = doc.Range[0] - lo
+	first, last := v.u.m.Scan().Range()
+	if lo+shift < first {
+		shift = first - lo
 	}
-	if hi+shift > doc.Range[1] {
-		shift = doc.Range[1] - hi
+	if hi+shift > last {
+		shift = last - hi
 	}
 	v.opt.XMin, v.opt.XMax = lo+shift, hi+shift
 	v.render()
@@ -285,8 +284,8 @@ func (v *plotView) MouseOut()                   { v.u.setHover("") }
 
 // MouseMoved shows the position, and the hkl of a calculated line near it.
 func (v *plotView) MouseMoved(ev *desktop.MouseEvent) {
-	doc := v.u.m.Doc
-	if doc == nil {
+	a := v.u.m.A
+	if a == nil {
 		return
 	}
 	tt := v.dataX(ev.Position.X)
@@ -294,14 +293,16 @@ func (v *plotView) MouseMoved(ev *desktop.MouseEvent) {
 		v.u.setHover("")
 		return
 	}
-	text := fmt.Sprintf("2θ %.4f°   d %.5f Å", tt, doc.Wavelength/(2*math.Sin(tt*math.Pi/360)))
+	lam := a.Radiation.Lambda1
+	text := fmt.Sprintf("2θ %.4f°   d %.5f Å", tt, cell.DSpacing(tt, lam))
 	if s := v.u.m.Solution(); s != nil {
 		// The calculated line within 4 pixels.
 		perPx := (v.xMax - v.xMin) / float64(v.dataMax.X-v.dataMin.X)
 		var names []string
 		for _, c := range s.Calculated {
-			if math.Abs(v.opt.X(c.TwoTheta, doc.Wavelength)-v.opt.X(tt, doc.Wavelength)) <= 4*perPx {
-				names = append(names, report.HKLText(c.HKL)+fmt.Sprintf(" at %.4f°", c.TwoTheta))
+			ctt := s.Position(c.HKL[0], lam)
+			if math.Abs(v.opt.X(ctt, lam)-v.opt.X(tt, lam)) <= 4*perPx {
+				names = append(names, report.HKLText(c.HKL)+fmt.Sprintf(" at %.4f°", ctt))
 			}
 		}
 		if len(names) > 0 {
@@ -309,7 +310,7 @@ func (v *plotView) MouseMoved(ev *desktop.MouseEvent) {
 		}
 	}
 	if i, ok := v.markerAt(ev.Position); ok {
-		pk := doc.Peaks[i]
+		pk := a.Peaks[i]
 		state := "accepted: click to reject"
 		if pk.Rejected {
 			state = "rejected: click to accept"

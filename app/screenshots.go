@@ -20,13 +20,15 @@ func (u *ui) takeScreenshots(dir, name string) {
 		// Wait for the first analysis.
 		for i := 0; i < 600; i++ {
 			var ready bool
-			fyne.DoAndWait(func() { ready = u.m.Doc != nil })
+			fyne.DoAndWait(func() { ready = u.m.A != nil })
 			if ready {
 				break
 			}
 			time.Sleep(50 * time.Millisecond)
 		}
 		u.wait()
+		var analysed bool
+		fyne.DoAndWait(func() { analysed = u.m.A != nil })
 		save := func(label string) {
 			time.Sleep(900 * time.Millisecond)
 			p := filepath.Join(dir, fmt.Sprintf("%s-%s.png", name, label))
@@ -57,6 +59,16 @@ func (u *ui) takeScreenshots(dir, name string) {
 				titles = append(titles, strings.ReplaceAll(strings.TrimSpace(strings.ToLower(t.Text)), "  ", "-"))
 			}
 		})
+		if !analysed {
+			// The scan could not be read or analysed: the window shows
+			// the error; picture it and stop.
+			save("0-error")
+			fyne.DoAndWait(func() {
+				u.clearAutosave()
+				u.app.Quit()
+			})
+			return
+		}
 		for i, t := range titles {
 			fyne.DoAndWait(func() { u.tabs.SelectIndex(i) })
 			save(t)
@@ -65,8 +77,8 @@ func (u *ui) takeScreenshots(dir, name string) {
 		fyne.DoAndWait(func() {
 			u.tabs.SelectIndex(1)
 			best := 0
-			for i, p := range u.m.Doc.Peaks {
-				if p.Height > u.m.Doc.Peaks[best].Height {
+			for i, p := range u.m.A.Peaks {
+				if p.Height > u.m.A.Peaks[best].Height {
 					best = i
 				}
 			}
@@ -85,7 +97,8 @@ func (u *ui) takeScreenshots(dir, name string) {
 		u.wait()
 		save("8-displacement-refined")
 		fyne.DoAndWait(func() {
-			u.plot.setRange(u.m.Doc.Range[0]+0.3*(u.m.Doc.Range[1]-u.m.Doc.Range[0]), u.m.Doc.Range[0]+0.45*(u.m.Doc.Range[1]-u.m.Doc.Range[0]))
+			lo, hi := u.m.Scan().Range()
+			u.plot.setRange(lo+0.3*(hi-lo), lo+0.45*(hi-lo))
 		})
 		save("9-zoomed")
 		fyne.DoAndWait(func() {

@@ -11,6 +11,10 @@ import (
 	"fyne.io/fyne/v2/container"
 	"fyne.io/fyne/v2/widget"
 
+	"reticle/analysis"
+	"reticle/cell"
+	"reticle/density"
+	"reticle/esd"
 	"reticle/peaks"
 	"reticle/refine"
 	"reticle/report"
@@ -44,22 +48,27 @@ func (u *ui) scanStep() fyne.CanvasObject {
 	}
 	apply := widget.NewButton("Use this radiation", func() {
 		w := u.waveSel.Selected
+		var rad *peaks.Radiation
 		switch w {
 		case "from the file":
 			w = ""
 		case "typed in Å":
 			w = strings.TrimSpace(u.waveEntry.Text)
-			if _, err := peaks.ParseRadiation(w); err != nil {
+			fallthrough
+		default:
+			r, err := peaks.ParseRadiation(w)
+			if err != nil {
 				u.showError("The wavelength is not usable", err, "Type a wavelength in Å between 0.1 and 5, e.g. 1.5405929, or pick an anode.")
 				return
 			}
+			rad = &r
 		}
 		u.app.Preferences().SetString("wavelength", w)
-		if u.m.Scan == nil {
+		if u.m.Scan() == nil {
 			return
 		}
-		s := cloneSettings(u.m.Settings)
-		s.Wavelength = w
+		s := u.m.Settings.Clone()
+		s.Radiation = rad
 		u.openWith(u.m.Path, s, 0)
 	})
 	recentBox := container.NewVBox()
@@ -93,7 +102,7 @@ func (u *ui) fillRecent(box *fyne.Container) {
 
 // refreshScan shows the scan's facts.
 func (u *ui) refreshScan() {
-	s := u.m.Scan
+	s := u.m.Scan()
 	if s == nil {
 		return
 	}
@@ -104,53 +113,49 @@ func (u *ui) refreshScan() {
 }
 
 // peakColumns are the peak table's columns.
-var peakColumns = []string{"keep", "#", "2θ (°)", "d (Å)", "height", "FWHM (°)", "S/N", "hkl", "note"}
+var peakColumns = []string{"keep", "#", "2θ (°)", "d (Å)", "height", "FWHM (°)", "η", "S/N", "hkl", "flags"}
 
 // peakCell returns the text of a peak table cell (row ≥ 1) and, for the
 // first column, whether the peak is kept.
 func (u *ui) peakCell(row, col int) (string, bool) {
-	doc := u.m.Doc
-	if doc == nil || row < 1 || row > len(doc.Peaks) {
+	a := u.m.A
+	if a == nil || row < 1 || row > len(a.Peaks) {
 		return "", false
 	}
 	i := row - 1
-	p := doc.Peaks[i]
-	hkl := ""
-	if s := u.m.Solution(); s != nil {
-		for _, l := range s.Lines {
-			if l.Indexed && l.TwoTheta == p.TwoTheta {
-				hkl = report.HKLText(l.HKL)
-			}
-		}
-	}
-	note := ""
-	switch {
-	case p.CompanionOf != nil:
-		note = fmt.Sprintf("K-beta of %d", *p.CompanionOf+1)
-	case strings.Contains(p.Flags, "user-added"):
-		note = "added"
-	}
-	if p.Rejected {
-		note = strings.TrimSpace("rejected " + note)
-	}
+	p := a.Peaks[i]
 	switch col {
 	case 0:
-		return "", !p.Rejected && p.CompanionOf == nil
+		return "", !p.Rejected && !p.Companion()
 	case 1:
 		return strconv.Itoa(i + 1), false
 	case 2:
-		return peaks.FormatESD(p.TwoTheta, p.TwoThetaESD), false
+		return esd.Format(p.TwoTheta, p.TwoThetaESD), false
 	case 3:
-		return peaks.FormatESD(p.D, p.DESD), false
+		return esd.Format(p.D, p.DESD), false
 	case 4:
 		return fmt.Sprintf("%.0f", p.Height), false
 	case 5:
 		return fmt.Sprintf("%.4f", p.FWHM), false
 	case 6:
-		return fmt.Sprintf("%.0f", p.SNR), false
+		return fmt.Sprintf("%.2f", p.Eta), false
 	case 7:
-		return hkl, false
+		return fmt.Sprintf("%.0f", p.SNR), false
 	case 8:
+		if c := u.m.Solution(); c != nil {
+			if l, _, ok := c.Line(p.TwoTheta); ok && l.Indexed {
+				return report.HKLText(l.HKL), false
+			}
+		}
+		return "", false
+	case 9:
+		note := p.Flags.String()
+		if p.Companion() {
+			note = fmt.Sprintf("K-beta of %d", p.Parent+1)
+		}
+		if p.Rejected {
+			note = strings.TrimSpace("rejected " + note)
+		}
 		return note, false
 	}
 	return "", false
@@ -213,18 +218,18 @@ func (u *ui) checkTable(titles []string, rows func() int, cell func(row, col int
 func (u *ui) peaksStep() fyne.CanvasObject {
 	u.peakTable = u.checkTable(peakColumns,
 		func() int {
-			if u.m.Doc == nil {
+			if u.m.A == nil {
 				return 0
 			}
-			return len(u.m.Doc.Peaks)
+			return len(u.m.A.Peaks)
 		},
 		u.peakCell,
 		func(row int) bool {
-			p := u.m.Doc.Peaks[row-1]
-			return p.CompanionOf == nil || p.Rejected
+			p := u.m.A.Peaks[row-1]
+			return !p.Companion() || p.Rejected
 		},
 		func(row int) { u.togglePeak(row - 1) })
-	for i, w := range []float32{64, 40, 120, 130, 80, 96, 60, 150, 160} {
+	for i, w := range []float32{64, 40, 120, 130, 80, 96, 50, 60, 150, 170} {
 		u.peakTable.SetColumnWidth(i, w)
 	}
 	hint := widget.NewLabel("Untick a peak (or click its marker in the pattern) to leave it out of the indexing; click an empty spot of the pattern near a maximum to add a peak there. Undo: Ctrl+Z, redo: Ctrl+Y.")
@@ -232,86 +237,108 @@ func (u *ui) peaksStep() fyne.CanvasObject {
 	return container.NewBorder(hint, nil, nil, nil, u.peakTable)
 }
 
-var cellColumns = []string{"#", "system", "", "a (Å)", "c (Å)", "V (Å³)", "M20", "F_N", "indexed", "Z"}
+// cellColumn is a column of the candidate table.
+type cellColumn struct {
+	title string
+	width float32
+	text  func(u *ui, c *analysis.Candidate) string
+}
 
-// cellCell returns the text of a candidate table cell (row ≥ 1).
-func (u *ui) cellCell(row, col int) string {
-	doc := u.m.Doc
-	if doc == nil || row < 1 || row > len(doc.Solutions) {
-		return ""
+// paramColumn shows one cell parameter with its esd.
+func paramColumn(title string, i int) cellColumn {
+	return cellColumn{title, 120, func(u *ui, c *analysis.Candidate) string {
+		p, e := c.Cell().Params(), c.Covariance().ESD().Values()
+		if e[i] > 0 {
+			return esd.Format(p[i], e[i])
+		}
+		if i >= 3 {
+			return fmt.Sprintf("%.3f", p[i])
+		}
+		return fmt.Sprintf("%.5f", p[i])
+	}}
+}
+
+// cellColumns are the candidate table's columns for the candidates shown:
+// b, α, β and γ only when some candidate's system leaves them free.
+func (u *ui) cellColumns() []cellColumn {
+	free := map[string]bool{}
+	if u.m.A != nil {
+		for _, c := range u.m.A.Candidates {
+			for _, n := range c.Cell().System.FreeNames() {
+				free[n] = true
+			}
+		}
 	}
-	s := doc.Solutions[row-1]
-	switch col {
-	case 0:
-		return strconv.Itoa(s.Rank)
-	case 1:
-		return s.System
-	case 2:
-		return s.Centring
-	case 3:
-		if s.Refined != nil {
-			return peaks.FormatESD(s.A, s.AESD)
-		}
-		return fmt.Sprintf("%.5f", s.A)
-	case 4:
-		if s.System == "cubic" {
-			return ""
-		}
-		if s.Refined != nil {
-			return peaks.FormatESD(s.C, s.CESD)
-		}
-		return fmt.Sprintf("%.5f", s.C)
-	case 5:
-		return fmt.Sprintf("%.2f", s.Volume)
-	case 6:
-		return fmt.Sprintf("%.1f", s.M)
-	case 7:
-		return fmt.Sprintf("%.1f", s.FN)
-	case 8:
-		return fmt.Sprintf("%d/%d", s.Indexed, s.Indexed+s.Unindexed)
-	case 9:
-		if s.Contents == nil {
-			return ""
-		}
-		z := strconv.Itoa(s.Contents.Z)
-		if s.Contents.ZWhole != nil && !*s.Contents.ZWhole {
-			z += " (not whole)"
-		}
-		return z
+	cols := []cellColumn{
+		{"#", 36, func(_ *ui, c *analysis.Candidate) string { return strconv.Itoa(c.Rank) }},
+		{"system", 110, func(_ *ui, c *analysis.Candidate) string { return c.Cell().System.String() }},
+		{"", 30, func(_ *ui, c *analysis.Candidate) string { return c.Cell().Centring.String() }},
+		paramColumn("a (Å)", 0),
 	}
-	return ""
+	for i, p := range []struct {
+		name, title string
+	}{{"b", "b (Å)"}, {"c", "c (Å)"}, {"alpha", "α (°)"}, {"beta", "β (°)"}, {"gamma", "γ (°)"}} {
+		if free[p.name] || p.name == "c" {
+			cols = append(cols, paramColumn(p.title, i+1))
+		}
+	}
+	return append(cols,
+		cellColumn{"V (Å³)", 110, func(_ *ui, c *analysis.Candidate) string { v, e := c.Volume(); return esd.Format(v, e) }},
+		cellColumn{"M_N", 64, func(_ *ui, c *analysis.Candidate) string { return fmt.Sprintf("%.1f", c.M) }},
+		cellColumn{"F_N", 64, func(_ *ui, c *analysis.Candidate) string { return fmt.Sprintf("%.1f", c.FN) }},
+		cellColumn{"indexed", 70, func(_ *ui, c *analysis.Candidate) string {
+			return fmt.Sprintf("%d/%d", c.Indexed, c.Indexed+c.Unindexed)
+		}},
+		cellColumn{"Z", 100, func(_ *ui, c *analysis.Candidate) string {
+			if c.Contents == nil {
+				return ""
+			}
+			z := strconv.Itoa(c.Contents.Z)
+			if !c.Contents.Whole {
+				z += " (not whole)"
+			}
+			return z
+		}},
+	)
 }
 
 func (u *ui) cellsStep() fyne.CanvasObject {
 	u.cellTable = widget.NewTable(
 		func() (int, int) {
-			if u.m.Doc == nil {
-				return 1, len(cellColumns)
+			n := 0
+			if u.m.A != nil {
+				n = len(u.m.A.Candidates)
 			}
-			return len(u.m.Doc.Solutions) + 1, len(cellColumns)
+			return n + 1, len(u.cellCols)
 		},
 		func() fyne.CanvasObject { return widget.NewLabel("") },
 		func(id widget.TableCellID, o fyne.CanvasObject) {
 			l := o.(*widget.Label)
+			if id.Col >= len(u.cellCols) {
+				l.SetText("")
+				return
+			}
 			if id.Row == 0 {
 				l.TextStyle = fyne.TextStyle{Bold: true}
-				l.SetText(cellColumns[id.Col])
+				l.SetText(u.cellCols[id.Col].title)
 				return
 			}
 			l.TextStyle = fyne.TextStyle{}
-			l.SetText(u.cellCell(id.Row, id.Col))
+			if u.m.A == nil || id.Row > len(u.m.A.Candidates) {
+				l.SetText("")
+				return
+			}
+			l.SetText(u.cellCols[id.Col].text(u, &u.m.A.Candidates[id.Row-1]))
 		})
 	u.cellTable.StickyRowCount = 1
-	for i, w := range []float32{36, 110, 30, 130, 130, 90, 70, 70, 80, 110} {
-		u.cellTable.SetColumnWidth(i, w)
-	}
+	u.setCellColumns()
 	u.cellTable.OnSelected = func(id widget.TableCellID) {
-		if u.refreshing || id.Row < 1 || u.m.Doc == nil || id.Row-1 == u.m.Selected {
+		if u.refreshing || id.Row < 1 || u.m.A == nil || id.Row-1 == u.m.Selected {
 			return
 		}
 		u.m.Select(id.Row - 1)
-		s := u.m.Solution()
-		u.setStatus("showing solution %d: %s %s", id.Row, s.System, s.Centring)
+		c := u.m.Solution().Cell()
+		u.setStatus("showing candidate %d: %s %s", id.Row, c.System, c.Centring)
 		u.refreshAll()
 		u.saveAutosave()
 	}
@@ -331,33 +358,42 @@ func (u *ui) cellsStep() fyne.CanvasObject {
 	return container.NewBorder(container.NewVBox(bar, u.autoLabel), nil, nil, nil, u.cellTable)
 }
 
+// setCellColumns chooses the candidate table's columns for the current
+// candidates and sets their widths.
+func (u *ui) setCellColumns() {
+	u.cellCols = u.cellColumns()
+	for i, c := range u.cellCols {
+		u.cellTable.SetColumnWidth(i, c.width)
+	}
+}
+
 var resColumns = []string{"use", "hkl", "2θ obs (°)", "2θ calc (°)", "Δ2θ (°)", "Δ/σ", ""}
 
 func (u *ui) resCell(row, col int) (string, bool) {
-	s := u.m.Solution()
-	if s == nil || s.Refined == nil || row < 1 || row > len(s.Residuals) {
+	c := u.m.Solution()
+	if c == nil || c.Refined == nil || row < 1 || row > len(c.Refined.Residuals) {
 		return "", false
 	}
-	r := s.Residuals[row-1]
+	r := c.Refined.Residuals[row-1]
 	switch col {
 	case 0:
 		return "", !r.Excluded
 	case 1:
 		return report.HKLText(r.HKL), false
 	case 2:
-		return peaks.FormatESD(r.TwoTheta, r.ESD), false
+		return esd.Format(r.TwoTheta, r.ESD), false
 	case 3:
 		return fmt.Sprintf("%.4f", r.TwoThetaCalc), false
 	case 4:
 		return fmt.Sprintf("%+.4f", r.Delta), false
 	case 5:
-		return fmt.Sprintf("%+.1f", r.Norm), false
+		return fmt.Sprintf("%+.1f", r.Sigmas), false
 	case 6:
 		switch {
 		case r.Excluded:
-			return "left out", false
+			return "excluded", false
 		case r.Flagged:
-			return fmt.Sprintf("beyond %g esd", u.m.Doc.Settings.FlagLimit), false
+			return fmt.Sprintf("beyond %g esd", c.Refined.FlagLimit), false
 		}
 	}
 	return "", false
@@ -368,18 +404,14 @@ func (u *ui) refineStep() fyne.CanvasObject {
 		if u.refreshing {
 			return
 		}
-		var c []string
+		var c refine.Corrections
 		if u.zeroCheck.Checked {
-			c = append(c, "zero")
+			c |= refine.Zero
 		}
 		if u.dispCheck.Checked {
-			c = append(c, "displacement")
+			c |= refine.Displacement
 		}
-		corr := strings.Join(c, ",")
-		if corr == "" {
-			corr = "none"
-		}
-		u.m.Change(func(s *report.Settings) { s.Corrections = corr })
+		u.m.Change(func(s *analysis.Settings) { s.Corrections = &c })
 		u.edited()
 	}
 	u.zeroCheck = widget.NewCheck("zero shift", setCorr)
@@ -395,16 +427,43 @@ func (u *ui) refineStep() fyne.CanvasObject {
 			u.showError("The goniometer radius is not usable", fmt.Errorf("%q", t), "Type the radius of your goniometer in mm, e.g. 240.")
 			return
 		}
-		u.m.Change(func(s *report.Settings) { s.Radius = r })
+		u.m.Change(func(s *analysis.Settings) { s.Radius = r })
 		u.edited()
 	}
 	u.scalingSel = widget.NewSelect([]string{"significant", "above-one", "always", "never"}, func(v string) {
-		if u.refreshing || u.m.Scan == nil {
+		if u.refreshing || u.m.Scan() == nil {
 			return
 		}
-		u.m.Change(func(s *report.Settings) { s.Scaling = v })
+		sc, err := refine.ParseScaling(v)
+		if err != nil {
+			return
+		}
+		u.m.Change(func(s *analysis.Settings) { s.Scaling = sc })
 		u.edited()
 	})
+	u.standardEntry = widget.NewEntry()
+	u.standardEntry.SetPlaceHolder("none; or Si, LaB6, Si-640d, or a cell such as cubic F a=5.43119")
+	u.standardEntry.OnSubmitted = func(t string) {
+		t = strings.TrimSpace(t)
+		var st *refine.Standard
+		if t != "" && !strings.EqualFold(t, "none") {
+			v, err := refine.ParseStandard(t)
+			if err != nil {
+				u.showError("The internal standard is not usable", err, "Name a built-in standard (Si, LaB6, Si-640c, Si-640d, LaB6-660a, LaB6-660c) or type its cell, e.g. cubic F a=5.43119(1).")
+				return
+			}
+			st = &v
+		}
+		u.m.Change(func(s *analysis.Settings) {
+			s.Standard = st
+			if st != nil && s.Corrections != nil && *s.Corrections == refine.None {
+				c := refine.Zero | refine.Displacement
+				s.Corrections = &c
+			}
+		})
+		u.syncFields()
+		u.edited()
+	}
 	u.refreshing = true
 	u.scalingSel.SetSelected("significant")
 	u.refreshing = false
@@ -413,15 +472,15 @@ func (u *ui) refineStep() fyne.CanvasObject {
 	u.paramsText.Wrapping = fyne.TextWrapWord
 	u.resTable = u.checkTable(resColumns,
 		func() int {
-			if s := u.m.Solution(); s != nil && s.Refined != nil {
-				return len(s.Residuals)
+			if c := u.m.Solution(); c != nil && c.Refined != nil {
+				return len(c.Refined.Residuals)
 			}
 			return 0
 		},
 		u.resCell,
 		func(int) bool { return true },
 		func(row int) {
-			u.m.ToggleExcluded(u.m.Solution().Residuals[row-1].TwoTheta)
+			u.m.ToggleExcluded(u.m.Solution().Refined.Residuals[row-1].TwoTheta)
 			u.edited()
 		})
 	for i, w := range []float32{44, 130, 120, 100, 90, 60, 110} {
@@ -431,6 +490,7 @@ func (u *ui) refineStep() fyne.CanvasObject {
 		widget.NewFormItem("Refine", container.NewHBox(u.zeroCheck, u.dispCheck)),
 		widget.NewFormItem("Goniometer radius (mm)", u.radiusEntry),
 		widget.NewFormItem("Scale esds by χ²_red", u.scalingSel),
+		widget.NewFormItem("Internal standard", u.standardEntry),
 	)
 	left := container.NewBorder(form, nil, nil, nil, container.NewVScroll(u.paramsText))
 	split := container.NewHSplit(left, u.resTable)
@@ -438,42 +498,47 @@ func (u *ui) refineStep() fyne.CanvasObject {
 	return split
 }
 
-// paramsSummary describes the chosen solution's refinement.
+// paramsSummary describes the chosen candidate's refinement.
 func (u *ui) paramsSummary() string {
-	s := u.m.Solution()
-	if s == nil {
+	c := u.m.Solution()
+	if c == nil {
 		return "No cell yet."
 	}
 	var b strings.Builder
-	fmt.Fprintf(&b, "%s %s  (solution %d)\n", s.System, s.Centring, u.m.Selected+1)
-	if s.Refined == nil {
-		fmt.Fprintf(&b, "not refined: %s\n", s.RefineError)
+	ce := c.Cell()
+	fmt.Fprintf(&b, "%s %s  (candidate %d)\n", ce.System, ce.Centring, u.m.Selected+1)
+	if c.Refined == nil {
+		fmt.Fprintf(&b, "not refined: %v\n", c.RefineErr)
 		return b.String()
 	}
-	for _, p := range s.Params {
+	r := c.Refined
+	for _, p := range r.Params {
 		note := ""
-		if p.FromStandard {
+		if p.Fixed {
 			note = " (internal standard)"
 		}
-		fmt.Fprintf(&b, "%-13s %s %s%s\n", p.Name, p.Text, p.Unit, note)
+		fmt.Fprintf(&b, "%-13s %s %s%s\n", p.Name, esd.Format(p.Value, p.ESD), p.Unit, note)
 	}
-	fmt.Fprintf(&b, "%-13s %s Å³\n", "volume", peaks.FormatESD(s.Volume, s.VolumeESD))
+	fmt.Fprintf(&b, "%-13s %s Å³\n", "volume", esd.Format(r.Volume, r.VolumeESD))
 	scaled := "not scaled"
-	if s.Scaled {
+	if r.Scaled {
 		scaled = "esds scaled by it"
 	}
-	fmt.Fprintf(&b, "χ²_red %.3f, %d degrees of freedom (%s)\n", s.Chi2Reduced, s.DOF, scaled)
-	fmt.Fprintf(&b, "M%d %.1f   F%d %.1f (%.4f°, %d)\n", s.N, s.M, s.N, s.FN, s.FNMeanDiff, s.FNPossible)
-	if len(s.ParamNames) > 1 {
+	fmt.Fprintf(&b, "χ²_red %.3f, %d degrees of freedom (%s)\n", r.Chi2Reduced, r.DOF, scaled)
+	fmt.Fprintf(&b, "M%d %.1f   F%d %.1f (%.4f°, %d)\n", c.FigureLines, c.M, c.FigureLines, c.FN, c.FNMeanDiff, c.FNPossible)
+	if sf := r.StandardFit; sf != nil {
+		fmt.Fprintf(&b, "corrections fixed by the internal standard %s (%d lines, χ²_red %.3f)\n", sf.Standard.Name, sf.Fitted, sf.Chi2Reduced)
+	}
+	if len(r.Params) > 1 {
 		b.WriteString("correlations:")
-		for i := range s.ParamNames {
-			for j := i + 1; j < len(s.ParamNames); j++ {
-				fmt.Fprintf(&b, " %s–%s %+.3f", s.ParamNames[i], s.ParamNames[j], s.Correlation[i][j])
+		for i := range r.Params {
+			for j := i + 1; j < len(r.Params); j++ {
+				fmt.Fprintf(&b, " %s–%s %+.3f", r.Params[i].Name, r.Params[j].Name, r.Correlation[i][j])
 			}
 		}
 		b.WriteString("\n")
 	}
-	for _, w := range s.Warnings {
+	for _, w := range r.Warnings {
 		fmt.Fprintf(&b, "note: %s\n", w)
 	}
 	return b.String()
@@ -503,8 +568,8 @@ func (u *ui) contentsStep() fyne.CanvasObject {
 
 // applyContents takes the formula, density and Z fields into the settings.
 func (u *ui) applyContents() {
-	f := strings.TrimSpace(u.formulaEntry.Text)
-	d := strings.TrimSpace(u.densityEntry.Text)
+	ft := strings.TrimSpace(u.formulaEntry.Text)
+	dt := strings.TrimSpace(u.densityEntry.Text)
 	zt := strings.TrimSpace(u.zEntry.Text)
 	z := 0
 	if zt != "" {
@@ -515,69 +580,80 @@ func (u *ui) applyContents() {
 		}
 		z = v
 	}
-	s := cloneSettings(u.m.Settings)
-	s.Formula, s.Density, s.Z = f, d, z
-	if f != "" && d == "" && z == 0 {
-		u.showError("The contents need a density or Z", fmt.Errorf("formula %s alone gives no number of formula units", f), "Type the measured density (e.g. 3.58(2) g/cm³) or Z.")
+	var f *density.Formula
+	if ft != "" {
+		v, err := density.ParseFormula(ft)
+		if err != nil {
+			u.showError("The formula is not usable", err, "Element symbols start with a capital (Co, not CO); counts may be decimal (Fe0.95O); hydrates use · or * (CuSO4·5H2O).")
+			return
+		}
+		f = &v
+	}
+	var m *density.Measured
+	if dt != "" {
+		v, err := density.ParseMeasured(dt)
+		if err != nil {
+			u.showError("The density is not usable", err, "Type the measured density in g/cm³ with its esd, e.g. 3.58(2).")
+			return
+		}
+		m = &v
+	}
+	if f == nil && (m != nil || z != 0) {
+		u.showError("The contents need a formula", fmt.Errorf("a density or Z without a formula gives no contents"), "Type the formula of one formula unit, e.g. MgAl2O4.")
 		return
 	}
-	if _, err := s.Check(); err != nil {
-		u.showError("The contents cannot be worked out", err, "Element symbols start with a capital (Co, not CO); counts may be decimal (Fe0.95O); hydrates use · or * (CuSO4·5H2O); the density is in g/cm³ with its esd, e.g. 3.58(2).")
+	if f != nil && m == nil && z == 0 {
+		u.showError("The contents need a density or Z", fmt.Errorf("formula %s alone gives no number of formula units", ft), "Type the measured density (e.g. 3.58(2) g/cm³) or Z.")
 		return
 	}
-	u.m.Change(func(st *report.Settings) { st.Formula, st.Density, st.Z = f, d, z })
+	u.m.Change(func(st *analysis.Settings) { st.Formula, st.Density, st.Z = f, m, z })
 	u.edited()
 }
 
-// contentsSummary describes the chosen solution's contents.
+// contentsSummary describes the chosen candidate's contents.
 func (u *ui) contentsSummary() string {
-	s := u.m.Solution()
-	if s == nil {
+	cand := u.m.Solution()
+	if cand == nil {
 		return ""
 	}
-	c := s.Contents
+	c := cand.Contents
 	if c == nil {
+		if cand.ContentsErr != nil {
+			return fmt.Sprintf("No contents: %v", cand.ContentsErr)
+		}
 		return "Type a formula and a measured density (or Z) to see formula units, X-ray density and atoms per cell."
 	}
+	s := u.m.Settings
 	var b strings.Builder
-	fmt.Fprintf(&b, "%s %s cell, %s (M = %s g/mol)\n", s.System, s.Centring, c.Formula, peaks.FormatESD(c.MolarMass, c.MolarMassESD))
-	if c.ZEst != nil {
-		fmt.Fprintf(&b, "Z from the density   %s", peaks.FormatESD(*c.ZEst, *c.ZEstESD))
-		if !*c.ZWhole {
+	ce := cand.Cell()
+	fmt.Fprintf(&b, "%s %s cell, %s (M = %s g/mol)\n", ce.System, ce.Centring, s.Formula.Text, esd.Format(c.MolarMass, c.MolarMassESD))
+	if s.Density != nil {
+		fmt.Fprintf(&b, "Z from the density   %s", esd.Format(c.ZEst, c.ZEstESD))
+		if !c.Whole {
 			b.WriteString("  — not whole for this lattice: the cell, formula or density is wrong")
 		}
 		b.WriteString("\n")
 	}
 	how := "given"
-	if c.ZFromDensity {
+	if c.ZInferred {
 		how = "nearest allowed"
 	}
-	fmt.Fprintf(&b, "Z                    %d (%s; %d lattice point(s), %g per point)\n", c.Z, how, c.LatticePoints, c.UnitsPerLattice)
-	fmt.Fprintf(&b, "X-ray density        %s g/cm³\n", c.DensityText)
-	if c.Measured != nil {
-		fmt.Fprintf(&b, "measured density     %s g/cm³ (%+.1fσ)\n", peaks.FormatESD(*c.Measured, *c.MeasuredESD), *c.Discrepancy)
+	fmt.Fprintf(&b, "Z                    %d (%s; %d lattice point(s), %g per point)\n", c.Z, how, c.LatticePoints, c.FormulaUnitsPerLattice)
+	fmt.Fprintf(&b, "X-ray density        %s g/cm³\n", esd.Format(c.Density, c.DensityESD))
+	if s.Density != nil {
+		fmt.Fprintf(&b, "measured density     %s g/cm³ (%+.1fσ)\n", s.Density, c.Sigmas)
 	}
 	fmt.Fprintf(&b, "atoms per cell       %g\n", c.AtomsPerCell)
-	fmt.Fprintf(&b, "formula mass / cell  %.3f g/mol\n", c.CellMass)
+	fmt.Fprintf(&b, "formula mass / cell  %s g/mol\n", esd.Format(c.CellMass, c.CellMassESD))
 	return b.String()
 }
 
-// cellText is the chosen cell as the clipboard receives it.
+// cellText is the chosen cell as the clipboard receives it: its text
+// form, which --cell and the cell entries read back.
 func (u *ui) cellText() string {
-	s := u.m.Solution()
-	if s == nil {
+	c := u.m.Solution()
+	if c == nil {
 		return ""
 	}
-	if s.Refined == nil {
-		return fmt.Sprintf("%s %s a=%.5f c=%.5f", s.System, s.Centring, s.A, s.C)
-	}
-	parts := []string{s.System, s.Centring, "a=" + peaks.FormatESD(s.A, s.AESD)}
-	switch s.System {
-	case "cubic":
-	case "orthorhombic":
-		parts = append(parts, "b="+peaks.FormatESD(s.B, s.BESD), "c="+peaks.FormatESD(s.C, s.CESD))
-	default:
-		parts = append(parts, "c="+peaks.FormatESD(s.C, s.CESD))
-	}
-	return strings.Join(parts, " ") + fmt.Sprintf("  V=%s Å³", peaks.FormatESD(s.Volume, s.VolumeESD))
+	return cell.Format(c.Cell(), c.Covariance().ESD())
 }

@@ -8,7 +8,6 @@ import (
 	"os"
 	"path/filepath"
 	"strconv"
-	"strings"
 	"sync"
 	"time"
 
@@ -22,6 +21,8 @@ import (
 	"fyne.io/fyne/v2/theme"
 	"fyne.io/fyne/v2/widget"
 
+	"reticle/analysis"
+	"reticle/esd"
 	"reticle/peaks"
 	"reticle/refine"
 	"reticle/report"
@@ -49,6 +50,7 @@ type ui struct {
 
 	peakTable *widget.Table
 	cellTable *widget.Table
+	cellCols  []cellColumn
 	resTable  *widget.Table
 	progress  binding.Float
 	progBar   *widget.ProgressBar
@@ -58,6 +60,7 @@ type ui struct {
 
 	zeroCheck, dispCheck *widget.Check
 	radiusEntry          *widget.Entry
+	standardEntry        *widget.Entry
 	scalingSel           *widget.Select
 	paramsText           *widget.Label
 	formulaEntry         *widget.Entry
@@ -129,7 +132,7 @@ func (u *ui) build() {
 		container.NewTabItem("6  Export", u.exportStep()),
 	)
 	u.tabs.OnSelected = func(*container.TabItem) {
-		if u.m.Doc != nil {
+		if u.m.A != nil {
 			u.refreshAll()
 		}
 	}
@@ -177,15 +180,20 @@ func (u *ui) showError(what string, err error, todo string) {
 	u.setStatus("%s (see the message)", what)
 }
 
-// open reads a scan with the remembered settings and analyses it.
+// open reads a scan with the remembered radiation and analyses it.
 func (u *ui) open(path string) {
-	s := report.Settings{Wavelength: u.app.Preferences().String("wavelength")}
+	var s analysis.Settings
+	if w := u.app.Preferences().String("wavelength"); w != "" {
+		if r, err := peaks.ParseRadiation(w); err == nil {
+			s.Radiation = &r
+		}
+	}
 	u.openWith(path, s, 0)
 }
 
 // openWith opens a scan with given settings; solution is the rank to
 // select after the analysis (0: the best).
-func (u *ui) openWith(path string, s report.Settings, solution int) {
+func (u *ui) openWith(path string, s analysis.Settings, solution int) {
 	u.setStatus("reading %s…", path)
 	if err := u.m.Open(context.Background(), path, s); err != nil {
 		u.showError("The scan could not be opened", err, "Check that the file is a two- or three-column export (2θ, counts, optional esd) or a powder CIF; the message names the line at fault.")
@@ -196,8 +204,9 @@ func (u *ui) openWith(path string, s report.Settings, solution int) {
 	u.plot.opt.XMin, u.plot.opt.XMax = 0, 0
 	u.refreshScan()
 	u.recomputeThen(func() {
-		if solution > 0 && u.m.Doc != nil && solution <= len(u.m.Doc.Solutions) {
+		if solution > 0 && u.m.A != nil && solution <= len(u.m.A.Candidates) {
 			u.m.Selected = solution - 1
+			u.m.A.Chosen = u.m.Selected
 			u.refreshAll()
 		}
 	})
@@ -221,8 +230,8 @@ func (u *ui) recomputeThen(after func()) {
 	u.mu.Unlock()
 	// A copy of what the analysis reads: edits on the UI thread do not
 	// touch it.
-	ext := *u.m.Ext
-	settings := cloneSettings(u.m.Settings)
+	ext := u.m.Ext.Clone()
+	settings := u.m.Settings.Clone()
 	u.progress.Set(0)
 	u.cancelBtn.Enable()
 	u.setStatus("finding cells…")
@@ -230,9 +239,8 @@ func (u *ui) recomputeThen(after func()) {
 	go func() {
 		defer u.running.Done()
 		t0 := time.Now()
-		doc, err := report.Analyse(ctx, &ext, settings, func(stage string, f float64) {
-			w := map[string][2]float64{"indexing": {0, 0.85}, "refinement": {0.85, 0.15}}[stage]
-			u.progress.Set(w[0] + w[1]*f)
+		a, err := analysis.Analyse(ctx, ext, settings, func(stage analysis.Stage, done, total int) {
+			u.progress.Set(analysis.Fraction(stage, done, total))
 		})
 		took := time.Since(t0)
 		fyne.DoAndWait(func() {
@@ -251,16 +259,16 @@ func (u *ui) recomputeThen(after func()) {
 				u.showError("The analysis failed", err, "Check the settings on the Scan step (wavelength) and the peaks kept on the Peaks step.")
 				return
 			}
-			u.m.Apply(doc, took)
+			u.m.Apply(a, took)
 			u.progress.Set(1)
 			u.refreshAll()
 			u.saveAutosave()
-			n := len(doc.Solutions)
+			n := len(a.Candidates)
 			if n == 0 {
-				u.setStatus("%d lines: no cell explains them within the search bounds (%.0f ms)", doc.Lines, took.Seconds()*1000)
+				u.setStatus("%d lines: no cell explains them within the search bounds (%.0f ms)", len(a.Lines), took.Seconds()*1000)
 			} else {
-				s := doc.Solutions[u.m.Selected]
-				u.setStatus("%d lines, %d candidate cells in %.0f ms; showing %d: %s %s", doc.Lines, n, took.Seconds()*1000, u.m.Selected+1, s.System, s.Centring)
+				c := u.m.Solution().Cell()
+				u.setStatus("%d lines, %d candidate cells in %.0f ms; showing %d: %s %s", len(a.Lines), n, took.Seconds()*1000, u.m.Selected+1, c.System, c.Centring)
 			}
 			if after != nil {
 				after()
@@ -303,7 +311,7 @@ func (u *ui) addPeak(tt float64) {
 		u.showError("The peak could not be added", err, "Click closer to the maximum you want to add.")
 		return
 	}
-	u.setStatus("added a peak at %s° (height %.0f)", peaks.FormatESD(p.TwoTheta, p.TwoThetaESD), p.Height)
+	u.setStatus("added a peak at %s° (height %.0f)", esd.Format(p.TwoTheta, p.TwoThetaESD), p.Height)
 	u.edited()
 }
 
@@ -348,8 +356,9 @@ func (u *ui) refreshAll() {
 	defer func() { u.refreshing = false }()
 	u.plot.render()
 	u.peakTable.Refresh()
+	u.setCellColumns()
 	u.cellTable.Refresh()
-	if u.m.Doc != nil && u.m.Selected < len(u.m.Doc.Solutions) {
+	if u.m.A != nil && u.m.Selected < len(u.m.A.Candidates) {
 		id := widget.TableCellID{Row: u.m.Selected + 1, Col: 0}
 		u.cellTable.Select(id)
 		if u.m.Selected == 0 {
@@ -369,24 +378,29 @@ func (u *ui) syncFields() {
 	u.refreshing = true
 	defer func() { u.refreshing = false }()
 	s := u.m.Settings
-	c := s.Corrections
-	if c == "" {
-		c = "zero"
+	if scan := u.m.Scan(); scan != nil {
+		s = s.Resolved(scan)
 	}
-	u.zeroCheck.SetChecked(strings.Contains(c, "zero") || c == "both")
-	u.dispCheck.SetChecked(strings.Contains(c, "displacement") || c == "both")
-	r := s.Radius
-	if r == 0 {
-		r = refine.DefaultRadius
+	c := refine.Zero
+	if s.Corrections != nil {
+		c = *s.Corrections
 	}
-	u.radiusEntry.SetText(strconv.FormatFloat(r, 'g', -1, 64))
-	sc := s.Scaling
-	if sc == "" {
-		sc = refine.ScaleSignificant.String()
+	u.zeroCheck.SetChecked(c.Has(refine.Zero))
+	u.dispCheck.SetChecked(c.Has(refine.Displacement))
+	u.radiusEntry.SetText(strconv.FormatFloat(s.Radius, 'g', -1, 64))
+	u.scalingSel.SetSelected(s.Scaling.String())
+	u.standardEntry.SetText("")
+	if s.Standard != nil {
+		u.standardEntry.SetText(s.Standard.Name)
 	}
-	u.scalingSel.SetSelected(sc)
-	u.formulaEntry.SetText(s.Formula)
-	u.densityEntry.SetText(s.Density)
+	u.formulaEntry.SetText("")
+	if s.Formula != nil {
+		u.formulaEntry.SetText(s.Formula.Text)
+	}
+	u.densityEntry.SetText("")
+	if s.Density != nil {
+		u.densityEntry.SetText(s.Density.String())
+	}
 	if s.Z > 0 {
 		u.zEntry.SetText(strconv.Itoa(s.Z))
 	} else {

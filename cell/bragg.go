@@ -57,3 +57,18 @@ func DTwoThetaDQ(q, lambda float64) float64 {
 	s := lambda * math.Sqrt(q) / 2
 	return lambda / (2 * math.Sqrt(q) * math.Sqrt(1-s*s)) / deg
 }
+
+// A Line is one observed powder line: its position (the K-alpha1 or single
+// wavelength position of a peak) and the esd of that position, both in
+// degrees 2θ. Indexing and refinement work from Lines.
+type Line struct {
+	TwoTheta float64 // degrees 2θ
+	ESD      float64 // degrees 2θ; zero means unknown
+}
+
+// MatchTolerance is the smallest window, degrees 2θ, within which a
+// calculated line claims an observed one when no window is given (the
+// window is otherwise three esds of the line): about the positional
+// repeatability of a laboratory diffractometer (common practice).
+// Indexing and refinement both match lines with it.
+const MatchTolerance = 0.03

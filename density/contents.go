@@ -5,7 +5,8 @@ import (
 	"fmt"
 	"math"
 
-	"reticle/indexing"
+	"reticle/cell"
+	"reticle/esd"
 )
 
 // Avogadro is the Avogadro constant in mol⁻¹, exact by the definition of
@@ -14,50 +15,6 @@ const Avogadro = 6.02214076e23
 
 // cm3PerA3 converts Å³ to cm³.
 const cm3PerA3 = 1e-24
-
-// LatticePoints returns the lattice points per conventional cell of a
-// centring: P 1, I 2, C 2, F 4, R (hexagonal axes) 3 (common practice).
-func LatticePoints(c indexing.Centring) int {
-	switch c {
-	case indexing.I, indexing.C:
-		return 2
-	case indexing.F:
-		return 4
-	case indexing.R:
-		return 3
-	}
-	return 1
-}
-
-// VolumeESD returns the volume in Å³ of a cell and its uncertainty from
-// the esds of its parameters taken as independent (use the refinement's
-// volume esd, which includes correlations, when there is one). The
-// general triclinic formula V = abc·√D, D = 1 − cos²α − cos²β − cos²γ +
-// 2 cos α cos β cos γ, gives ∂V/∂a = V/a (edges equal by symmetry move
-// together: 3V/a for cubic, 2V/a for a = b) and ∂V/∂α = abc·sin α·(cos α −
-// cos β cos γ)/√D per radian.
-func VolumeESD(c indexing.Cell, e indexing.CellESD) (float64, float64) {
-	v := c.Volume()
-	sq := func(x float64) float64 { return x * x }
-	var s2 float64
-	switch c.System {
-	case indexing.Cubic:
-		s2 = sq(3 * v / c.A * e.A)
-	case indexing.Tetragonal, indexing.Hexagonal, indexing.Rhombohedral:
-		s2 = sq(2*v/c.A*e.A) + sq(v/c.C*e.C)
-	default:
-		s2 = sq(v/c.A*e.A) + sq(v/c.B*e.B) + sq(v/c.C*e.C)
-		r := math.Pi / 180
-		ca, cb, cg := math.Cos(c.Alpha*r), math.Cos(c.Beta*r), math.Cos(c.Gamma*r)
-		abc := c.A * c.B * c.C
-		root := v / abc
-		angle := func(deg, own, o1, o2, u float64) float64 {
-			return sq(abc * math.Sin(deg*r) * (own - o1*o2) / root * r * u)
-		}
-		s2 += angle(c.Alpha, ca, cb, cg, e.Alpha) + angle(c.Beta, cb, ca, cg, e.Beta) + angle(c.Gamma, cg, ca, cb, e.Gamma)
-	}
-	return v, math.Sqrt(s2)
-}
 
 // XRayDensity returns ρ = Z·M/(N_A·V) in g/cm³ with its uncertainty, for
 // Z formula units of molar mass m ± um g/mol in a cell of v ± uv Å³.
@@ -81,7 +38,7 @@ type Measured struct {
 // Input describes a cell's contents problem: the cell with its volume
 // uncertainty, the formula, and either a chosen Z or a measured density.
 type Input struct {
-	Cell      indexing.Cell
+	Cell      cell.Cell
 	VolumeESD float64 // Å³; zero when unknown
 	Formula   Formula
 	// Z, when positive, is the number of formula units per cell chosen by
@@ -113,9 +70,9 @@ type Contents struct {
 	Whole bool
 
 	Density, DensityESD float64 // X-ray density at Z, g/cm³
-	// Discrepancy is (ρ_measured − ρ_X-ray)/σ, σ combining both
+	// Sigmas is (ρ_measured − ρ_X-ray)/σ, σ combining both
 	// uncertainties; zero without a measured density.
-	Discrepancy float64
+	Sigmas float64
 
 	AtomsPerCell           float64
 	CellMass, CellMassESD  float64 // Z·M, g/mol per cell
@@ -124,8 +81,8 @@ type Contents struct {
 
 // A ZCandidate is an allowed Z with its discrepancy from the estimate.
 type ZCandidate struct {
-	Z     int
-	Sigma float64 // (ZEst − Z)/σ(ZEst)
+	Z      int
+	Sigmas float64 // (ZEst − Z)/σ(ZEst)
 }
 
 // ErrInput: an input that cannot give contents.
@@ -145,7 +102,7 @@ func Compute(in Input) (*Contents, error) {
 	}
 	m, um, nostd := in.Formula.MolarMass()
 	c := &Contents{Volume: v, VolumeESD: in.VolumeESD, MolarMass: m, MolarMassESD: um, NoStandardWeight: nostd,
-		LatticePoints: LatticePoints(in.Cell.Centring), Whole: true}
+		LatticePoints: in.Cell.Centring.LatticePoints(), Whole: true}
 	if in.Measured != nil {
 		if !(in.Measured.Density > 0) || in.Measured.ESD < 0 || math.IsInf(in.Measured.Density, 0) {
 			return nil, fmt.Errorf("%w: measured density %g(%g) g/cm³", ErrInput, in.Measured.Density, in.Measured.ESD)
@@ -153,7 +110,7 @@ func Compute(in Input) (*Contents, error) {
 		c.ZEst, c.ZEstESD = ZFromDensity(in.Measured.Density, in.Measured.ESD, m, um, v, in.VolumeESD)
 		c.Candidates = candidates(c.ZEst, c.ZEstESD, c.LatticePoints)
 		best := c.Candidates[0]
-		c.Whole = c.ZEstESD > 0 && math.Abs(best.Sigma) <= in.Limit
+		c.Whole = c.ZEstESD > 0 && math.Abs(best.Sigmas) <= in.Limit
 		if in.Z <= 0 {
 			c.Z, c.ZInferred = best.Z, true
 		}
@@ -169,7 +126,7 @@ func Compute(in Input) (*Contents, error) {
 	if in.Measured != nil {
 		s := math.Hypot(in.Measured.ESD, c.DensityESD)
 		if s > 0 {
-			c.Discrepancy = (in.Measured.Density - c.Density) / s
+			c.Sigmas = (in.Measured.Density - c.Density) / s
 		}
 	}
 	c.AtomsPerCell = z * in.Formula.Atoms()
@@ -201,9 +158,39 @@ func candidates(zest, uz float64, lp int) []ZCandidate {
 	}
 	// Best first.
 	for i := 1; i < len(out); i++ {
-		for j := i; j > 0 && math.Abs(out[j].Sigma) < math.Abs(out[j-1].Sigma); j-- {
+		for j := i; j > 0 && math.Abs(out[j].Sigmas) < math.Abs(out[j-1].Sigmas); j-- {
 			out[j], out[j-1] = out[j-1], out[j]
 		}
 	}
 	return out
+}
+
+// ParseMeasured reads a measured density in g/cm³ with its esd in
+// crystallographic notation, e.g. 2.16(1); without an esd, 1 % of the
+// value is assumed (common practice for a pycnometer).
+func ParseMeasured(s string) (Measured, error) {
+	v, u, err := esd.Parse(s)
+	if err != nil || !(v > 0) {
+		return Measured{}, fmt.Errorf("%w: want a density in g/cm³ such as 2.16(1), got %q", ErrInput, s)
+	}
+	if u == 0 {
+		u = 0.01 * v
+	}
+	return Measured{Density: v, ESD: u}, nil
+}
+
+// String prints the density with its esd.
+func (m Measured) String() string { return esd.Format(m.Density, m.ESD) }
+
+// MarshalText writes String.
+func (m Measured) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
+
+// UnmarshalText reads a density as ParseMeasured does.
+func (m *Measured) UnmarshalText(b []byte) error {
+	v, err := ParseMeasured(string(b))
+	if err != nil {
+		return err
+	}
+	*m = v
+	return nil
 }

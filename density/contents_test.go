@@ -4,7 +4,7 @@ import (
 	"math"
 	"testing"
 
-	"reticle/indexing"
+	"reticle/cell"
 )
 
 // solid is a known solid: its cell (handbook values, from memory), Z, and
@@ -12,28 +12,28 @@ import (
 type solid struct {
 	name     string
 	formula  string
-	cell     indexing.Cell
+	cell     cell.Cell
 	z        int
 	handbook float64 // g/cm³, from memory of handbook tables
 }
 
 var solids = []solid{
 	// Rock salt: Z = 4 (common practice); 2.165 g/cm³.
-	{"rock salt", "NaCl", indexing.NewCell(indexing.Cubic, indexing.F, 5.6402, 0), 4, 2.165},
+	{"rock salt", "NaCl", cell.Must(cell.Cubic, cell.F, 5.6402), 4, 2.165},
 	// Silver, fcc: Z = 4; 10.49 g/cm³.
-	{"silver", "Ag", indexing.NewCell(indexing.Cubic, indexing.F, 4.0862, 0), 4, 10.49},
+	{"silver", "Ag", cell.Must(cell.Cubic, cell.F, 4.0862), 4, 10.49},
 	// Silicon, diamond structure: 8 atoms per cell; 2.329 g/cm³.
-	{"silicon", "Si", indexing.NewCell(indexing.Cubic, indexing.F, 5.4310, 0), 8, 2.329},
+	{"silicon", "Si", cell.Must(cell.Cubic, cell.F, 5.4310), 8, 2.329},
 	// Tungsten, bcc: Z = 2; 19.25 g/cm³.
-	{"tungsten", "W", indexing.NewCell(indexing.Cubic, indexing.I, 3.1652, 0), 2, 19.25},
+	{"tungsten", "W", cell.Must(cell.Cubic, cell.I, 3.1652), 2, 19.25},
 	// Caesium chloride, primitive cubic: Z = 1; a = 4.123 Å; 3.988 g/cm³.
-	{"caesium chloride", "CsCl", indexing.NewCell(indexing.Cubic, indexing.P, 4.123, 0), 1, 3.988},
+	{"caesium chloride", "CsCl", cell.Must(cell.Cubic, cell.P, 4.123), 1, 3.988},
 	// Magnesium, hcp: Z = 2; a = 3.2094, c = 5.2108 Å; 1.738 g/cm³.
-	{"magnesium", "Mg", indexing.NewCell(indexing.Hexagonal, indexing.P, 3.2094, 5.2108), 2, 1.738},
+	{"magnesium", "Mg", cell.Must(cell.Hexagonal, cell.P, 3.2094, 5.2108), 2, 1.738},
 	// Rutile: Z = 2; a = 4.5937, c = 2.9587 Å; 4.25 g/cm³.
-	{"rutile", "TiO2", indexing.NewCell(indexing.Tetragonal, indexing.P, 4.5937, 2.9587), 2, 4.25},
+	{"rutile", "TiO2", cell.Must(cell.Tetragonal, cell.P, 4.5937, 2.9587), 2, 4.25},
 	// Corundum on hexagonal axes: Z = 6; a = 4.7589, c = 12.991 Å; 3.987 g/cm³.
-	{"corundum", "Al2O3", indexing.NewCell(indexing.Rhombohedral, indexing.R, 4.7589, 12.991), 6, 3.987},
+	{"corundum", "Al2O3", cell.Must(cell.Rhombohedral, cell.R, 4.7589, 12.991), 6, 3.987},
 }
 
 // TestXRayDensities checks ρ = Z·M/(N_A·V) against handbook densities
@@ -61,7 +61,7 @@ func TestXRayDensities(t *testing.T) {
 // 233.75908 / 108.05251 = 2.16339 g/cm³.
 func TestRockSaltByHand(t *testing.T) {
 	f, _ := ParseFormula("NaCl")
-	c, err := Compute(Input{Cell: indexing.NewCell(indexing.Cubic, indexing.F, 5.6402, 0), Formula: f, Z: 4})
+	c, err := Compute(Input{Cell: cell.Must(cell.Cubic, cell.F, 5.6402), Formula: f, Z: 4})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -142,7 +142,7 @@ func TestZFromDensity(t *testing.T) {
 		wrong := s.cell
 		wrong.A *= 1.1
 		wrong.B *= 1.1
-		if s.cell.System == indexing.Cubic {
+		if s.cell.System == cell.Cubic {
 			wrong.C *= 1.1
 		}
 		c, err := Compute(Input{Cell: wrong, Formula: f, Measured: &Measured{ref.Density, 0.01 * ref.Density}})
@@ -155,46 +155,14 @@ func TestZFromDensity(t *testing.T) {
 	}
 }
 
-func TestVolumeESD(t *testing.T) {
-	// Cubic: σ_V = 3a²σ_a; hexagonal: V = (√3/2)a²c, σ_V² = (2V/a·σ_a)² + (V/c·σ_c)².
-	v, u := VolumeESD(indexing.NewCell(indexing.Cubic, indexing.F, 5.6402, 0), indexing.CellESD{A: 0.0003})
-	if math.Abs(v-179.4253) > 1e-4 || math.Abs(u-3*5.6402*5.6402*0.0003) > 1e-6 {
-		t.Errorf("cubic V = %.4f(%.6f)", v, u)
-	}
-	hex := indexing.NewCell(indexing.Hexagonal, indexing.P, 3.2094, 5.2108)
-	v, u = VolumeESD(hex, indexing.CellESD{A: 0.0002, C: 0.0004})
-	want := math.Hypot(2*v/3.2094*0.0002, v/5.2108*0.0004)
-	if math.Abs(u-want) > 1e-7 {
-		t.Errorf("hexagonal σ_V = %.7f, want %.7f", u, want)
-	}
-	// Triclinic, every parameter uncertain: against central differences
-	// of the volume formula, each parameter moved alone.
-	tri := indexing.Cell{System: indexing.Orthorhombic, Centring: indexing.P, A: 5, B: 6, C: 7, Alpha: 80, Beta: 95, Gamma: 100}
-	e := indexing.CellESD{A: 0.001, B: 0.002, C: 0.003, Alpha: 0.01, Beta: 0.02, Gamma: 0.03}
-	_, u = VolumeESD(tri, e)
-	var s2 float64
-	for i, sig := range []float64{e.A, e.B, e.C, e.Alpha, e.Beta, e.Gamma} {
-		up, dn := tri, tri
-		ps := []*float64{&up.A, &up.B, &up.C, &up.Alpha, &up.Beta, &up.Gamma}
-		ms := []*float64{&dn.A, &dn.B, &dn.C, &dn.Alpha, &dn.Beta, &dn.Gamma}
-		*ps[i] += 1e-5
-		*ms[i] -= 1e-5
-		d := (up.Volume() - dn.Volume()) / 2e-5
-		s2 += d * d * sig * sig
-	}
-	if math.Abs(u-math.Sqrt(s2)) > 1e-6*u {
-		t.Errorf("triclinic σ_V = %.8f, numerical %.8f", u, math.Sqrt(s2))
-	}
-}
-
 func TestComputeErrors(t *testing.T) {
 	f, _ := ParseFormula("NaCl")
-	cell := indexing.NewCell(indexing.Cubic, indexing.F, 5.64, 0)
+	nacl := cell.Must(cell.Cubic, cell.F, 5.64)
 	for _, in := range []Input{
-		{Cell: cell},
-		{Cell: cell, Formula: f},
-		{Cell: indexing.Cell{}, Formula: f, Z: 4},
-		{Cell: cell, Formula: f, Measured: &Measured{-1, 0.1}},
+		{Cell: nacl},
+		{Cell: nacl, Formula: f},
+		{Cell: cell.Cell{}, Formula: f, Z: 4},
+		{Cell: nacl, Formula: f, Measured: &Measured{-1, 0.1}},
 	} {
 		if _, err := Compute(in); err == nil {
 			t.Errorf("%+v accepted", in)

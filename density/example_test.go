@@ -4,9 +4,9 @@ import (
 	"fmt"
 	"testing"
 
+	"reticle/cell"
 	"reticle/density"
-	"reticle/indexing"
-	"reticle/peaks"
+	"reticle/esd"
 )
 
 // Formula units of a spinel from its cell and a measured density.
@@ -16,15 +16,16 @@ func ExampleCompute() {
 		fmt.Println(err)
 		return
 	}
-	cell := indexing.NewCell(indexing.Cubic, indexing.F, 8.0830, 0)
-	v, vesd := density.VolumeESD(cell, indexing.CellESD{A: 0.0002})
-	c, err := density.Compute(density.Input{Cell: cell, VolumeESD: vesd, Formula: f, Measured: &density.Measured{Density: 3.55, ESD: 0.03}})
+	spinel := cell.Must(cell.Cubic, cell.F, 8.0830)
+	v := spinel.Volume()
+	vesd := spinel.VolumeESD(cell.IndependentCovariance(cell.Cubic, cell.ESD{A: 0.0002}))
+	c, err := density.Compute(density.Input{Cell: spinel, VolumeESD: vesd, Formula: f, Measured: &density.Measured{Density: 3.55, ESD: 0.03}})
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
-	fmt.Printf("V = %s Å³, Z_est = %s, Z = %d\n", peaks.FormatESD(v, vesd), peaks.FormatESD(c.ZEst, c.ZEstESD), c.Z)
-	fmt.Printf("ρ(X-ray) = %s g/cm³, %d atoms per cell\n", peaks.FormatESD(c.Density, c.DensityESD), int(c.AtomsPerCell))
+	fmt.Printf("V = %s Å³, Z_est = %s, Z = %d\n", esd.Format(v, vesd), esd.Format(c.ZEst, c.ZEstESD), c.Z)
+	fmt.Printf("ρ(X-ray) = %s g/cm³, %d atoms per cell\n", esd.Format(c.Density, c.DensityESD), int(c.AtomsPerCell))
 	// Output:
 	// V = 528.10(4) Å³, Z_est = 7.94(7), Z = 8
 	// ρ(X-ray) = 3.5786(3) g/cm³, 56 atoms per cell
@@ -37,7 +38,7 @@ func ExampleParseFormula() {
 		return
 	}
 	m, u, _ := f.MolarMass()
-	fmt.Println(f, peaks.FormatESD(m, u))
+	fmt.Println(f, esd.Format(m, u))
 	_, err = density.ParseFormula("Ca3(PO4")
 	fmt.Println(err)
 	// Output:

@@ -324,3 +324,16 @@ func (f Formula) MolarMass() (m, u float64, noStandard bool) {
 	}
 	return m, math.Sqrt(v), noStandard
 }
+
+// MarshalText writes the formula as it was typed.
+func (f Formula) MarshalText() ([]byte, error) { return []byte(f.Text), nil }
+
+// UnmarshalText reads a formula as ParseFormula does.
+func (f *Formula) UnmarshalText(b []byte) error {
+	v, err := ParseFormula(string(b))
+	if err != nil {
+		return err
+	}
+	*f = v
+	return nil
+}

@@ -1,6 +1,8 @@
 package indexing
 
 import (
+	"reticle/cell"
+
 	"math"
 	"sort"
 )
@@ -8,8 +10,8 @@ import (
 // A trial is a lattice to test: its system, centring, linear Q parameters
 // (pa, pc) and zero offset.
 type trial struct {
-	sys    System
-	cen    Centring
+	sys    cell.System
+	cen    cell.Centring
 	pa, pc float64
 	zero   float64
 }
@@ -19,7 +21,7 @@ type trial struct {
 // calculated Q and whether one was found.
 func (t *trial) assign(q, w float64) (m, l int, qc float64, ok bool) {
 	best := math.Inf(1)
-	if t.sys == Cubic {
+	if t.sys == cell.Cubic {
 		lo := int(math.Ceil((q - w) / t.pa))
 		hi := int(math.Floor((q + w) / t.pa))
 		for n := max(lo, 1); n <= hi; n++ {
@@ -58,7 +60,7 @@ func (t *trial) assign(q, w float64) (m, l int, qc float64, ok bool) {
 // (merged within 1e-9 relative).
 func (t *trial) countCalc(qmax float64) int {
 	var qs []float64
-	if t.sys == Cubic {
+	if t.sys == cell.Cubic {
 		n := 0
 		for k := 1; float64(k)*t.pa <= qmax; k++ {
 			if cubicAllowed(t.cen, k) {
@@ -95,7 +97,24 @@ func distinct(qs []float64) int {
 }
 
 // cell returns the trial's conventional cell.
-func (t *trial) cell() Cell {
+func (t *trial) cell() cell.Cell {
 	s := t.sys
 	return cellFromParams(s, t.cen, t.pa, t.pc)
+}
+
+// cellFromParams returns the conventional cell of the linear Q parameters
+// (1/a²), (1/a², 1/c²) or (4/(3a²), 1/c²).
+func cellFromParams(s cell.System, cen cell.Centring, pa, pc float64) cell.Cell {
+	// New sets the parameters even when they are unusable; the search
+	// screens such cells out by their figures.
+	var c cell.Cell
+	switch s {
+	case cell.Cubic:
+		c, _ = cell.New(s, cen, 1/math.Sqrt(pa))
+	case cell.Hexagonal, cell.Rhombohedral:
+		c, _ = cell.New(s, cen, math.Sqrt(4/(3*pa)), 1/math.Sqrt(pc))
+	default:
+		c, _ = cell.New(s, cen, 1/math.Sqrt(pa), 1/math.Sqrt(pc))
+	}
+	return c
 }

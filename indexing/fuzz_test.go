@@ -1,6 +1,8 @@
 package indexing
 
 import (
+	"reticle/cell"
+
 	"context"
 	"encoding/binary"
 	"math"
@@ -23,9 +25,9 @@ func FuzzIndex(f *testing.F) {
 	f.Add(enc(179, 178, 177, 176, 175, 1, 2), 0.7093)
 	f.Add(enc(10, 14.1, 17.3, 20, 22.4, 24.5), 2.2897)
 	f.Fuzz(func(t *testing.T, data []byte, lambda float64) {
-		var ls []Line
+		var ls []cell.Line
 		for i := 0; i+1 < len(data) && len(ls) < 30; i += 2 {
-			ls = append(ls, Line{TwoTheta: float64(binary.LittleEndian.Uint16(data[i:])) / 300, ESD: 0.003})
+			ls = append(ls, cell.Line{TwoTheta: float64(binary.LittleEndian.Uint16(data[i:])) / 300, ESD: 0.003})
 		}
 		res, err := Index(context.Background(), ls, Options{Wavelength: lambda}, nil)
 		if err != nil {

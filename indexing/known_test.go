@@ -1,6 +1,8 @@
 package indexing
 
 import (
+	"reticle/cell"
+
 	"context"
 	"errors"
 	"math"
@@ -12,10 +14,10 @@ import (
 // knownLines returns the lines of a cell between 10° and 150° 2θ for Cu
 // K-alpha1, keeping only those that absent(h) does not remove, with uniform
 // noise of ±0.01° and a zero error of +0.04°.
-func knownLines(rng *rand.Rand, c Cell, absent func(HKL) bool) []Line {
+func knownLines(rng *rand.Rand, c cell.Cell, absent func(cell.HKL) bool) []cell.Line {
 	const cu = 1.5405929 // Hölzer et al. 1997 (from memory)
-	var ls []Line
-	for _, r := range Reflections(c, qOf(150, 0, cu)) {
+	var ls []cell.Line
+	for _, r := range cell.Reflections(c, qOf(150, 0, cu)) {
 		tt := ttOf(r.Q, cu)
 		keep := false
 		for _, h := range allHKL(c, r.Q) {
@@ -24,21 +26,21 @@ func knownLines(rng *rand.Rand, c Cell, absent func(HKL) bool) []Line {
 			}
 		}
 		if tt >= 10 && keep {
-			ls = append(ls, Line{tt + 0.04 + (2*rng.Float64()-1)*0.01, 0.005})
+			ls = append(ls, cell.Line{TwoTheta: tt + 0.04 + (2*rng.Float64()-1)*0.01, ESD: 0.005})
 		}
 	}
 	return ls
 }
 
 // allHKL lists every allowed hkl of the cell with the given Q.
-func allHKL(c Cell, q float64) []HKL {
-	var out []HKL
+func allHKL(c cell.Cell, q float64) []cell.HKL {
+	var out []cell.HKL
 	lim := int(math.Sqrt(q)*math.Max(c.A, c.C)) + 1
 	for h := -lim; h <= lim; h++ {
 		for k := -lim; k <= lim; k++ {
 			for l := -lim; l <= lim; l++ {
-				if (h != 0 || k != 0 || l != 0) && Allowed(c.Centring, h, k, l) && math.Abs(c.Q(h, k, l)-q) <= 1e-9*q {
-					out = append(out, HKL{h, k, l})
+				if (h != 0 || k != 0 || l != 0) && c.Centring.Allowed(cell.HKL{h, k, l}) && math.Abs(c.Q(cell.HKL{h, k, l})-q) <= 1e-9*q {
+					out = append(out, cell.HKL{h, k, l})
 				}
 			}
 		}
@@ -54,26 +56,26 @@ func TestKnownCells(t *testing.T) {
 	even := func(x int) bool { return x%2 == 0 }
 	for _, test := range []struct {
 		name   string
-		cell   Cell
-		absent func(HKL) bool
+		cell   cell.Cell
+		absent func(cell.HKL) bool
 	}{
-		{"rock salt NaCl", NewCell(Cubic, F, 5.6402, 0), nil},
+		{"rock salt NaCl", newCell(cell.Cubic, cell.F, 5.6402, 0), nil},
 		// Diamond glide (Fd-3m): all-even hkl need h+k+l = 4n.
-		{"silicon", NewCell(Cubic, F, 5.4310, 0), func(v HKL) bool {
+		{"silicon", newCell(cell.Cubic, cell.F, 5.4310, 0), func(v cell.HKL) bool {
 			return even(v[0]) && even(v[1]) && even(v[2]) && mod(v[0]+v[1]+v[2], 4) != 0
 		}},
-		{"tungsten (body-centred)", NewCell(Cubic, I, 3.1652, 0), nil},
+		{"tungsten (body-centred)", newCell(cell.Cubic, cell.I, 3.1652, 0), nil},
 		// hcp (P6₃/mmc): hh(-2h)l, 00l among them, with l odd absent.
-		{"magnesium (hcp)", NewCell(Hexagonal, P, 3.2094, 5.2108), func(v HKL) bool {
+		{"magnesium (hcp)", newCell(cell.Hexagonal, cell.P, 3.2094, 5.2108), func(v cell.HKL) bool {
 			return v[0] == v[1] && !even(v[2])
 		}},
 		// Rutile (P4₂/mnm): 0kl with k+l odd absent, 00l with l odd.
-		{"rutile TiO2", NewCell(Tetragonal, P, 4.5937, 2.9587), func(v HKL) bool {
+		{"rutile TiO2", newCell(cell.Tetragonal, cell.P, 4.5937, 2.9587), func(v cell.HKL) bool {
 			return v[0] == 0 && !even(v[1]+v[2]) || v[1] == 0 && !even(v[0]+v[2])
 		}},
 		// Corundum (R-3c, hexagonal axes): h -h 0 l with l odd, 000l with
 		// l ≠ 6n.
-		{"corundum Al2O3", NewCell(Rhombohedral, R, 4.7589, 12.991), func(v HKL) bool {
+		{"corundum Al2O3", newCell(cell.Rhombohedral, cell.R, 4.7589, 12.991), func(v cell.HKL) bool {
 			return v[0] == -v[1] && !even(v[2]) || v[0] == 0 && v[1] == 0 && mod(v[2], 6) != 0
 		}},
 	} {
@@ -134,7 +136,7 @@ func TestIndexBadInput(t *testing.T) {
 	if _, err := Index(context.Background(), ls, Options{}, nil); err == nil {
 		t.Error("no wavelength: no error")
 	}
-	junk := append([]Line{{-5, 0}, {200, 0}, {30, 0}, {30, 0}}, ls[:2]...)
+	junk := append([]cell.Line{{TwoTheta: -5}, {TwoTheta: 200}, {TwoTheta: 30}, {TwoTheta: 30}}, ls[:2]...)
 	if _, err := Index(context.Background(), junk, Options{Wavelength: 1.54}, nil); !errors.Is(err, ErrTooFewLines) {
 		t.Errorf("junk lines: %v", err)
 	}
@@ -144,7 +146,7 @@ func TestIndexBadInput(t *testing.T) {
 // the condition 00l: l = 2n.
 func TestObservedConditions(t *testing.T) {
 	rng := rand.New(rand.NewPCG(5, 6))
-	ls := knownLines(rng, NewCell(Hexagonal, P, 3.2094, 5.2108), func(v HKL) bool { return v[0] == 0 && v[1] == 0 && v[2]%2 != 0 })
+	ls := knownLines(rng, newCell(cell.Hexagonal, cell.P, 3.2094, 5.2108), func(v cell.HKL) bool { return v[0] == 0 && v[1] == 0 && v[2]%2 != 0 })
 	res, err := Index(context.Background(), ls, Options{Wavelength: 1.5405929}, nil)
 	if err != nil || len(res.Solutions) == 0 {
 		t.Fatal(err)

@@ -1,6 +1,8 @@
 package indexing
 
 import (
+	"reticle/cell"
+
 	"math"
 	"sort"
 )
@@ -37,7 +39,7 @@ func dQ(tt, tol, lambda float64) float64 {
 }
 
 // prepare sorts lines, drops impossible ones and sets their windows.
-func prepare(lines []Line, o Options) []obs {
+func prepare(lines []cell.Line, o Options) []obs {
 	out := make([]obs, 0, len(lines))
 	for _, l := range lines {
 		if !(l.TwoTheta > 0 && l.TwoTheta < 180) {

@@ -1,11 +1,6 @@
 package indexing
 
-// A Line is one observed peak: its K-alpha1 (or single-wavelength)
-// position in degrees 2θ and the esd of that position.
-type Line struct {
-	TwoTheta float64 // degrees 2θ
-	ESD      float64 // degrees 2θ; zero means unknown
-}
+import "reticle/cell"
 
 // Options control the search. The zero value of every field means its
 // documented default.
@@ -14,7 +9,7 @@ type Options struct {
 	Wavelength float64
 	// Systems to search; nil means cubic, tetragonal, hexagonal and
 	// rhombohedral.
-	Systems []System
+	Systems []cell.System
 	// Lines is how many of the first lines are used to search and to
 	// compute the figures of merit. Zero means 20.
 	Lines int
@@ -23,7 +18,7 @@ type Options struct {
 	MaxImpurities int
 	// Tolerance is the smallest 2θ window, in degrees, within which a
 	// calculated line indexes an observed one; the window is otherwise
-	// three esds of the line. Zero means 0.03°.
+	// three esds of the line. Zero means cell.MatchTolerance.
 	Tolerance float64
 	// ZeroRange is the largest zero-point error searched, degrees 2θ.
 	// Zero means 0.1°; negative means the zero is fixed at 0.
@@ -45,9 +40,12 @@ type Options struct {
 	MaxSolutions int
 }
 
+// Resolved returns the options with every zero field at its default.
+func (o Options) Resolved() Options { return o.withDefaults() }
+
 func (o Options) withDefaults() Options {
 	if o.Systems == nil {
-		o.Systems = []System{Cubic, Tetragonal, Hexagonal, Rhombohedral}
+		o.Systems = []cell.System{cell.Cubic, cell.Tetragonal, cell.Hexagonal, cell.Rhombohedral}
 	}
 	setDefault(&o.Lines, 20)
 	setDefault(&o.SeedLines, 5)
@@ -55,7 +53,7 @@ func (o Options) withDefaults() Options {
 	setDefault(&o.MaxL, 8)
 	setDefault(&o.MaxSolutions, 10)
 	setDefaultOrNone(&o.MaxImpurities, 3)
-	setDefault(&o.Tolerance, 0.03)
+	setDefault(&o.Tolerance, cell.MatchTolerance)
 	setDefault(&o.MaxEdge, 60)
 	setDefault(&o.MaxVolume, 20000)
 	setDefaultOrNone(&o.ZeroRange, 0.1)

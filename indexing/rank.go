@@ -1,6 +1,8 @@
 package indexing
 
 import (
+	"reticle/cell"
+
 	"math"
 	"sort"
 )
@@ -44,7 +46,7 @@ func rank(fs []*fit, ls, all []obs, o Options) []*fit {
 				continue
 			}
 			a, b := fs[i], fs[j]
-			if a.sys.rank() > b.sys.rank() || a.sys.rank() == b.sys.rank() && a.cell().Volume() < b.cell().Volume()*(1-1e-6) {
+			if a.sys.LaueOrder() > b.sys.LaueOrder() || a.sys.LaueOrder() == b.sys.LaueOrder() && a.cell().Volume() < b.cell().Volume()*(1-1e-6) {
 				drop[j] = true
 			}
 		}
@@ -84,8 +86,8 @@ func rank(fs []*fit, ls, all []obs, o Options) []*fit {
 			if b.indexed < a.indexed {
 				continue
 			}
-			if b.sys.rank() > a.sys.rank() ||
-				b.sys.rank() == a.sys.rank() && b.cell().Volume() < a.cell().Volume()*(1-1e-6) && b.score() >= 0.9*a.score() {
+			if b.sys.LaueOrder() > a.sys.LaueOrder() ||
+				b.sys.LaueOrder() == a.sys.LaueOrder() && b.cell().Volume() < a.cell().Volume()*(1-1e-6) && b.score() >= 0.9*a.score() {
 				out[i], out[i+1] = b, a
 				moved = true
 			}
@@ -162,9 +164,9 @@ func poissonTail(k int, lambda float64) float64 {
 
 // family groups systems whose cells share axes: hexagonal and
 // rhombohedral (hexagonal axes) are one.
-func family(s System) System {
-	if s == Rhombohedral {
-		return Hexagonal
+func family(s cell.System) cell.System {
+	if s == cell.Rhombohedral {
+		return cell.Hexagonal
 	}
 	return s
 }
@@ -175,7 +177,7 @@ func family(s System) System {
 func clusters(f *fit, qmax float64) []float64 {
 	var qs []float64
 	t := f.trial
-	if t.sys == Cubic {
+	if t.sys == cell.Cubic {
 		for n := 1; float64(n)*t.pa <= qmax; n++ {
 			if cubicAllowed(t.cen, n) {
 				qs = append(qs, float64(n)*t.pa)

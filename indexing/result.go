@@ -1,6 +1,8 @@
 package indexing
 
 import (
+	"reticle/cell"
+
 	"fmt"
 	"math"
 	"sort"
@@ -18,21 +20,21 @@ type IndexedLine struct {
 	TwoTheta     float64 // observed, degrees 2θ
 	ESD          float64 // degrees 2θ
 	Indexed      bool
-	HKL          []HKL   // indices of the calculated line it matches (several when they coincide)
-	TwoThetaCalc float64 // calculated, including the zero offset, degrees 2θ
-	Delta        float64 // observed − calculated, degrees 2θ
+	HKL          []cell.HKL // indices of the calculated line it matches (several when they coincide)
+	TwoThetaCalc float64    // calculated, including the zero offset, degrees 2θ
+	Delta        float64    // observed − calculated, degrees 2θ
 }
 
 // A Solution is one ranked cell.
 type Solution struct {
-	Cell   Cell
+	Cell   cell.Cell
 	Volume float64 // Å³
 	Zero   float64 // zero offset added to calculated angles, degrees 2θ
 
-	// M is de Wolff's figure of merit over the first N lines (M20 when
-	// N = 20).
-	M float64
-	N int
+	// M is de Wolff's figure of merit M_N over the first N lines (M20
+	// when N = 20); FigureLines is that N.
+	M           float64
+	FigureLines int
 	// FN is Smith & Snyder's F_N over the same lines, with the mean
 	// |Δ2θ| in degrees and the number of possible lines it uses.
 	FN         float64
@@ -43,7 +45,7 @@ type Solution struct {
 	Lines              []IndexedLine
 	// Calculated holds the calculated lines up to the last observed one
 	// (for tick marks), at most 2,000.
-	Calculated []Reflection
+	Calculated []cell.Reflection
 	// Conditions lists reflection conditions that the indexed lines show
 	// beyond those of the centring, e.g. "00l: l = 2n".
 	Conditions []string
@@ -62,17 +64,17 @@ func solution(f0 *fit, all, first []obs, o Options) Solution {
 			f.trial = f0.trial
 		}
 	}
-	cell := f.cell()
+	c := f.cell()
 	lambda := o.Wavelength
 	ttmax := all[len(all)-1].tt + 1
 	qmax := qOf(math.Min(ttmax, 179), f.zero, lambda)
-	refs := Reflections(cell, qmax)
+	refs := cell.Reflections(c, qmax)
 	if len(refs) > 2000 {
 		refs = refs[:2000]
 	}
 	s := Solution{
-		Cell: cell, Volume: cell.Volume(), Zero: f.zero,
-		M: f0.m20, N: len(first), FN: f0.fn, FNMeanDiff: f0.fnDelta, FNPossible: f0.fnPoss,
+		Cell: c, Volume: c.Volume(), Zero: f.zero,
+		M: f0.m20, FigureLines: len(first), FN: f0.fn, FNMeanDiff: f0.fnDelta, FNPossible: f0.fnPoss,
 		Calculated: refs,
 	}
 	for _, l := range all {
@@ -106,19 +108,19 @@ func solution(f0 *fit, all, first []obs, o Options) Solution {
 func conditions(s Solution) []string {
 	type rule struct {
 		name  string
-		class func(HKL) bool
-		ok    func(HKL) bool
+		class func(cell.HKL) bool
+		ok    func(cell.HKL) bool
 	}
 	div := func(x, n int) bool { return mod(x, n) == 0 }
 	rules := []rule{
-		{"00l: l = 2n", func(v HKL) bool { return v[0] == 0 && v[1] == 0 }, func(v HKL) bool { return div(v[2], 2) }},
-		{"00l: l = 4n", func(v HKL) bool { return v[0] == 0 && v[1] == 0 }, func(v HKL) bool { return div(v[2], 4) }},
-		{"h00: h = 2n", func(v HKL) bool { return v[1] == 0 && v[2] == 0 }, func(v HKL) bool { return div(v[0], 2) }},
-		{"hk0: h + k = 2n", func(v HKL) bool { return v[2] == 0 }, func(v HKL) bool { return div(v[0]+v[1], 2) }},
-		{"h0l: l = 2n", func(v HKL) bool { return v[1] == 0 && v[0] != 0 }, func(v HKL) bool { return div(v[2], 2) }},
-		{"hhl: l = 2n", func(v HKL) bool { return v[0] == v[1] && v[0] != 0 }, func(v HKL) bool { return div(v[2], 2) }},
+		{"00l: l = 2n", func(v cell.HKL) bool { return v[0] == 0 && v[1] == 0 }, func(v cell.HKL) bool { return div(v[2], 2) }},
+		{"00l: l = 4n", func(v cell.HKL) bool { return v[0] == 0 && v[1] == 0 }, func(v cell.HKL) bool { return div(v[2], 4) }},
+		{"h00: h = 2n", func(v cell.HKL) bool { return v[1] == 0 && v[2] == 0 }, func(v cell.HKL) bool { return div(v[0], 2) }},
+		{"hk0: h + k = 2n", func(v cell.HKL) bool { return v[2] == 0 }, func(v cell.HKL) bool { return div(v[0]+v[1], 2) }},
+		{"h0l: l = 2n", func(v cell.HKL) bool { return v[1] == 0 && v[0] != 0 }, func(v cell.HKL) bool { return div(v[2], 2) }},
+		{"hhl: l = 2n", func(v cell.HKL) bool { return v[0] == v[1] && v[0] != 0 }, func(v cell.HKL) bool { return div(v[2], 2) }},
 	}
-	observed := map[HKL]bool{}
+	observed := map[cell.HKL]bool{}
 	for _, l := range s.Lines {
 		for _, v := range l.HKL {
 			observed[v] = true
@@ -153,5 +155,5 @@ func conditions(s Solution) []string {
 // String prints the solution's cell and figures on one line.
 func (s Solution) String() string {
 	return fmt.Sprintf("%s V=%.2f Å³ M%d=%.1f F%d=%.1f(%.4f, %d) indexed %d/%d zero %+.4f°",
-		s.Cell, s.Volume, s.N, s.M, s.N, s.FN, s.FNMeanDiff, s.FNPossible, s.Indexed, s.Indexed+s.Unindexed, s.Zero)
+		s.Cell, s.Volume, s.FigureLines, s.M, s.FigureLines, s.FN, s.FNMeanDiff, s.FNPossible, s.Indexed, s.Indexed+s.Unindexed, s.Zero)
 }

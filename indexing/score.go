@@ -1,6 +1,10 @@
 package indexing
 
-import "math"
+import (
+	"math"
+
+	"reticle/cell"
+)
 
 // fit is a trial with its line assignments and figures of merit over the
 // first lines.
@@ -43,7 +47,7 @@ func (f *fit) assignAll(ls []obs, lambda, extra float64) {
 // system is singular or the result unphysical.
 func (f *fit) refine(ls []obs, lambda float64, zeroFree bool) bool {
 	np := 2
-	if f.sys == Cubic {
+	if f.sys == cell.Cubic {
 		np = 1
 	}
 	if zeroFree {
@@ -77,7 +81,7 @@ func (f *fit) refine(ls []obs, lambda float64, zeroFree bool) bool {
 			r := o.tt - f.zero - tt
 			jrow[0] = mq * dd
 			k := 1
-			if f.sys != Cubic {
+			if f.sys != cell.Cubic {
 				jrow[1] = lq * dd
 				k = 2
 			}
@@ -98,14 +102,14 @@ func (f *fit) refine(ls []obs, lambda float64, zeroFree bool) bool {
 		}
 		f.pa += x[0]
 		k := 1
-		if f.sys != Cubic {
+		if f.sys != cell.Cubic {
 			f.pc += x[1]
 			k = 2
 		}
 		if zeroFree {
 			f.zero += x[k]
 		}
-		if !(f.pa > 0) || f.sys != Cubic && !(f.pc > 0) {
+		if !(f.pa > 0) || f.sys != cell.Cubic && !(f.pc > 0) {
 			return false
 		}
 	}

@@ -1,6 +1,8 @@
 package indexing
 
 import (
+	"reticle/cell"
+
 	"context"
 	"errors"
 	"fmt"
@@ -29,7 +31,7 @@ const keep = 40
 // lines, and returns them ranked, best first. It can be cancelled through
 // ctx and reports progress (seed sets screened) through progress, which may
 // be nil. The same input always gives the same result.
-func Index(ctx context.Context, lines []Line, opt Options, progress func(done, total int)) (*Result, error) {
+func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(done, total int)) (*Result, error) {
 	o := opt.withDefaults()
 	if !(o.Wavelength > 0.1 && o.Wavelength < 5) {
 		return nil, fmt.Errorf("indexing: wavelength %g Å outside 0.1–5 Å", o.Wavelength)
@@ -50,13 +52,13 @@ func Index(ctx context.Context, lines []Line, opt Options, progress func(done, t
 	}
 	// Rhombohedral lattices are hexagonal-axes lattices with extra
 	// absences: they come as variants of the hexagonal search.
-	want := map[System]bool{}
+	want := map[cell.System]bool{}
 	for _, s := range o.Systems {
 		want[s] = true
 	}
-	var gens []System
-	for _, s := range []System{Cubic, Tetragonal, Hexagonal} {
-		if want[s] || s == Hexagonal && want[Rhombohedral] {
+	var gens []cell.System
+	for _, s := range []cell.System{cell.Cubic, cell.Tetragonal, cell.Hexagonal} {
+		if want[s] || s == cell.Hexagonal && want[cell.Rhombohedral] {
 			gens = append(gens, s)
 		}
 	}
@@ -112,10 +114,10 @@ func Index(ctx context.Context, lines []Line, opt Options, progress func(done, t
 // searchSystem seeds, screens and settles the lattices of one system (and
 // its centring variants) over the zero offsets; tick is called after each
 // offset.
-func searchSystem(ctx context.Context, s System, want map[System]bool, first []obs, zeros []float64, o Options, tick func()) ([]*fit, error) {
-	cen := P
-	if s == Hexagonal && !want[Hexagonal] {
-		cen = R
+func searchSystem(ctx context.Context, s cell.System, want map[cell.System]bool, first []obs, zeros []float64, o Options, tick func()) ([]*fit, error) {
+	cen := cell.P
+	if s == cell.Hexagonal && !want[cell.Hexagonal] {
+		cen = cell.R
 	}
 	var fits []*fit
 	settled := map[[2]int64]bool{}
@@ -176,19 +178,19 @@ func searchSystem(ctx context.Context, s System, want map[System]bool, first []o
 
 // variant is a system and centring to try on a lattice found primitive.
 type variant struct {
-	sys System
-	cen Centring
+	sys cell.System
+	cen cell.Centring
 }
 
-func variants(s System, want map[System]bool) []variant {
+func variants(s cell.System, want map[cell.System]bool) []variant {
 	switch s {
-	case Cubic:
-		return []variant{{Cubic, I}, {Cubic, F}}
-	case Tetragonal:
-		return []variant{{Tetragonal, I}}
-	case Hexagonal:
-		if want[Rhombohedral] {
-			return []variant{{Rhombohedral, R}}
+	case cell.Cubic:
+		return []variant{{cell.Cubic, cell.I}, {cell.Cubic, cell.F}}
+	case cell.Tetragonal:
+		return []variant{{cell.Tetragonal, cell.I}}
+	case cell.Hexagonal:
+		if want[cell.Rhombohedral] {
+			return []variant{{cell.Rhombohedral, cell.R}}
 		}
 	}
 	return nil
@@ -206,19 +208,19 @@ func variants(s System, want map[System]bool) []variant {
 //     1/a², and each of the first three lines that this does not index as
 //     any (m ≤ MaxM, 1 ≤ l ≤ MaxL), which fixes 1/c²;
 //     (c) the same with a 00l line (l ≤ MaxL) fixing 1/c² first.
-func seeds(s System, cen Centring, qs, ws []float64, z float64, o Options, visit func(trial)) {
+func seeds(s cell.System, cen cell.Centring, qs, ws []float64, z float64, o Options, visit func(trial)) {
 	k := min(len(qs), o.SeedLines)
 	emit := func(pa, pc float64) {
-		if !(pa > 0) || s != Cubic && !(pc > 0) {
+		if !(pa > 0) || s != cell.Cubic && !(pc > 0) {
 			return
 		}
 		t := trial{sys: s, cen: cen, pa: pa, pc: pc, zero: z}
 		var a, c, v float64
 		switch s {
-		case Cubic:
+		case cell.Cubic:
 			a = 1 / math.Sqrt(pa)
 			c, v = a, a*a*a
-		case Tetragonal:
+		case cell.Tetragonal:
 			a, c = 1/math.Sqrt(pa), 1/math.Sqrt(pc)
 			v = a * a * c
 		default:
@@ -230,11 +232,11 @@ func seeds(s System, cen Centring, qs, ws []float64, z float64, o Options, visit
 		}
 		visit(t)
 	}
-	if s == Cubic {
+	if s == cell.Cubic {
 		nmax := 2*o.MaxM + o.MaxL*o.MaxL
 		for i := 0; i < k; i++ {
 			for n := 1; n <= nmax; n++ {
-				if cubicAllowed(P, n) {
+				if cubicAllowed(cell.P, n) {
 					emit(qs[i]/float64(n), 0)
 				}
 			}
@@ -245,7 +247,7 @@ func seeds(s System, cen Centring, qs, ws []float64, z float64, o Options, visit
 	var small []vec
 	for m := 0; m <= 9; m++ {
 		for l := 0; l <= 4; l++ {
-			if planeAllowed(s, P, m, l) {
+			if planeAllowed(s, cell.P, m, l) {
 				small = append(small, vec{float64(m), float64(l * l)})
 			}
 		}
@@ -279,17 +281,17 @@ func seeds(s System, cen Centring, qs, ws []float64, z float64, o Options, visit
 	// (b) an hk0 line first.
 	for i := 0; i < k; i++ {
 		for m := 1; m <= o.MaxM; m++ {
-			if !planeAllowed(s, P, m, 0) {
+			if !planeAllowed(s, cell.P, m, 0) {
 				continue
 			}
 			pa := qs[i] / float64(m)
 			for _, j := range unexplained(i, func(q, w float64) bool {
 				n := math.Round(q / pa)
-				return n >= 1 && n < tableSize && planeAllowed(s, P, int(n), 0) && math.Abs(n*pa-q) <= w
+				return n >= 1 && n < tableSize && planeAllowed(s, cell.P, int(n), 0) && math.Abs(n*pa-q) <= w
 			}) {
 				for l := 1; l <= o.MaxL; l++ {
 					for mm := 0; mm <= o.MaxM && float64(mm)*pa < qs[j]; mm++ {
-						if planeAllowed(s, P, mm, l) {
+						if planeAllowed(s, cell.P, mm, l) {
 							emit(pa, (qs[j]-float64(mm)*pa)/float64(l*l))
 						}
 					}
@@ -307,7 +309,7 @@ func seeds(s System, cen Centring, qs, ws []float64, z float64, o Options, visit
 			}) {
 				for m := 1; m <= o.MaxM; m++ {
 					for ll := 0; ll <= o.MaxL && float64(ll*ll)*pc < qs[j]; ll++ {
-						if planeAllowed(s, P, m, ll) {
+						if planeAllowed(s, cell.P, m, ll) {
 							emit((qs[j]-float64(ll*ll)*pc)/float64(m), pc)
 						}
 					}
@@ -375,9 +377,9 @@ func settle(t trial, ls []obs, o Options) *fit {
 func density(t *trial, q float64) float64 {
 	var v, order float64
 	switch t.sys {
-	case Cubic:
+	case cell.Cubic:
 		v, order = math.Pow(t.pa, -1.5), 48
-	case Tetragonal:
+	case cell.Tetragonal:
 		v, order = 1/(t.pa*math.Sqrt(t.pc)), 16
 	default:
 		v, order = 2/math.Sqrt(3)/(t.pa*math.Sqrt(t.pc)), 24

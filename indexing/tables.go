@@ -1,5 +1,7 @@
 package indexing
 
+import "reticle/cell"
+
 // Tables of which index sums a lattice allows, for the fast line test.
 
 const tableSize = 4096
@@ -40,15 +42,15 @@ func isSum3(n int) bool {
 
 // cubicAllowed reports whether a cubic lattice of the centring has a
 // reflection with h²+k²+l² = n.
-func cubicAllowed(c Centring, n int) bool {
+func cubicAllowed(c cell.Centring, n int) bool {
 	if n <= 0 {
 		return false
 	}
 	switch c {
-	case I:
+	case cell.I:
 		// h+k+l ≡ h²+k²+l² (mod 2).
 		return n%2 == 0 && isSum3(n)
-	case F:
+	case cell.F:
 		// All odd: n ≡ 3 (mod 8); all even: n = 4n′.
 		return n%8 == 3 || n%4 == 0 && isSum3(n/4)
 	}
@@ -57,7 +59,7 @@ func cubicAllowed(c Centring, n int) bool {
 
 // planeAllowed reports whether a tetragonal or hexagonal-axes lattice has a
 // reflection with in-plane index m (h²+k² or h²+hk+k²) and index l.
-func planeAllowed(s System, c Centring, m, l int) bool {
+func planeAllowed(s cell.System, c cell.Centring, m, l int) bool {
 	if m < 0 || m == 0 && l == 0 {
 		return false
 	}
@@ -65,11 +67,11 @@ func planeAllowed(s System, c Centring, m, l int) bool {
 		return false
 	}
 	switch s {
-	case Tetragonal:
+	case cell.Tetragonal:
 		if !sum2[m] {
 			return false
 		}
-		if c == I {
+		if c == cell.I {
 			// h+k ≡ h²+k² (mod 2).
 			return (m+l)%2 == 0
 		}
@@ -78,7 +80,7 @@ func planeAllowed(s System, c Centring, m, l int) bool {
 		if !loesch[m] {
 			return false
 		}
-		if c == R {
+		if c == cell.R {
 			// h²+hk+k² ≡ (k−h)² (mod 3), and −h+k+l ≡ 0 (mod 3); both
 			// signs of k−h occur (swap h and k).
 			if m%3 == 0 {
@@ -88,4 +90,12 @@ func planeAllowed(s System, c Centring, m, l int) bool {
 		}
 		return true
 	}
+}
+
+func mod(a, m int) int {
+	r := a % m
+	if r < 0 {
+		r += m
+	}
+	return r
 }

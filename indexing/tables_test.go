@@ -1,12 +1,16 @@
 package indexing
 
-import "testing"
+import (
+	"testing"
+
+	"reticle/cell"
+)
 
 // TestTablesAgainstBruteForce checks the fast allowed-index tables against
 // enumerating hkl with the extinction rule itself.
 func TestTablesAgainstBruteForce(t *testing.T) {
 	const lim = 9
-	cubic := map[Centring]map[int]bool{P: {}, I: {}, F: {}}
+	cubic := map[cell.Centring]map[int]bool{cell.P: {}, cell.I: {}, cell.F: {}}
 	plane := map[[3]int]bool{} // system, centring, m*64+l
 	for h := -lim; h <= lim; h++ {
 		for k := -lim; k <= lim; k++ {
@@ -15,7 +19,7 @@ func TestTablesAgainstBruteForce(t *testing.T) {
 					continue
 				}
 				for c := range cubic {
-					if Allowed(c, h, k, l) {
+					if c.Allowed(cell.HKL{h, k, l}) {
 						cubic[c][h*h+k*k+l*l] = true
 					}
 				}
@@ -23,16 +27,16 @@ func TestTablesAgainstBruteForce(t *testing.T) {
 				if al < 0 {
 					al = -al
 				}
-				for _, c := range []Centring{P, I} {
-					if Allowed(c, h, k, l) {
-						plane[[3]int{int(Tetragonal), int(c), (h*h+k*k)*64 + al}] = true
+				for _, c := range []cell.Centring{cell.P, cell.I} {
+					if c.Allowed(cell.HKL{h, k, l}) {
+						plane[[3]int{int(cell.Tetragonal), int(c), (h*h+k*k)*64 + al}] = true
 					}
 				}
-				if Allowed(P, h, k, l) {
-					plane[[3]int{int(Hexagonal), int(P), (h*h+h*k+k*k)*64 + al}] = true
+				if cell.P.Allowed(cell.HKL{h, k, l}) {
+					plane[[3]int{int(cell.Hexagonal), int(cell.P), (h*h+h*k+k*k)*64 + al}] = true
 				}
-				if Allowed(R, h, k, l) {
-					plane[[3]int{int(Rhombohedral), int(R), (h*h+h*k+k*k)*64 + al}] = true
+				if cell.R.Allowed(cell.HKL{h, k, l}) {
+					plane[[3]int{int(cell.Rhombohedral), int(cell.R), (h*h+h*k+k*k)*64 + al}] = true
 				}
 			}
 		}
@@ -44,12 +48,12 @@ func TestTablesAgainstBruteForce(t *testing.T) {
 			}
 		}
 	}
-	for _, sc := range [][2]int{{int(Tetragonal), 'P'}, {int(Tetragonal), 'I'}, {int(Hexagonal), 'P'}, {int(Rhombohedral), 'R'}} {
+	for _, sc := range [][2]int{{int(cell.Tetragonal), 'P'}, {int(cell.Tetragonal), 'I'}, {int(cell.Hexagonal), 'P'}, {int(cell.Rhombohedral), 'R'}} {
 		for m := 0; m <= lim*lim; m++ {
 			for l := 0; l <= lim; l++ {
 				want := plane[[3]int{sc[0], sc[1], m*64 + l}]
-				if got := planeAllowed(System(sc[0]), Centring(sc[1]), m, l); got != want {
-					t.Errorf("%v %c m=%d l=%d: table %v, enumeration %v", System(sc[0]), sc[1], m, l, got, want)
+				if got := planeAllowed(cell.System(sc[0]), cell.Centring(sc[1]), m, l); got != want {
+					t.Errorf("%v %c m=%d l=%d: table %v, enumeration %v", cell.System(sc[0]), sc[1], m, l, got, want)
 				}
 			}
 		}

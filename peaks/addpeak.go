@@ -49,7 +49,7 @@ func FitAt(s *Scan, res *Result, twoTheta float64) (Peak, []float64, error) {
 	}
 	w := make([]float64, n)
 	md := &model{x: x, y: y, w: w, bg: res.Background, rad: res.Radiation}
-	c := &component{x: x[best], anchor: x[best], h: math.Max(y[best]-res.Profile[best], 1), w: w0, eta: eta, fixedShape: true, flags: FlagAdded | FlagUser}
+	c := &component{x: x[best], anchor: x[best], h: math.Max(y[best]-res.Profile[best], 1), w: w0, eta: eta, fixedShape: true, flags: FlagUser}
 	wlo, whi := md.window(c)
 	if whi-wlo < 8 {
 		return Peak{}, nil, fmt.Errorf("peaks: too few points near %.4f°: %w", twoTheta, ErrNoPeak)

@@ -5,6 +5,19 @@ import (
 	"fmt"
 	"math"
 	"sort"
+
+	"reticle/cell"
+)
+
+// Defaults of the extraction options.
+const (
+	// DefaultBackgroundWidth is the background window, degrees 2θ.
+	DefaultBackgroundWidth = 1.5
+	// DefaultThreshold is the significance a peak must reach, in esds
+	// of its fitted height: on the simulated scans of the tests (80° of
+	// 2θ, about 800 peak widths) about 1 false peak per 100 scans passes
+	// 4.5; 4 lets about 6 through.
+	DefaultThreshold = 4.5
 )
 
 // Options control peak extraction. The zero value of every field means
@@ -14,14 +27,15 @@ type Options struct {
 	// wavelength as a single line, else the K-alpha doublet of the anode
 	// the scan names, else the Cu K-alpha doublet.
 	Radiation Radiation
+	// KAlpha2Ratio is the intensity of K-alpha2 relative to K-alpha1 of
+	// a doublet. Zero means DefaultKAlpha2Ratio.
+	KAlpha2Ratio float64
 	// BackgroundWidth is the SNIP clipping window in degrees 2θ. Zero
-	// means 1.5°.
+	// means DefaultBackgroundWidth.
 	BackgroundWidth float64
 	// Threshold is the significance, in standard deviations of the
 	// fitted height, that a peak must reach to be reported. Zero means
-	// 4.5: on the simulated scans of the tests (80° of 2θ, about 800
-	// peak widths) about 1 false peak per 100 scans passes it; 4 lets
-	// about 6 through.
+	// DefaultThreshold.
 	Threshold float64
 	// DetectThreshold is the significance of a maximum of the smoothed
 	// net counts that makes it a candidate for fitting. Zero means 3.
@@ -32,22 +46,26 @@ type Options struct {
 	FreeShapeSNR float64
 }
 
+// Resolved returns the options with their defaults filled in for scan
+// s: the radiation the scan implies, the K-alpha2 ratio applied to a
+// doublet, and every zero field at its default.
+func (o Options) Resolved(s *Scan) Options { return o.withDefaults(s) }
+
 func (o Options) withDefaults(s *Scan) Options {
 	if o.Radiation.Lambda1 == 0 {
-		if a, ok := LookupAnode(s.Anode); ok && s.Wavelength == 0 {
-			o.Radiation = AnodeRadiation(a)
-		} else if s.Wavelength > 0 {
-			o.Radiation = SingleLine(s.Wavelength)
-		} else {
-			a, _ := LookupAnode("Cu")
-			o.Radiation = AnodeRadiation(a)
-		}
+		o.Radiation = s.Radiation()
+	}
+	if o.KAlpha2Ratio == 0 {
+		o.KAlpha2Ratio = DefaultKAlpha2Ratio
+	}
+	if o.Radiation.Doublet() {
+		o.Radiation.Ratio2 = o.KAlpha2Ratio
 	}
 	if o.BackgroundWidth == 0 {
-		o.BackgroundWidth = 1.5
+		o.BackgroundWidth = DefaultBackgroundWidth
 	}
 	if o.Threshold == 0 {
-		o.Threshold = 4.5
+		o.Threshold = DefaultThreshold
 	}
 	if o.DetectThreshold == 0 {
 		o.DetectThreshold = 3
@@ -69,13 +87,10 @@ type Result struct {
 	Warnings   []string
 }
 
-// Progress reports that done of total units of work are finished.
-type Progress func(done, total int)
-
 // Extract finds and fits the peaks of a scan. It can be cancelled through
 // ctx and reports progress (groups fitted) through progress, which may be
 // nil.
-func Extract(ctx context.Context, s *Scan, opt Options, progress Progress) (*Result, error) {
+func Extract(ctx context.Context, s *Scan, opt Options, progress func(done, total int)) (*Result, error) {
 	if s.Len() < MinPoints {
 		return nil, fmt.Errorf("peaks: scan %s: %w", s.Path, ErrTooFew)
 	}
@@ -263,7 +278,7 @@ func seed(md *model, cands []candidate, fwhm0 float64, o Options) []*component {
 
 // fitAll fits every group of cs. With tails set, the profiles of the other
 // components (from their last fit) are part of each group's base.
-func fitAll(ctx context.Context, md *model, cs, tails []*component, progress Progress, pass int) error {
+func fitAll(ctx context.Context, md *model, cs, tails []*component, progress func(done, total int), pass int) error {
 	gs := md.groups(cs)
 	for gi, g := range gs {
 		if err := ctx.Err(); err != nil {
@@ -347,7 +362,7 @@ func prune(cs []*component, minZ float64) []*component {
 func peaksOf(md *model, cs []*component) []Peak {
 	out := make([]Peak, 0, len(cs))
 	for _, c := range cs {
-		d, sd := DSpacingESD(c.x, c.sx, md.rad.Lambda1, 0)
+		d, sd := cell.DSpacingESD(c.x, c.sx, md.rad.Lambda1, 0)
 		area := PseudoVoigtArea(c.h, c.w, c.eta)
 		// Area esd to first order from the height, width and mixing esds
 		// (their correlations neglected).

@@ -189,24 +189,3 @@ func TestNoiseOnly(t *testing.T) {
 		t.Errorf("%d peaks found in 20 noise-only scans", spurious)
 	}
 }
-
-func TestFormatESD(t *testing.T) {
-	for _, test := range []struct {
-		v, u float64
-		want string
-	}{
-		{5.64021, 0.00007, "5.64021(7)"},
-		{28.44213, 0.00131, "28.4421(13)"},
-		{1.5405929, 0, "1.5405929"},
-		{123.456, 2.4, "123(2)"},
-		{1234.5, 26, "1230(30)"},
-		{1234.5, 14, "1235(14)"},
-		{0.5, 0.0196, "0.50(2)"},
-		{0.0012345, 0.0000019, "0.0012345(19)"},
-		{2.0, 0.96, "2.0(10)"},
-	} {
-		if got := FormatESD(test.v, test.u); got != test.want {
-			t.Errorf("FormatESD(%g, %g) = %s, want %s", test.v, test.u, got, test.want)
-		}
-	}
-}

@@ -101,3 +101,35 @@ func ParseRadiation(s string) (Radiation, error) {
 	}
 	return SingleLine(v), nil
 }
+
+// Setting returns the text that ParseRadiation reads back as this
+// radiation: an anode symbol for its K-alpha doublet ("Cu"), the symbol
+// with Ka1 for K-alpha1 alone ("CuKa1"), else the wavelength in Å. The
+// K-alpha2 ratio is a setting of its own and is not part of the text.
+func (r Radiation) Setting() string {
+	for _, a := range Anodes {
+		if r.Lambda1 != a.KAlpha1 {
+			continue
+		}
+		if r.Lambda2 == a.KAlpha2 && r.Lambda2 > 0 {
+			return a.Symbol
+		}
+		if r.Lambda2 == 0 {
+			return a.Symbol + "Ka1"
+		}
+	}
+	return strconv.FormatFloat(r.Lambda1, 'g', -1, 64)
+}
+
+// MarshalText writes Setting.
+func (r Radiation) MarshalText() ([]byte, error) { return []byte(r.Setting()), nil }
+
+// UnmarshalText reads a radiation as ParseRadiation does.
+func (r *Radiation) UnmarshalText(b []byte) error {
+	v, err := ParseRadiation(string(b))
+	if err != nil {
+		return err
+	}
+	*r = v
+	return nil
+}

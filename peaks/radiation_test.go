@@ -77,33 +77,3 @@ func TestParseRadiation(t *testing.T) {
 		}
 	}
 }
-
-// TestBragg checks Bragg's law against a worked value: Cu K-alpha1
-// (1.5405929 Å) on the Si 111 spacing d = 5.4310/√3 = 3.135589 Å gives
-// sin θ = 1.5405929/6.271179 = 0.245662, θ = 14.22098°, 2θ = 28.44197°
-// (the textbook Si 111 line sits at 28.44° with Cu K-alpha1; arithmetic with
-// the Si cell of NIST SRM 640 series, a ≈ 5.4310 Å, from memory).
-func TestBragg(t *testing.T) {
-	d := 5.4310 / math.Sqrt(3)
-	tt := TwoTheta(d, 1.5405929)
-	if math.Abs(tt-28.44197) > 2e-5 {
-		t.Errorf("2θ = %.5f, want 28.44197", tt)
-	}
-	if got := DSpacing(tt, 1.5405929); math.Abs(got-d) > 1e-12 {
-		t.Errorf("round trip d = %.9f, want %.9f", got, d)
-	}
-	// Uncertainty: numerical derivative against the propagated value.
-	const s = 0.002
-	_, sd := DSpacingESD(tt, s, 1.5405929, 0)
-	num := math.Abs(DSpacing(tt+s/2, 1.5405929)-DSpacing(tt-s/2, 1.5405929)) / s * s
-	if math.Abs(sd-num)/num > 1e-4 {
-		t.Errorf("σd = %g, numerical %g", sd, num)
-	}
-	_, stt := TwoThetaESD(d, sd, 1.5405929, 0)
-	if math.Abs(stt-s)/s > 1e-3 {
-		t.Errorf("σ2θ back = %g, want %g", stt, s)
-	}
-	if !math.IsNaN(TwoTheta(0.5, 1.5405929)) || !math.IsNaN(DSpacing(0, 1)) {
-		t.Error("impossible reflections must give NaN")
-	}
-}

@@ -3,8 +3,9 @@ package peaks
 import (
 	"fmt"
 	"math"
-	"strconv"
 	"strings"
+
+	"reticle/esd"
 )
 
 // A cifToken is one word of a CIF file with the line it starts on.
@@ -160,40 +161,20 @@ func (b *cifBlock) value(tag string) (cifValue, bool) {
 
 // cifNumber parses a CIF number with an optional standard uncertainty in
 // parentheses, "1.54056(2)" → 1.54056, 0.00002. The uncertainty is 0 when
-// absent. Unknown ('?') and inapplicable ('.') values report ok false.
+// absent. Unknown ('?') and inapplicable ('.') values are ErrText.
 func cifNumber(s string) (v, su float64, err error) {
 	if s == "?" || s == "." {
 		return 0, 0, ErrText
 	}
-	num := s
-	if i := strings.IndexByte(s, '('); i >= 0 {
-		if !strings.HasSuffix(s, ")") {
-			return 0, 0, ErrText
-		}
-		num = s[:i]
-		digits := s[i+1 : len(s)-1]
-		d, e := strconv.ParseUint(digits, 10, 32)
-		if e != nil {
-			return 0, 0, ErrText
-		}
-		// The uncertainty applies to the last digit of the mantissa.
-		mant := num
-		exp := 0
-		if k := strings.IndexAny(mant, "eE"); k >= 0 {
-			exp, e = strconv.Atoi(mant[k+1:])
-			if e != nil {
-				return 0, 0, ErrText
-			}
-			mant = mant[:k]
-		}
-		dec := 0
-		if k := strings.IndexByte(mant, '.'); k >= 0 {
-			dec = len(mant) - k - 1
-		}
-		su = float64(d) * math.Pow(10, float64(exp-dec))
+	num, _, _ := strings.Cut(s, "(")
+	if _, err := parseNumber(num); err != nil {
+		return 0, 0, err // ErrText or ErrNotFinite
 	}
-	v, err = parseNumber(num)
-	return v, su, err
+	v, su, err = esd.Parse(s)
+	if err != nil {
+		return 0, 0, ErrText
+	}
+	return v, su, nil
 }
 
 // parseCIF reads a powder CIF: angles from _pd_meas_2theta_scan (or the

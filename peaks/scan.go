@@ -139,3 +139,17 @@ func (s *Scan) finish(file string, pts []point, hasESD bool) error {
 }
 
 func ftoa(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+
+// Radiation returns the radiation the scan states: its wavelength as a
+// single line, else the K-alpha doublet of the anode it names, else the
+// Cu K-alpha doublet (the commonest laboratory source).
+func (s *Scan) Radiation() Radiation {
+	if s.Wavelength > 0 {
+		return SingleLine(s.Wavelength)
+	}
+	if a, ok := LookupAnode(s.Anode); ok {
+		return AnodeRadiation(a)
+	}
+	a, _ := LookupAnode("Cu")
+	return AnodeRadiation(a)
+}

@@ -4,7 +4,7 @@ import (
 	"context"
 	"fmt"
 
-	"reticle/indexing"
+	"reticle/cell"
 	"reticle/refine"
 )
 
@@ -13,17 +13,17 @@ import (
 func ExampleRefine() {
 	lines := []struct {
 		tt  float64
-		hkl indexing.HKL
+		hkl cell.HKL
 	}{
-		{27.386, indexing.HKL{1, 1, 1}}, {31.725, indexing.HKL{2, 0, 0}}, {45.467, indexing.HKL{2, 2, 0}},
-		{53.888, indexing.HKL{3, 1, 1}}, {56.493, indexing.HKL{2, 2, 2}}, {66.247, indexing.HKL{4, 0, 0}},
+		{27.386, cell.HKL{1, 1, 1}}, {31.725, cell.HKL{2, 0, 0}}, {45.467, cell.HKL{2, 2, 0}},
+		{53.888, cell.HKL{3, 1, 1}}, {56.493, cell.HKL{2, 2, 2}}, {66.247, cell.HKL{4, 0, 0}},
 	}
 	var obs []refine.Observation
 	for _, l := range lines {
-		obs = append(obs, refine.Observation{TwoTheta: l.tt, ESD: 0.003, HKL: []indexing.HKL{l.hkl}})
+		obs = append(obs, refine.Observation{Line: cell.Line{TwoTheta: l.tt, ESD: 0.003}, HKL: []cell.HKL{l.hkl}})
 	}
-	start := indexing.NewCell(indexing.Cubic, indexing.F, 5.64, 0)
-	res, err := refine.Refine(context.Background(), start, obs, refine.Options{Wavelength: 1.5405929, Zero: true})
+	start := cell.Must(cell.Cubic, cell.F, 5.64)
+	res, err := refine.Refine(context.Background(), start, obs, refine.Options{Wavelength: 1.5405929, Corrections: refine.Zero})
 	if err != nil {
 		fmt.Println(err)
 		return

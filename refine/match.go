@@ -6,18 +6,15 @@ import (
 	"math"
 	"sort"
 
-	"reticle/indexing"
+	"reticle/cell"
 )
 
 // Matching controls how RefineLines assigns observed lines to a cell.
 type Matching struct {
 	// Tolerance is the smallest 2θ window, degrees, within which a
 	// calculated line claims an observed one; the window is otherwise
-	// three esds of the line. Zero means 0.03°.
+	// three esds of the line. Zero means cell.MatchTolerance.
 	Tolerance float64
-	// Exclude lists 2θ positions, degrees, of lines to leave out of the
-	// fit; each excludes the observed line within 0.02° of it.
-	Exclude []float64
 }
 
 // startSlack is the extra window, degrees 2θ, of the first assignment
@@ -26,20 +23,25 @@ var startSlack = []float64{0.15, 0.08, 0.04}
 
 // RefineLines assigns observed lines to the calculated lines of a known
 // cell (and of the internal standard, when Options.Standard is set) and
-// refines it, re-assigning until the assignment is stable. Lines that
-// match no calculated line are returned in Result.Unmatched; lines that
-// match both phases are excluded as overlapped.
-func RefineLines(ctx context.Context, cell indexing.Cell, lines []indexing.Line, opt Options, m Matching) (*Result, error) {
+// refines it, re-assigning until the assignment is stable. The lines'
+// HKL and Standard fields are set by the assignment; Excluded lines are
+// assigned but left out of the fit. Lines that match no calculated line
+// are returned in Result.Unmatched; lines that match both phases are left
+// out as overlapped.
+func RefineLines(ctx context.Context, c cell.Cell, lines []Observation, opt Options, m Matching) (*Result, error) {
 	if m.Tolerance == 0 {
-		m.Tolerance = 0.03
+		m.Tolerance = cell.MatchTolerance
 	}
 	if len(lines) == 0 {
 		return nil, fmt.Errorf("refine: no lines: %w", ErrTooFew)
 	}
-	sorted := append([]indexing.Line(nil), lines...)
-	sort.Slice(sorted, func(i, j int) bool { return sorted[i].TwoTheta < sorted[j].TwoTheta })
-	cur := cell
-	var zero, disp float64
+	if err := c.Check(); err != nil {
+		return nil, fmt.Errorf("refine: %w: %v", ErrCell, err)
+	}
+	sorted := append([]Observation(nil), lines...)
+	sort.SliceStable(sorted, func(i, j int) bool { return sorted[i].TwoTheta < sorted[j].TwoTheta })
+	cur := c
+	var v shifts
 	o := opt.withDefaults()
 	var prev []Observation
 	var res *Result
@@ -48,26 +50,21 @@ func RefineLines(ctx context.Context, cell indexing.Cell, lines []indexing.Line,
 		if pass < len(startSlack) {
 			slack = startSlack[pass]
 		}
-		obs, unmatched, overlapped := assign(cur, sorted, o, zero, disp, m, slack)
+		obs, unmatched, overlapped := assign(cur, sorted, o, v, m, slack)
 		if pass >= len(startSlack) && sameAssignment(obs, prev) {
 			res.Unmatched, res.Overlapped = unmatched, overlapped
 			return res, nil
 		}
-		r, err := Refine(ctx, cell, obs, opt)
+		r, err := Refine(ctx, c, obs, opt)
 		if err != nil {
 			return nil, err
 		}
 		res, prev = r, obs
 		res.Unmatched, res.Overlapped = unmatched, overlapped
-		cur, zero, disp = withCentring(r.Cell, cell.Centring), r.Zero, r.Displacement
+		cur, v = r.Cell, r.shifts
 	}
 	res.Warnings = append(res.Warnings, "line assignment did not settle in 12 passes")
 	return res, nil
-}
-
-func withCentring(c indexing.Cell, cen indexing.Centring) indexing.Cell {
-	c.Centring = cen
-	return c
 }
 
 func sameAssignment(a, b []Observation) bool {
@@ -85,27 +82,27 @@ func sameAssignment(a, b []Observation) bool {
 // A calcLine is a calculated line at its corrected position.
 type calcLine struct {
 	tt  float64
-	hkl []indexing.HKL
+	hkl []cell.HKL
 }
 
 // calcLines lists a cell's calculated lines below ttmax, by position.
-func calcLines(c indexing.Cell, o Options, zero, disp, ttmax float64) []calcLine {
-	s := math.Sin(math.Min(ttmax, 179.9) * deg / 2)
-	qmax := 4 * s * s / (o.Wavelength * o.Wavelength)
-	p := cellValues(c)
+func calcLines(c cell.Cell, o Options, v shifts, ttmax float64) []calcLine {
+	qmax := cell.QOf(math.Min(ttmax, 179.9), o.Wavelength)
+	m := newModel(c.System, o.Wavelength, o.Radius)
+	r := start(c)
 	var out []calcLine
-	for _, r := range indexing.Reflections(c, qmax) {
-		pt := eval(c.System, p, r.HKL[0], o.Wavelength, zero, disp, o.Radius)
-		if pt.inside {
-			out = append(out, calcLine{pt.tt, r.HKL})
+	for _, ref := range cell.Reflections(c, qmax) {
+		if pt := m.eval(r, ref.HKL[0], v); pt.inside {
+			out = append(out, calcLine{pt.tt, ref.HKL})
 		}
 	}
 	sort.Slice(out, func(i, j int) bool { return out[i].tt < out[j].tt })
 	return out
 }
 
-// nearestCalc returns the calculated line nearest to tt and its distance.
-func nearestCalc(cl []calcLine, tt float64) (calcLine, float64) {
+// nearestCalc returns the calculated line nearest to tt, its distance,
+// and how many calculated lines lie within w of tt.
+func nearestCalc(cl []calcLine, tt, w float64) (calcLine, float64, int) {
 	k := sort.Search(len(cl), func(i int) bool { return cl[i].tt >= tt })
 	best, bd := calcLine{}, math.Inf(1)
 	for _, j := range []int{k - 1, k} {
@@ -115,41 +112,92 @@ func nearestCalc(cl []calcLine, tt float64) (calcLine, float64) {
 			}
 		}
 	}
-	return best, bd
+	n := 0
+	for j := sort.Search(len(cl), func(i int) bool { return cl[i].tt >= tt-w }); j < len(cl) && cl[j].tt <= tt+w; j++ {
+		n++
+	}
+	return best, bd, n
 }
 
 // assign matches the lines to the cell's (and the standard's) calculated
-// lines with windows widened by slack degrees.
-func assign(c indexing.Cell, lines []indexing.Line, o Options, zero, disp float64, m Matching, slack float64) (obs []Observation, unmatched, overlapped []indexing.Line) {
+// lines with windows widened by slack degrees. A line that two calculated
+// lines claim (of one phase, or one of each) is an unresolved blend whose
+// position is neither's: it is left out as overlapped.
+func assign(c cell.Cell, lines []Observation, o Options, v shifts, m Matching, slack float64) (obs []Observation, unmatched, overlapped []cell.Line) {
 	ttmax := lines[len(lines)-1].TwoTheta + 2
-	own := calcLines(c, o, zero, disp, ttmax)
+	own := calcLines(c, o, v, ttmax)
 	var std []calcLine
 	if o.Standard != nil {
-		std = calcLines(o.Standard.Cell, o, zero, disp, ttmax)
+		std = calcLines(o.Standard.Cell, o, v, ttmax)
 	}
 	for _, l := range lines {
 		w := math.Max(m.Tolerance, 3*l.ESD) + slack
-		a, da := nearestCalc(own, l.TwoTheta)
-		b, db := nearestCalc(std, l.TwoTheta)
+		a, da, na := nearestCalc(own, l.TwoTheta, w)
+		b, db, nb := nearestCalc(std, l.TwoTheta, w)
 		okA, okB := da <= w, db <= w
 		switch {
-		case okA && okB:
-			overlapped = append(overlapped, l)
+		case okA && okB, slack == 0 && na+nb > 1:
+			overlapped = append(overlapped, l.Line)
 			continue
 		case !okA && !okB:
-			unmatched = append(unmatched, l)
+			unmatched = append(unmatched, l.Line)
 			continue
 		}
-		ob := Observation{TwoTheta: l.TwoTheta, ESD: l.ESD, HKL: a.hkl}
+		ob := Observation{Line: l.Line, HKL: a.hkl, Excluded: l.Excluded}
 		if okB {
 			ob.HKL, ob.Standard = b.hkl, true
-		}
-		for _, x := range m.Exclude {
-			if math.Abs(x-l.TwoTheta) <= 0.02 {
-				ob.Excluded = true
-			}
 		}
 		obs = append(obs, ob)
 	}
 	return obs, unmatched, overlapped
+}
+
+// MatchStandard finds an internal standard's lines among observed lines:
+// the lines are assigned to the standard's calculated lines with the
+// standard's cell held and the corrections of opt (a zero shift when
+// none) fitted, with shrinking extra windows, until the assignment is
+// stable. It returns the standard's lines, marked Standard and indexed,
+// and the others. Fewer matched lines than corrections is an error.
+func MatchStandard(ctx context.Context, lines []cell.Line, std Standard, opt Options) (matched []Observation, rest []cell.Line, err error) {
+	o := opt.withDefaults()
+	o.Standard = &std
+	if o.Corrections == None {
+		o.Corrections = Zero
+	}
+	obs := make([]Observation, len(lines))
+	for i, l := range lines {
+		obs[i] = Observation{Line: l}
+	}
+	sort.SliceStable(obs, func(i, j int) bool { return obs[i].TwoTheta < obs[j].TwoTheta })
+	if len(obs) == 0 {
+		return nil, nil, fmt.Errorf("refine: no lines to find the standard %s in: %w", std.Name, ErrTooFew)
+	}
+	plain := o
+	plain.Standard = nil
+	var v shifts
+	var prev []Observation
+	for pass := 0; pass < 12; pass++ {
+		slack := 0.0
+		if pass < len(startSlack) {
+			slack = startSlack[pass]
+		}
+		found, unmatched, _ := assign(std.Cell, obs, plain, v, Matching{Tolerance: cell.MatchTolerance}, slack)
+		for i := range found {
+			found[i].Standard = true
+		}
+		if pass >= len(startSlack) && sameAssignment(found, prev) {
+			return found, unmatched, nil
+		}
+		idx := make([]int, len(found))
+		for i := range idx {
+			idx[i] = i
+		}
+		_, nv, _, err := fitStandard(ctx, o, found, idx)
+		if err != nil {
+			return nil, nil, fmt.Errorf("refine: the standard %s's lines were not found among the observed ones: %w", std.Name, err)
+		}
+		v, prev = nv, found
+		rest = unmatched
+	}
+	return prev, rest, nil
 }

@@ -5,7 +5,7 @@ import (
 
 	"gonum.org/v1/gonum/stat/distuv"
 
-	"reticle/indexing"
+	"reticle/cell"
 )
 
 // DefaultRadius is the goniometer radius assumed when none is given, in
@@ -24,21 +24,18 @@ type Options struct {
 	// Wavelength of the lines' radiation in Å (K-alpha1 for a doublet).
 	// Required.
 	Wavelength float64
-	// Zero refines a constant zero shift Δ2θ₀ added to every calculated
-	// angle.
-	Zero bool
-	// Displacement refines the sample displacement s, mm, which shifts
-	// each line by −2·s·cos θ/R.
-	Displacement bool
+	// Corrections are the instrument corrections refined with the cell
+	// (or, with a Standard, fixed by the standard's lines). The zero
+	// value refines none.
+	Corrections Corrections
 	// Radius is the goniometer radius R in mm. Zero means DefaultRadius.
 	Radius float64
 	// FlagLimit is the |Δ/σ| above which a line is flagged. Zero means
 	// DefaultFlagLimit.
 	FlagLimit float64
 	// Standard, when set, is an internal standard mixed into the sample:
-	// the observations marked Standard fix the correction curve (Zero
-	// and/or Displacement, at least one required) with the standard's
-	// cell held at its stated value.
+	// the observations marked Standard fix the corrections (at least one
+	// required) with the standard's cell held at its stated value.
 	Standard *Standard
 	// Scaling chooses when the covariance is multiplied by the reduced
 	// χ². The zero value is ScaleSignificant.
@@ -46,6 +43,9 @@ type Options struct {
 	// MaxIterations bounds the Gauss–Newton iterations. Zero means 100.
 	MaxIterations int
 }
+
+// Resolved returns the options with every zero field at its default.
+func (o Options) Resolved() Options { return o.withDefaults() }
 
 func (o Options) withDefaults() Options {
 	if o.Radius == 0 {
@@ -62,11 +62,10 @@ func (o Options) withDefaults() Options {
 
 // An Observation is one observed line with its assignment.
 type Observation struct {
-	TwoTheta float64 // observed K-alpha1 position, degrees 2θ
-	ESD      float64 // esd of the position, degrees 2θ; must be > 0
+	cell.Line // position and esd, degrees 2θ; the esd must be > 0
 	// HKL are the indices of the calculated line it matches: several
 	// when reflections coincide; the first is used in the model.
-	HKL []indexing.HKL
+	HKL []cell.HKL
 	// Standard marks a line of the internal standard.
 	Standard bool
 	// Excluded lines take no part in the fit; their residuals are still
@@ -114,7 +113,20 @@ func ParseScaling(name string) (Scaling, error) {
 			return Scaling(i), nil
 		}
 	}
-	return 0, fmt.Errorf("refine: unknown scaling %q (want significant, above-one, always or never)", name)
+	return 0, fmt.Errorf("unknown scaling %q (want significant, above-one, always or never)", name)
+}
+
+// MarshalText writes the scaling's name.
+func (s Scaling) MarshalText() ([]byte, error) { return []byte(s.String()), nil }
+
+// UnmarshalText reads a scaling's name.
+func (s *Scaling) UnmarshalText(b []byte) error {
+	v, err := ParseScaling(string(b))
+	if err != nil {
+		return err
+	}
+	*s = v
+	return nil
 }
 
 // scale reports whether a fit with χ² over dof degrees of freedom has its

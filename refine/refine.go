@@ -8,14 +8,14 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
-	"reticle/indexing"
+	"reticle/cell"
 )
 
 // Refine refines cell against the observations. The cell gives the
 // system, the centring and the starting parameters; observations marked
 // Standard belong to Options.Standard and the rest to the cell. The
 // context cancels the work.
-func Refine(ctx context.Context, cell indexing.Cell, obs []Observation, opt Options) (*Result, error) {
+func Refine(ctx context.Context, c cell.Cell, obs []Observation, opt Options) (*Result, error) {
 	opt = opt.withDefaults()
 	if !(opt.Wavelength > 0) || math.IsInf(opt.Wavelength, 0) {
 		return nil, fmt.Errorf("refine: %w: wavelength %g Å", ErrOptions, opt.Wavelength)
@@ -23,18 +23,15 @@ func Refine(ctx context.Context, cell indexing.Cell, obs []Observation, opt Opti
 	if !(opt.Radius > 0) || math.IsInf(opt.Radius, 0) {
 		return nil, fmt.Errorf("refine: %w: goniometer radius %g mm", ErrOptions, opt.Radius)
 	}
-	p0 := cellValues(cell)
-	for i, v := range p0 {
-		if !(v > 0) || math.IsInf(v, 0) {
-			return nil, fmt.Errorf("refine: %w: %s = %g Å", ErrCell, cellParams(cell.System)[i], v)
-		}
+	if err := c.Check(); err != nil {
+		return nil, fmt.Errorf("refine: %w: %v", ErrCell, err)
 	}
 	var own, std []int
 	for i, o := range obs {
 		if !(o.ESD > 0) || math.IsInf(o.ESD, 0) || math.IsNaN(o.TwoTheta) {
 			return nil, fmt.Errorf("refine: line %d at %.4f°: %w (got %g)", i+1, o.TwoTheta, ErrBadESD, o.ESD)
 		}
-		if len(o.HKL) == 0 || o.HKL[0] == (indexing.HKL{}) {
+		if len(o.HKL) == 0 || o.HKL[0] == (cell.HKL{}) {
 			return nil, fmt.Errorf("refine: line %d at %.4f°: %w: no hkl", i+1, o.TwoTheta, ErrCell)
 		}
 		if o.Standard {
@@ -46,82 +43,55 @@ func Refine(ctx context.Context, cell indexing.Cell, obs []Observation, opt Opti
 			own = append(own, i)
 		}
 	}
-	res := &Result{Radius: opt.Radius, Wavelength: opt.Wavelength, FlagLimit: opt.FlagLimit, Scaling: opt.Scaling}
-	zero, disp := 0.0, 0.0
+	res := &Result{Radius: opt.Radius, Wavelength: opt.Wavelength, FlagLimit: opt.FlagLimit, Scaling: opt.Scaling, Corrections: opt.Corrections}
+	var corr shifts
 	var corrCov *mat.SymDense
-	var corrNames []string
 	if opt.Standard != nil {
-		if !opt.Zero && !opt.Displacement {
-			return nil, fmt.Errorf("refine: %w: an internal standard fixes the zero shift and/or the displacement; choose at least one", ErrOptions)
+		if opt.Corrections == None {
+			return nil, fmt.Errorf("refine: %w: an internal standard fixes the instrument corrections; choose at least one", ErrOptions)
 		}
-		sf, z, d, cc, names, err := fitStandard(ctx, opt, obs, std)
+		sf, v, cc, err := fitStandard(ctx, opt, obs, std)
 		if err != nil {
 			return nil, err
 		}
 		res.StandardFit = sf
-		zero, disp, corrCov, corrNames = z, d, cc, names
+		corr, corrCov = v, cc
 	}
 
-	// The unknown phase: cell parameters, and the corrections unless a
-	// standard fixed them.
-	refZero := opt.Zero && opt.Standard == nil
-	refDisp := opt.Displacement && opt.Standard == nil
+	// The unknown phase: the free reciprocal coefficients, and the
+	// corrections unless a standard fixed them.
+	refined := opt.Corrections
+	if opt.Standard != nil {
+		refined = None
+	}
 	fitted := make([]int, 0, len(own))
 	for _, i := range own {
 		if !obs[i].Excluded {
 			fitted = append(fitted, i)
 		}
 	}
-	np := len(p0)
-	names := cellParams(cell.System)
-	x0 := append([]float64(nil), p0...)
-	if refZero {
-		names = append(names, "zero")
-		x0 = append(x0, 0)
-	}
-	if refDisp {
-		names = append(names, "displacement")
-		x0 = append(x0, 0)
-	}
+	m := newModel(c.System, opt.Wavelength, opt.Radius)
+	r0 := start(c)
+	nr := len(r0)
+	x0 := append(append([]float64(nil), r0...), make([]float64, refined.Count())...)
 	if len(fitted) < len(x0) {
-		return nil, fmt.Errorf("refine: %d lines for %d parameters: %w", len(fitted), len(x0), ErrTooFew)
+		return nil, fmt.Errorf("refine: %d lines for %d parameters (%s cell, corrections %s): %w", len(fitted), len(x0), c.System, refined, ErrTooFew)
 	}
-	unpack := func(x []float64) (p []float64, z, d float64) {
-		p, z, d = x[:np], zero, disp
-		k := np
-		if refZero {
-			z = x[k]
-			k++
-		}
-		if refDisp {
-			d = x[k]
-		}
-		return
-	}
+	row := make([]float64, 0, nCorr)
 	f := func(x, r []float64, j *mat.Dense) error {
-		p, z, d := unpack(x)
-		for _, v := range p {
-			if !(v > 0) {
-				return ErrCell
-			}
-		}
-		for row, i := range fitted {
+		v := refined.unpack(x[nr:], corr)
+		for k, i := range fitted {
 			o := obs[i]
-			pt := eval(cell.System, p, o.HKL[0], opt.Wavelength, z, d, opt.Radius)
+			pt := m.eval(x[:nr], o.HKL[0], v)
 			if !pt.inside {
 				return fmt.Errorf("refine: line at %.4f° (%v): %w", o.TwoTheta, o.HKL[0], ErrUnreachable)
 			}
-			r[row] = (o.TwoTheta - pt.tt) / o.ESD
-			for c := 0; c < np; c++ {
-				j.Set(row, c, pt.dCell[c]/o.ESD)
+			r[k] = (o.TwoTheta - pt.tt) / o.ESD
+			for col, d := range pt.dR {
+				j.Set(k, col, d/o.ESD)
 			}
-			k := np
-			if refZero {
-				j.Set(row, k, pt.dZero/o.ESD)
-				k++
-			}
-			if refDisp {
-				j.Set(row, k, pt.dDisp/o.ESD)
+			for col, d := range refined.row(row[:0], pt.dCorr) {
+				j.Set(k, nr+col, d/o.ESD)
 			}
 		}
 		return nil
@@ -131,10 +101,15 @@ func Refine(ctx context.Context, cell indexing.Cell, obs []Observation, opt Opti
 		if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
 			return nil, err
 		}
-		return nil, fmt.Errorf("refine: %s %s from %d lines: %w", cell.System, cell.Centring, len(fitted), err)
+		return nil, fmt.Errorf("refine: %s %s from %d lines: %w", c.System, c.Centring, len(fitted), err)
 	}
-	p, z, d := unpack(x)
-	res.N, res.DOF, res.Chi2 = len(fitted), len(fitted)-len(x), chi2
+	rc, v := x[:nr], refined.unpack(x[nr:], corr)
+	rc = append([]float64(nil), rc...)
+	refinedCell, err := m.cellOf(rc, c.Centring)
+	if err != nil {
+		return nil, fmt.Errorf("refine: %s %s: %w", c.System, c.Centring, err)
+	}
+	res.Fitted, res.DOF, res.Chi2 = len(fitted), len(fitted)-len(x), chi2
 	if res.DOF > 0 {
 		res.Chi2Reduced = chi2 / float64(res.DOF)
 	} else {
@@ -146,22 +121,18 @@ func Refine(ctx context.Context, cell indexing.Cell, obs []Observation, opt Opti
 		cov.ScaleSym(res.Chi2Reduced, cov)
 		res.Scaled = true
 	}
-
-	// Covariance of everything reported: the unknown's parameters, then
-	// the corrections fixed by a standard with their effect on the cell.
+	// Covariance of everything reported: the cell's coefficients, then
+	// the corrections (refined, or fixed by a standard with their effect
+	// on the cell).
 	full := cov
 	if corrCov != nil {
-		full = propagateStandard(cell.System, p, z, d, obs, fitted, opt, unscaled, cov, corrCov)
-		names = append(names, corrNames...)
+		full = propagateStandard(m, rc, v, obs, fitted, opt.Corrections, unscaled, cov, corrCov)
 	}
-	res.Cell = buildCell(cell.System, cell.Centring, p)
-	res.Zero, res.Displacement = z, d
-	res.ZeroRefined, res.DisplacementRefined = opt.Zero, opt.Displacement
-	fillParams(res, names, full, corrCov != nil, np)
-	res.Volume, res.VolumeESD = volumeESD(res.Cell, full, np)
-
+	res.Cell = refinedCell
+	res.shifts = v
+	res.fill(full, nr, opt.Standard != nil)
 	for _, i := range own {
-		rr := residual(cell.System, p, obs[i], opt, z, d)
+		rr := residual(m, rc, obs[i], v, opt.FlagLimit)
 		if rr.Flagged && !rr.Excluded {
 			res.Flagged++
 		}
@@ -175,69 +146,94 @@ func Refine(ctx context.Context, cell indexing.Cell, obs []Observation, opt Opti
 }
 
 // residual computes one line's residual under the refined model.
-func residual(s indexing.System, p []float64, o Observation, opt Options, zero, disp float64) Residual {
-	pt := eval(s, p, o.HKL[0], opt.Wavelength, zero, disp, opt.Radius)
-	r := Residual{Observation: o, TwoThetaCalc: pt.tt, Delta: o.TwoTheta - pt.tt}
-	r.Norm = r.Delta / o.ESD
-	r.Flagged = math.Abs(r.Norm) > opt.FlagLimit
-	return r
+func residual(m *model, r []float64, o Observation, v shifts, limit float64) Residual {
+	pt := m.eval(r, o.HKL[0], v)
+	rr := Residual{Observation: o, TwoThetaCalc: pt.tt, Delta: o.TwoTheta - pt.tt}
+	rr.Sigmas = rr.Delta / o.ESD
+	rr.Flagged = math.Abs(rr.Sigmas) > limit
+	return rr
 }
 
-// fillParams sets the parameters, their esds and the correlation matrix.
-func fillParams(res *Result, names []string, cov *mat.SymDense, fixedCorr bool, np int) {
-	n := len(names)
-	res.Covariance = make([][]float64, n)
-	res.Correlation = make([][]float64, n)
-	for i := 0; i < n; i++ {
-		res.Covariance[i] = make([]float64, n)
-		res.Correlation[i] = make([]float64, n)
-		for j := 0; j < n; j++ {
-			res.Covariance[i][j] = cov.At(i, j)
-			res.Correlation[i][j] = cov.At(i, j) / math.Sqrt(cov.At(i, i)*cov.At(j, j))
+// fill sets the cell's covariance and esds, the parameters and their
+// correlations from the covariance of (coefficients, corrections); the
+// first nr rows are the cell's free reciprocal coefficients.
+func (res *Result) fill(cov *mat.SymDense, nr int, fromStandard bool) {
+	n := cov.SymmetricDim()
+	j6 := res.Cell.ReciprocalToDirect() // 6 × nr
+	free := res.Cell.System.FreeNames()
+	idx := make([]int, len(free)) // rows of j6 that are free parameters
+	for k, name := range free {
+		for i, pn := range cell.ParamNames {
+			if pn == name {
+				idx[k] = i
+			}
 		}
 	}
-	esd := func(i int) float64 { return math.Sqrt(cov.At(i, i)) }
-	for i, name := range names {
-		pr := Param{Name: name, ESD: esd(i), Fixed: fixedCorr && i >= np}
-		switch name {
-		case "a":
-			pr.Value, pr.Unit = res.Cell.A, "Å"
-		case "b":
-			pr.Value, pr.Unit = res.Cell.B, "Å"
-		case "c":
-			pr.Value, pr.Unit = res.Cell.C, "Å"
-		case "zero":
-			pr.Value, pr.Unit = res.Zero, "° 2θ"
-			res.ZeroESD = pr.ESD
-		case "displacement":
-			pr.Value, pr.Unit = res.Displacement, "mm"
-			res.DisplacementESD = pr.ESD
+	// K maps (coefficients, corrections) to (free cell parameters,
+	// corrections).
+	nc := n - nr
+	np := len(free) + nc
+	k := mat.NewDense(np, n, nil)
+	for a, i := range idx {
+		for b := 0; b < nr; b++ {
+			k.Set(a, b, j6[i][b])
 		}
-		res.Params = append(res.Params, pr)
 	}
-	e := CellESD{A: esd(0)}
-	switch res.Cell.System {
-	case indexing.Cubic:
-		e.B, e.C = e.A, e.A
-	case indexing.Orthorhombic:
-		e.B, e.C = esd(1), esd(2)
-	default:
-		e.B, e.C = e.A, esd(1)
+	for c := 0; c < nc; c++ {
+		k.Set(len(free)+c, nr+c, 1)
 	}
-	res.CellESD = e
-}
-
-// volumeESD propagates the covariance of the first np parameters to the
-// volume.
-func volumeESD(c indexing.Cell, cov *mat.SymDense, np int) (float64, float64) {
-	v, g := volumeGradient(c)
-	var s float64
+	var kc, out mat.Dense
+	kc.Mul(k, cov)
+	out.Mul(&kc, k.T())
+	// Six-parameter covariance of the cell.
+	for i := 0; i < 6; i++ {
+		for j := 0; j < 6; j++ {
+			var s float64
+			for a := 0; a < nr; a++ {
+				for b := 0; b < nr; b++ {
+					s += j6[i][a] * cov.At(a, b) * j6[j][b]
+				}
+			}
+			res.Covariance[i][j] = s
+		}
+	}
+	res.ESD = res.Covariance.ESD()
+	res.Volume = res.Cell.Volume()
+	res.VolumeESD = res.Cell.VolumeESD(res.Covariance)
+	res.ParamCovariance = make([][]float64, np)
+	res.Correlation = make([][]float64, np)
 	for i := 0; i < np; i++ {
+		res.ParamCovariance[i] = make([]float64, np)
+		res.Correlation[i] = make([]float64, np)
 		for j := 0; j < np; j++ {
-			s += g[i] * cov.At(i, j) * g[j]
+			res.ParamCovariance[i][j] = out.At(i, j)
+			res.Correlation[i][j] = out.At(i, j) / math.Sqrt(out.At(i, i)*out.At(j, j))
 		}
 	}
-	return v, math.Sqrt(s)
+	p := res.Cell.Params()
+	for a, i := range idx {
+		unit := "Å"
+		if i >= 3 {
+			unit = "°"
+		}
+		res.Params = append(res.Params, Param{Name: free[a], Unit: unit, Value: p[i], ESD: math.Sqrt(out.At(a, a))})
+	}
+	names, units := res.Corrections.names()
+	for c := range names {
+		e := math.Sqrt(out.At(len(free)+c, len(free)+c))
+		res.Params = append(res.Params, Param{Name: names[c], Unit: units[c], Value: res.shifts[corrIndex(names[c])], ESD: e, Fixed: fromStandard})
+		res.shiftESDs[corrIndex(names[c])] = e
+	}
+}
+
+// corrIndex returns the position of a correction in shifts.
+func corrIndex(name string) int {
+	for i, x := range corrNames {
+		if x.name == name {
+			return i
+		}
+	}
+	return -1
 }
 
 // correlationWarnings names pairs of parameters that correlate strongly.

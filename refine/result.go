@@ -5,14 +5,14 @@ import (
 	"math"
 	"strings"
 
-	"reticle/indexing"
-	"reticle/peaks"
+	"reticle/cell"
+	"reticle/esd"
 )
 
 // A Param is one refined parameter.
 type Param struct {
-	Name  string  // "a", "b", "c", "zero" or "displacement"
-	Unit  string  // "Å", "° 2θ" or "mm"
+	Name  string  // a, b, c, alpha, beta, gamma, zero, displacement or transparency
+	Unit  string  // "Å", "°", "° 2θ" or "mm"
 	Value float64 // refined value
 	ESD   float64 // standard uncertainty
 	// Fixed is set for corrections taken from an internal standard
@@ -22,7 +22,7 @@ type Param struct {
 
 // String prints the parameter in crystallographic notation.
 func (p Param) String() string {
-	return fmt.Sprintf("%s = %s %s", p.Name, peaks.FormatESD(p.Value, p.ESD), p.Unit)
+	return fmt.Sprintf("%s = %s %s", p.Name, esd.Format(p.Value, p.ESD), p.Unit)
 }
 
 // A Residual is one line after the refinement.
@@ -30,35 +30,32 @@ type Residual struct {
 	Observation
 	TwoThetaCalc float64 // calculated, corrections included, degrees 2θ
 	Delta        float64 // observed − calculated, degrees 2θ
-	Norm         float64 // Δ/σ with the line's own esd
+	Sigmas       float64 // Δ/σ with the line's own esd
 	Flagged      bool    // |Δ/σ| above the flag limit
 }
 
-// CellESD holds the standard uncertainties of a cell's edges (Å) and
-// angles (degrees); fixed angles have zero uncertainty.
-type CellESD = indexing.CellESD
-
 // A Result is a refined cell with its uncertainties.
 type Result struct {
-	Cell      indexing.Cell
-	CellESD   CellESD
-	Volume    float64 // Å³
-	VolumeESD float64 // Å³
+	Cell       cell.Cell
+	ESD        cell.ESD
+	Covariance cell.Covariance // of the six cell parameters, scaled as the package doc says
+	Volume     float64         // Å³
+	VolumeESD  float64         // Å³, from the full covariance
 
-	Zero, ZeroESD                    float64 // degrees 2θ; zero when not refined
-	Displacement, DisplacementESD    float64 // mm; zero when not refined
-	ZeroRefined, DisplacementRefined bool
-	Radius                           float64 // goniometer radius used, mm
-	Wavelength                       float64 // Å
+	// Corrections are those refined (or, with a standard, fixed by it);
+	// their values are read with Zero, Displacement and Transparency.
+	Corrections        Corrections
+	shifts, shiftESDs  shifts
+	Radius, Wavelength float64 // goniometer radius used (mm), Å
 
-	// Params lists the parameters in the order of Covariance and
-	// Correlation.
-	Params      []Param
-	Covariance  [][]float64 // scaled as the package doc says
-	Correlation [][]float64
+	// Params lists the free cell parameters and the corrections, in the
+	// order of ParamCovariance and Correlation.
+	Params          []Param
+	ParamCovariance [][]float64
+	Correlation     [][]float64
 
-	N           int     // lines in the fit (unknown phase)
-	DOF         int     // N − refined parameters
+	Fitted      int     // lines in the fit (unknown phase)
+	DOF         int     // Fitted − refined parameters
 	Chi2        float64 // Σ (Δ/σ)² over the fitted lines
 	Chi2Reduced float64 // Chi2/DOF; zero when DOF = 0
 	Scaled      bool    // covariance multiplied by Chi2Reduced
@@ -75,16 +72,26 @@ type Result struct {
 	// Unmatched and Overlapped are set by RefineLines: observed lines
 	// that match no calculated line, and lines that match both the cell
 	// and the internal standard (left out).
-	Unmatched, Overlapped []indexing.Line
+	Unmatched, Overlapped []cell.Line
 
 	Warnings []string
 }
+
+// Zero, Displacement and Transparency return a correction's value and
+// esd (zero when not refined): degrees 2θ, mm and mm.
+func (r *Result) Zero() (float64, float64) { return r.shifts[0], r.shiftESDs[0] }
+
+// Displacement returns the sample displacement and its esd in mm.
+func (r *Result) Displacement() (float64, float64) { return r.shifts[1], r.shiftESDs[1] }
+
+// Transparency returns the transparency depth and its esd in mm.
+func (r *Result) Transparency() (float64, float64) { return r.shifts[2], r.shiftESDs[2] }
 
 // A StandardFit is the correction curve fixed by an internal standard.
 type StandardFit struct {
 	Standard    Standard
 	Residuals   []Residual
-	N, DOF      int
+	Fitted, DOF int
 	Chi2Reduced float64
 	Scaled      bool
 }
@@ -105,14 +112,15 @@ func (r *Result) String() string {
 	for _, p := range r.Params {
 		parts = append(parts, p.String())
 	}
-	parts = append(parts, fmt.Sprintf("V = %s Å³", peaks.FormatESD(r.Volume, r.VolumeESD)))
-	return fmt.Sprintf("%s %s: %s; χ²_red = %.3g over %d lines", r.Cell.System, r.Cell.Centring, strings.Join(parts, ", "), r.Chi2Reduced, r.N)
+	parts = append(parts, fmt.Sprintf("V = %s Å³", esd.Format(r.Volume, r.VolumeESD)))
+	return fmt.Sprintf("%s %s: %s; χ²_red = %.3g over %d lines", r.Cell.System, r.Cell.Centring, strings.Join(parts, ", "), r.Chi2Reduced, r.Fitted)
 }
 
 // Position returns the calculated 2θ, degrees, of reflection hkl under the
 // refined cell and corrections; NaN beyond 180°.
-func (r *Result) Position(hkl indexing.HKL) float64 {
-	pt := eval(r.Cell.System, cellValues(r.Cell), hkl, r.Wavelength, r.Zero, r.Displacement, r.Radius)
+func (r *Result) Position(h cell.HKL) float64 {
+	m := newModel(r.Cell.System, r.Wavelength, r.Radius)
+	pt := m.eval(start(r.Cell), h, r.shifts)
 	if !pt.inside {
 		return math.NaN()
 	}

@@ -71,19 +71,41 @@ func leastSquares(ctx context.Context, n int, x0 []float64, f residualFunc, maxI
 		j.Copy(jt)
 		chi2 = sumSq(r)
 	}
+	// Columns scaled to unit length, so that the condition number
+	// measures how far the parameters are from being undetermined, not
+	// the ratio of their units.
+	scale := make([]float64, p)
+	for c := 0; c < p; c++ {
+		scale[c] = mat.Norm(j.ColView(c), 2)
+		if !(scale[c] > 0) {
+			return nil, 0, nil, fmt.Errorf("%w (parameter %d has no effect on the lines)", ErrSingular, c+1)
+		}
+	}
+	js := mat.NewDense(n, p, nil)
+	for c := 0; c < p; c++ {
+		for i := 0; i < n; i++ {
+			js.Set(i, c, j.At(i, c)/scale[c])
+		}
+	}
 	var jtj mat.SymDense
-	jtj.SymOuterK(1, j.T())
+	jtj.SymOuterK(1, js.T())
 	var ch mat.Cholesky
 	if ok := ch.Factorize(&jtj); !ok {
 		return nil, 0, nil, ErrSingular
 	}
 	// The factorisation's own estimate of the condition number.
-	if c := ch.Cond(); c > 1e14 || math.IsNaN(c) {
+	if c := ch.Cond(); c > 1e12 || math.IsNaN(c) {
 		return nil, 0, nil, fmt.Errorf("%w (condition number %.2g)", ErrSingular, c)
 	}
-	cov = mat.NewSymDense(p, nil)
-	if err := ch.InverseTo(cov); err != nil {
+	inv := mat.NewSymDense(p, nil)
+	if err := ch.InverseTo(inv); err != nil {
 		return nil, 0, nil, fmt.Errorf("%w: %v", ErrSingular, err)
+	}
+	cov = mat.NewSymDense(p, nil)
+	for a := 0; a < p; a++ {
+		for b := a; b < p; b++ {
+			cov.SetSym(a, b, inv.At(a, b)/(scale[a]*scale[b]))
+		}
 	}
 	return x, chi2, cov, nil
 }

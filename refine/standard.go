@@ -8,13 +8,13 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
-	"reticle/indexing"
+	"reticle/cell"
 )
 
 // A Standard is a reference material of known cell mixed into a sample.
 type Standard struct {
 	Name   string
-	Cell   indexing.Cell
+	Cell   cell.Cell
 	AESD   float64 // stated uncertainty of a, Å (not propagated: it is far below that of line positions)
 	Source string
 }
@@ -25,13 +25,13 @@ type Standard struct {
 // 22.5 °C. Values are from memory of the certificates; check them against
 // the certificate of the lot in use, or type the cell in.
 var Standards = []Standard{
-	{Name: "Si-640c", Cell: indexing.NewCell(indexing.Cubic, indexing.F, 5.4311946, 0), AESD: 0.0000092,
+	{Name: "Si-640c", Cell: cell.Must(cell.Cubic, cell.F, 5.4311946), AESD: 0.0000092,
 		Source: "NIST SRM 640c certificate, a = 0.54311946(92) nm at 22.5 °C (from memory)"},
-	{Name: "Si-640d", Cell: indexing.NewCell(indexing.Cubic, indexing.F, 5.43123, 0), AESD: 0.00008,
+	{Name: "Si-640d", Cell: cell.Must(cell.Cubic, cell.F, 5.43123), AESD: 0.00008,
 		Source: "NIST SRM 640d certificate, a = 0.543123(8) nm at 22.5 °C (from memory)"},
-	{Name: "LaB6-660a", Cell: indexing.NewCell(indexing.Cubic, indexing.P, 4.1569162, 0), AESD: 0.0000097,
+	{Name: "LaB6-660a", Cell: cell.Must(cell.Cubic, cell.P, 4.1569162), AESD: 0.0000097,
 		Source: "NIST SRM 660a certificate, a = 0.41569162(97) nm at 22.5 °C (from memory)"},
-	{Name: "LaB6-660c", Cell: indexing.NewCell(indexing.Cubic, indexing.P, 4.156826, 0), AESD: 0.000008,
+	{Name: "LaB6-660c", Cell: cell.Must(cell.Cubic, cell.P, 4.156826), AESD: 0.000008,
 		Source: "NIST SRM 660c certificate, a = 0.4156826(8) nm at 22.5 °C (from memory)"},
 }
 
@@ -54,18 +54,16 @@ func LookupStandard(name string) (Standard, error) {
 		names = append(names, s.Name)
 	}
 	sort.Strings(names)
-	return Standard{}, fmt.Errorf("refine: unknown standard %q (built in: Si, LaB6, %s; or give its cell)", name, strings.Join(names, ", "))
+	return Standard{}, fmt.Errorf("unknown standard %q (built in: Si, LaB6, %s; or give its cell, e.g. 'cubic F a=5.43119')", name, strings.Join(names, ", "))
 }
 
-// fitStandard fits the corrections to the standard's lines with its cell
-// fixed, returning the fit, the corrections, their covariance and names.
-func fitStandard(ctx context.Context, opt Options, obs []Observation, idx []int) (*StandardFit, float64, float64, *mat.SymDense, []string, error) {
+// fitStandard fits the corrections of opt to the standard's lines with
+// its cell fixed, returning the fit, the corrections and their
+// covariance.
+func fitStandard(ctx context.Context, opt Options, obs []Observation, idx []int) (*StandardFit, shifts, *mat.SymDense, error) {
 	st := opt.Standard
-	p := cellValues(st.Cell)
-	for _, v := range p {
-		if !(v > 0) {
-			return nil, 0, 0, nil, nil, fmt.Errorf("refine: standard %s: %w", st.Name, ErrCell)
-		}
+	if err := st.Cell.Check(); err != nil {
+		return nil, shifts{}, nil, fmt.Errorf("refine: standard %s: %w: %v", st.Name, ErrCell, err)
 	}
 	var fitted []int
 	for _, i := range idx {
@@ -73,53 +71,34 @@ func fitStandard(ctx context.Context, opt Options, obs []Observation, idx []int)
 			fitted = append(fitted, i)
 		}
 	}
-	var names []string
-	if opt.Zero {
-		names = append(names, "zero")
+	set := opt.Corrections
+	if len(fitted) < set.Count() {
+		return nil, shifts{}, nil, fmt.Errorf("refine: standard %s: %d lines for %d corrections (%s): %w", st.Name, len(fitted), set.Count(), set, ErrTooFew)
 	}
-	if opt.Displacement {
-		names = append(names, "displacement")
-	}
-	if len(fitted) < len(names) {
-		return nil, 0, 0, nil, nil, fmt.Errorf("refine: standard %s: %d lines for %d corrections: %w", st.Name, len(fitted), len(names), ErrTooFew)
-	}
-	unpack := func(x []float64) (z, d float64) {
-		k := 0
-		if opt.Zero {
-			z = x[k]
-			k++
-		}
-		if opt.Displacement {
-			d = x[k]
-		}
-		return
-	}
-	f := func(x, r []float64, j *mat.Dense) error {
-		z, d := unpack(x)
-		for row, i := range fitted {
+	m := newModel(st.Cell.System, opt.Wavelength, opt.Radius)
+	r := start(st.Cell)
+	row := make([]float64, 0, nCorr)
+	f := func(x, res []float64, j *mat.Dense) error {
+		v := set.unpack(x, shifts{})
+		for k, i := range fitted {
 			o := obs[i]
-			pt := eval(st.Cell.System, p, o.HKL[0], opt.Wavelength, z, d, opt.Radius)
+			pt := m.eval(r, o.HKL[0], v)
 			if !pt.inside {
 				return fmt.Errorf("refine: standard line at %.4f° (%v): %w", o.TwoTheta, o.HKL[0], ErrUnreachable)
 			}
-			r[row] = (o.TwoTheta - pt.tt) / o.ESD
-			k := 0
-			if opt.Zero {
-				j.Set(row, k, 1/o.ESD)
-				k++
-			}
-			if opt.Displacement {
-				j.Set(row, k, pt.dDisp/o.ESD)
+			res[k] = (o.TwoTheta - pt.tt) / o.ESD
+			for col, d := range set.row(row[:0], pt.dCorr) {
+				j.Set(k, col, d/o.ESD)
 			}
 		}
 		return nil
 	}
-	x, chi2, cov, err := leastSquares(ctx, len(fitted), make([]float64, len(names)), f, opt.MaxIterations)
+	x, chi2, cov, err := leastSquares(ctx, len(fitted), make([]float64, set.Count()), f, opt.MaxIterations)
 	if err != nil {
-		return nil, 0, 0, nil, nil, fmt.Errorf("refine: standard %s from %d lines: %w", st.Name, len(fitted), err)
+		return nil, shifts{}, nil, fmt.Errorf("refine: standard %s from %d lines: %w", st.Name, len(fitted), err)
 	}
-	z, d := unpack(x)
-	sf := &StandardFit{Standard: *st, N: len(fitted), DOF: len(fitted) - len(names)}
+	v := set.unpack(x, shifts{})
+	sf := &StandardFit{Standard: *st, Fitted: len(fitted), DOF: len(fitted) - set.Count()}
 	if sf.DOF > 0 {
 		sf.Chi2Reduced = chi2 / float64(sf.DOF)
 	}
@@ -128,60 +107,88 @@ func fitStandard(ctx context.Context, opt Options, obs []Observation, idx []int)
 		sf.Scaled = true
 	}
 	for _, i := range idx {
-		sf.Residuals = append(sf.Residuals, residual(st.Cell.System, p, obs[i], opt, z, d))
+		sf.Residuals = append(sf.Residuals, residual(m, r, obs[i], v, opt.FlagLimit))
 	}
-	return sf, z, d, cov, names, nil
+	return sf, v, cov, nil
 }
 
 // propagateStandard builds the joint covariance of the unknown's cell
-// parameters and the corrections fixed by the standard; inv is the
-// unknown's unscaled (JₓᵀJₓ)⁻¹ and cx its covariance as reported. With x̂ the cell
-// minimising the unknown's χ² at corrections c, dx̂/dc = −(JₓᵀJₓ)⁻¹JₓᵀJ_c
-// (weighted Jacobians), so
+// coefficients r and the corrections fixed by the standard; inv is the
+// unknown's unscaled (JᵣᵀJᵣ)⁻¹ and cr its covariance as reported. With r̂
+// the coefficients minimising the unknown's χ² at corrections c,
+// dr̂/dc = −(JᵣᵀJᵣ)⁻¹JᵣᵀJ_c (weighted Jacobians), so
 //
-//	cov = [[Cₓ + K C_c Kᵀ, K C_c], [C_c Kᵀ, C_c]],  K = dx̂/dc.
-func propagateStandard(s indexing.System, p []float64, zero, disp float64, obs []Observation, fitted []int, opt Options, inv, cx, cc *mat.SymDense) *mat.SymDense {
-	np, nc := len(p), cc.SymmetricDim()
-	jx := mat.NewDense(len(fitted), np, nil)
+//	cov = [[Cᵣ + K C_c Kᵀ, K C_c], [C_c Kᵀ, C_c]],  K = dr̂/dc.
+func propagateStandard(m *model, r []float64, v shifts, obs []Observation, fitted []int, set Corrections, inv, cr, cc *mat.SymDense) *mat.SymDense {
+	nr, nc := len(r), cc.SymmetricDim()
+	jr := mat.NewDense(len(fitted), nr, nil)
 	jc := mat.NewDense(len(fitted), nc, nil)
-	for row, i := range fitted {
+	row := make([]float64, 0, nCorr)
+	for k, i := range fitted {
 		o := obs[i]
-		pt := eval(s, p, o.HKL[0], opt.Wavelength, zero, disp, opt.Radius)
-		for c := 0; c < np; c++ {
-			jx.Set(row, c, pt.dCell[c]/o.ESD)
+		pt := m.eval(r, o.HKL[0], v)
+		for c, d := range pt.dR {
+			jr.Set(k, c, d/o.ESD)
 		}
-		k := 0
-		if opt.Zero {
-			jc.Set(row, k, 1/o.ESD)
-			k++
-		}
-		if opt.Displacement {
-			jc.Set(row, k, pt.dDisp/o.ESD)
+		for c, d := range set.row(row[:0], pt.dCorr) {
+			jc.Set(k, c, d/o.ESD)
 		}
 	}
-	// The unscaled inverse for K: the χ² scaling of Cₓ does not enter
+	// The unscaled inverse for K: the χ² scaling of Cᵣ does not enter
 	// the sensitivity.
 	var jtjc, k mat.Dense
-	jtjc.Mul(jx.T(), jc)
+	jtjc.Mul(jr.T(), jc)
 	k.Mul(inv, &jtjc)
 	k.Scale(-1, &k)
 	var kc, kck mat.Dense
 	kc.Mul(&k, cc)
 	kck.Mul(&kc, k.T())
-	n := np + nc
+	n := nr + nc
 	out := mat.NewSymDense(n, nil)
-	for i := 0; i < np; i++ {
-		for j := i; j < np; j++ {
-			out.SetSym(i, j, cx.At(i, j)+kck.At(i, j))
+	for i := 0; i < nr; i++ {
+		for j := i; j < nr; j++ {
+			out.SetSym(i, j, cr.At(i, j)+kck.At(i, j))
 		}
 		for j := 0; j < nc; j++ {
-			out.SetSym(i, np+j, kc.At(i, j))
+			out.SetSym(i, nr+j, kc.At(i, j))
 		}
 	}
 	for i := 0; i < nc; i++ {
 		for j := i; j < nc; j++ {
-			out.SetSym(np+i, np+j, cc.At(i, j))
+			out.SetSym(nr+i, nr+j, cc.At(i, j))
 		}
 	}
 	return out
+}
+
+// ParseStandard reads an internal standard: a built-in name (see
+// LookupStandard) or a typed cell such as "cubic F a=5.43119(1)".
+func ParseStandard(s string) (Standard, error) {
+	if !strings.ContainsRune(s, '=') {
+		return LookupStandard(strings.TrimSpace(s))
+	}
+	c, e, err := cell.Parse(s)
+	if err != nil {
+		return Standard{}, err
+	}
+	return Standard{Name: cell.Format(c, e), Cell: c, AESD: e.A, Source: "typed cell"}, nil
+}
+
+// MarshalText writes the standard as ParseStandard reads it: its name,
+// or its cell for a typed one.
+func (s Standard) MarshalText() ([]byte, error) {
+	if _, err := LookupStandard(s.Name); err == nil {
+		return []byte(s.Name), nil
+	}
+	return []byte(cell.Format(s.Cell, cell.ESD{A: s.AESD})), nil
+}
+
+// UnmarshalText reads a standard as ParseStandard does.
+func (s *Standard) UnmarshalText(b []byte) error {
+	v, err := ParseStandard(string(b))
+	if err != nil {
+		return err
+	}
+	*s = v
+	return nil
 }

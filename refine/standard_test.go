@@ -6,12 +6,12 @@ import (
 	"math/rand/v2"
 	"testing"
 
-	"reticle/indexing"
+	"reticle/cell"
 )
 
 // mixture simulates an unknown phase with an internal standard: both
 // phases' lines carry the same zero shift and displacement.
-func mixture(unknown indexing.Cell, std Standard, zero, disp float64, rng *rand.Rand) []Observation {
+func mixture(unknown cell.Cell, std Standard, zero, disp float64, rng *rand.Rand) []Observation {
 	obs := synthLines(truth{cell: unknown, zero: zero, disp: disp, radius: 240}, rng)
 	for _, o := range synthLines(truth{cell: std.Cell, zero: zero, disp: disp, radius: 240}, rng) {
 		o.Standard = true
@@ -30,9 +30,9 @@ func TestStandard(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	rutile := indexing.NewCell(indexing.Tetragonal, indexing.P, 4.5937, 2.9587)
+	rutile := testCells[1]
 	rng := rand.New(rand.NewPCG(21, 4))
-	opt := Options{Wavelength: cuKa1, Zero: true, Displacement: true, Standard: &si}
+	opt := Options{Wavelength: cuKa1, Corrections: Zero | Displacement, Standard: &si}
 	draws := 1000
 	if testing.Short() {
 		draws = 100
@@ -47,17 +47,19 @@ func TestStandard(t *testing.T) {
 		}
 		if d == 0 {
 			z, _ := res.Param("zero")
-			if !z.Fixed || res.StandardFit == nil || res.StandardFit.N == 0 {
+			if !z.Fixed || res.StandardFit == nil || res.StandardFit.Fitted == 0 {
 				t.Fatalf("zero from the standard not marked fixed: %+v", res.Params)
 			}
-			if math.Abs(res.Zero-zero) > 4*res.ZeroESD || math.Abs(res.Displacement-disp) > 4*res.DisplacementESD {
-				t.Errorf("corrections %.4f° %.4f mm, truth %.4f° %.4f mm", res.Zero, res.Displacement, zero, disp)
+			z0, zu := res.Zero()
+			d0, du := res.Displacement()
+			if math.Abs(z0-zero) > 4*zu || math.Abs(d0-disp) > 4*du {
+				t.Errorf("corrections %.4f° %.4f mm, truth %.4f° %.4f mm", z0, d0, zero, disp)
 			}
 			if len(res.Residuals)+len(res.StandardFit.Residuals) != len(obs) {
 				t.Errorf("%d + %d residuals for %d lines", len(res.Residuals), len(res.StandardFit.Residuals), len(obs))
 			}
 		}
-		if math.Abs(res.Cell.A-rutile.A) <= res.CellESD.A {
+		if math.Abs(res.Cell.A-rutile.A) <= res.ESD.A {
 			within++
 		}
 	}
@@ -74,21 +76,22 @@ func TestStandard(t *testing.T) {
 // impurity line and the standard's lines mixed in, and refines.
 func TestRefineLines(t *testing.T) {
 	si, _ := LookupStandard("Si-640d")
-	rutile := indexing.NewCell(indexing.Tetragonal, indexing.P, 4.5937, 2.9587)
+	rutile := testCells[1]
 	rng := rand.New(rand.NewPCG(8, 8))
 	obs := mixture(rutile, si, 0.05, 0.08, rng)
-	var lines []indexing.Line
+	var lines []Observation
 	for _, o := range obs {
-		lines = append(lines, indexing.Line{TwoTheta: o.TwoTheta, ESD: o.ESD})
+		lines = append(lines, Observation{Line: o.Line})
 	}
-	lines = append(lines, indexing.Line{TwoTheta: 33.333, ESD: 0.003}) // no line of either phase
-	start := indexing.NewCell(indexing.Tetragonal, indexing.P, 4.59, 2.96)
-	res, err := RefineLines(context.Background(), start, lines, Options{Wavelength: cuKa1, Zero: true, Displacement: true, Standard: &si}, Matching{Exclude: []float64{lines[0].TwoTheta}})
+	lines = append(lines, Observation{Line: cell.Line{TwoTheta: 33.333, ESD: 0.003}}) // no line of either phase
+	lines[0].Excluded = true
+	start := cell.Must(cell.Tetragonal, cell.P, 4.59, 2.96)
+	res, err := RefineLines(context.Background(), start, lines, Options{Wavelength: cuKa1, Corrections: Zero | Displacement, Standard: &si}, Matching{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if math.Abs(res.Cell.A-rutile.A) > 4*res.CellESD.A || math.Abs(res.Cell.C-rutile.C) > 4*res.CellESD.C {
-		t.Errorf("cell %v, truth %v (esds %.6f %.6f)", res.Cell, rutile, res.CellESD.A, res.CellESD.C)
+	if math.Abs(res.Cell.A-rutile.A) > 4*res.ESD.A || math.Abs(res.Cell.C-rutile.C) > 4*res.ESD.C {
+		t.Errorf("cell %v, truth %v (esds %.6f %.6f)", res.Cell, rutile, res.ESD.A, res.ESD.C)
 	}
 	found := false
 	for _, l := range res.Unmatched {
@@ -99,9 +102,9 @@ func TestRefineLines(t *testing.T) {
 	if !found {
 		t.Errorf("impurity line not among the unmatched: %v", res.Unmatched)
 	}
-	nStd := res.StandardFit.N + len(res.Overlapped)
+	nStd := res.StandardFit.Fitted + len(res.Overlapped)
 	if nStd < 8 {
-		t.Errorf("only %d standard lines assigned", res.StandardFit.N)
+		t.Errorf("only %d standard lines assigned", res.StandardFit.Fitted)
 	}
 	if !res.Residuals[0].Excluded && !res.StandardFit.Residuals[0].Excluded {
 		t.Errorf("the excluded line was fitted")

@@ -7,25 +7,27 @@ import (
 	"strings"
 	"time"
 
+	"reticle/analysis"
+	"reticle/cell"
 	"reticle/density"
-	"reticle/peaks"
+	"reticle/esd"
 )
 
 // cifSystem maps a crystal system to the core dictionary's
 // _space_group_crystal_system values (rhombohedral lattices belong to
 // the trigonal system).
-func cifSystem(s string) string {
-	if s == "rhombohedral" {
+func cifSystem(s cell.System) string {
+	if s == cell.Rhombohedral {
 		return "trigonal"
 	}
-	return s
+	return s.String()
 }
 
 // blockName makes a CIF data block name from the sample or the file name.
-func blockName(doc *Document) string {
+func blockName(a *analysis.Analysis) string {
 	// Printable ASCII without the characters CIF reserves.
 	var b strings.Builder
-	for _, r := range recordName(doc) {
+	for _, r := range recordName(a) {
 		if r > ' ' && r < 127 && !strings.ContainsRune(`#$'"_;[]`, r) {
 			b.WriteRune(r)
 		} else {
@@ -72,47 +74,44 @@ func formulaSum(text string) string {
 	return b.String()
 }
 
-// WriteCIF writes solution k of the document as a CIF data block (IUCr
-// core and powder dictionaries): the cell with its esds, crystal system,
-// wavelength, Z and X-ray density when known, and a loop of the indexed
-// lines (hkl, d, observed and calculated 2θ). date fills
+// WriteCIF writes the chosen cell of an analysis as a CIF data block
+// (IUCr core and powder dictionaries): the cell with its esds, crystal
+// system, wavelength, Z and X-ray density when known, and a loop of the
+// indexed lines (hkl, d, observed and calculated 2θ). date fills
 // _audit_creation_date.
-func WriteCIF(w io.Writer, doc *Document, k int, date time.Time) error {
-	if k < 0 || k >= len(doc.Solutions) {
-		return fmt.Errorf("report: no solution %d to write (the scan has %d)", k+1, len(doc.Solutions))
+func WriteCIF(w io.Writer, a *analysis.Analysis, date time.Time) error {
+	c := a.ChosenCandidate()
+	if c == nil {
+		return fmt.Errorf("report: %s: no cell to write", a.Scan.Path)
 	}
-	s := doc.Solutions[k]
-	cell := s.Cell()
+	ce := c.Cell()
+	e := c.Covariance().ESD()
+	v, ve := c.Volume()
 	var b strings.Builder
 	p := func(format string, args ...any) { fmt.Fprintf(&b, format, args...) }
 	p("#\\#CIF_1.1\n")
 	p("# Unit cell from powder diffraction, written by %s %s.\n", Program, Version)
-	p("# Scan %s (SHA-256 %s).\n", filepath.Base(doc.File), doc.SHA256)
+	p("# Scan %s (SHA-256 %s).\n", filepath.Base(a.Scan.Path), a.Scan.SHA256)
 	p("# An indexing is a hypothesis until confirmed, e.g. by a full-pattern fit or a structure.\n")
-	p("data_%s\n\n", blockName(doc))
+	p("data_%s\n\n", blockName(a))
 	p("_audit_creation_date %s\n", date.Format("2006-01-02"))
 	p("_audit_creation_method %s\n", cifString(fmt.Sprintf("%s %s", Program, Version)))
 	p("_computing_cell_refinement %s\n", cifString(fmt.Sprintf("%s %s, weighted least squares in 2theta", Program, Version)))
-	if doc.Sample != "" {
-		p("_pd_spec_description %s\n", cifString(doc.Sample))
+	if a.Settings.Sample != "" {
+		p("_pd_spec_description %s\n", cifString(a.Settings.Sample))
 	}
-	p("\n_space_group_crystal_system %s\n", cifSystem(s.System))
-	p("_space_group_centring_type %s\n", s.Centring)
-	esd := func(v, u float64) string { return peaks.FormatESD(v, u) }
-	var aE, bE, cE, vE float64
-	if s.Refined != nil {
-		aE, bE, cE, vE = s.AESD, s.BESD, s.CESD, s.VolumeESD
-	}
-	p("_cell_length_a %s\n", esd(s.A, aE))
-	p("_cell_length_b %s\n", esd(s.B, bE))
-	p("_cell_length_c %s\n", esd(s.C, cE))
-	p("_cell_angle_alpha %s\n", ftoa(s.Alpha))
-	p("_cell_angle_beta %s\n", ftoa(s.Beta))
-	p("_cell_angle_gamma %s\n", ftoa(s.Gamma))
-	p("_cell_volume %s\n", esd(s.Volume, vE))
-	p("_cell_measurement_reflns_used %d\n", s.Indexed)
+	p("\n_space_group_crystal_system %s\n", cifSystem(ce.System))
+	p("_space_group_centring_type %s\n", ce.Centring)
+	p("_cell_length_a %s\n", esd.Format(ce.A, e.A))
+	p("_cell_length_b %s\n", esd.Format(ce.B, e.B))
+	p("_cell_length_c %s\n", esd.Format(ce.C, e.C))
+	p("_cell_angle_alpha %s\n", esd.Format(ce.Alpha, e.Alpha))
+	p("_cell_angle_beta %s\n", esd.Format(ce.Beta, e.Beta))
+	p("_cell_angle_gamma %s\n", esd.Format(ce.Gamma, e.Gamma))
+	p("_cell_volume %s\n", esd.Format(v, ve))
+	p("_cell_measurement_reflns_used %d\n", c.Indexed)
 	var lo, hi float64
-	for _, l := range s.Lines {
+	for _, l := range c.Lines {
 		if l.Indexed {
 			if lo == 0 || l.TwoTheta < lo {
 				lo = l.TwoTheta
@@ -124,26 +123,28 @@ func WriteCIF(w io.Writer, doc *Document, k int, date time.Time) error {
 		p("_cell_measurement_theta_min %.4f\n", lo/2)
 		p("_cell_measurement_theta_max %.4f\n", hi/2)
 	}
-	p("\n_diffrn_radiation_wavelength %s\n", ftoa(doc.Wavelength))
-	p("_diffrn_radiation_type %s\n", cifString(doc.Radiation))
-	if s.Contents != nil {
-		c := s.Contents
-		p("\n_chemical_formula_sum %s\n", cifString(formulaSum(c.Formula)))
-		p("_chemical_formula_weight %.4f\n", c.MolarMass)
-		p("_cell_formula_units_Z %d\n", c.Z)
-		p("_exptl_crystal_density_diffrn %s\n", esd(c.Density, c.DensityESD))
-		if c.Measured != nil {
-			p("_exptl_crystal_density_meas %s\n", esd(*c.Measured, *c.MeasuredESD))
+	p("\n_diffrn_radiation_wavelength %s\n", ftoa(a.Radiation.Lambda1))
+	p("_diffrn_radiation_type %s\n", cifString(a.Radiation.Name))
+	if k := c.Contents; k != nil {
+		p("\n_chemical_formula_sum %s\n", cifString(formulaSum(a.Settings.Formula.Text)))
+		p("_chemical_formula_weight %.4f\n", k.MolarMass)
+		p("_cell_formula_units_Z %d\n", k.Z)
+		p("_exptl_crystal_density_diffrn %s\n", esd.Format(k.Density, k.DensityESD))
+		if m := a.Settings.Density; m != nil {
+			p("_exptl_crystal_density_meas %s\n", esd.Format(m.Density, m.ESD))
 		}
 	}
 	p("\nloop_\n_refln_index_h\n_refln_index_k\n_refln_index_l\n_refln_d_spacing\n_pd_peak_2theta_centroid\n_reticle_refln_2theta_calc\n")
-	for _, l := range s.Lines {
+	for _, l := range c.Lines {
 		if !l.Indexed {
 			continue
 		}
 		h := l.HKL[0]
-		d := cell.D(h[0], h[1], h[2])
-		p("%d %d %d %.6f %.5f %.5f\n", h[0], h[1], h[2], d, l.TwoTheta, l.TwoThetaCalc)
+		calc := l.TwoThetaCalc
+		if _, rr, ok := c.Line(l.TwoTheta); ok && rr != nil {
+			calc = rr.TwoThetaCalc
+		}
+		p("%d %d %d %.6f %.5f %.5f\n", h[0], h[1], h[2], ce.D(h), l.TwoTheta, calc)
 	}
 	_, err := io.WriteString(w, b.String())
 	return err

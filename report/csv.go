@@ -7,6 +7,9 @@ import (
 	"io"
 	"strconv"
 	"strings"
+
+	"reticle/analysis"
+	"reticle/cell"
 )
 
 // csvHeader names the CSV peak list's columns, units in the names.
@@ -18,7 +21,7 @@ var csvHeader = []string{
 }
 
 // A PeakRow is one row of the CSV peak list: a peak with its hkl and
-// calculated position under the chosen solution (empty when unindexed).
+// calculated position under the chosen cell (empty when unindexed).
 type PeakRow struct {
 	Peak
 	HKL          string // "1 1 1", several joined by " / "
@@ -27,47 +30,48 @@ type PeakRow struct {
 	Indexed      bool
 }
 
-// PeakRows pairs the peaks with the lines of solution k (0-based).
-func PeakRows(doc *Document, k int) []PeakRow {
-	rows := make([]PeakRow, len(doc.Peaks))
-	for i, p := range doc.Peaks {
-		rows[i].Peak = p
-	}
-	if k < 0 || k >= len(doc.Solutions) {
-		return rows
-	}
-	for _, l := range doc.Solutions[k].Lines {
-		if !l.Indexed {
+// PeakRows pairs the peaks with the lines of the chosen cell.
+func PeakRows(a *analysis.Analysis) []PeakRow {
+	rows := make([]PeakRow, len(a.Peaks))
+	c := a.ChosenCandidate()
+	for i, p := range a.Peaks {
+		rows[i].Peak = NewPeak(p.Peak, p.Rejected)
+		l, rr, ok := lineOf(c, p.TwoTheta)
+		if !ok || !l.Indexed {
 			continue
 		}
-		for i := range rows {
-			if rows[i].TwoTheta == l.TwoTheta {
-				rows[i].HKL, rows[i].TwoThetaCalc, rows[i].Delta, rows[i].Indexed = HKLText(l.HKL), l.TwoThetaCalc, l.Delta, true
-			}
+		rows[i].HKL, rows[i].TwoThetaCalc, rows[i].Delta, rows[i].Indexed = HKLText(l.HKL), l.TwoThetaCalc, l.Delta, true
+		if rr != nil {
+			rows[i].TwoThetaCalc, rows[i].Delta = rr.TwoThetaCalc, rr.Delta
 		}
 	}
 	return rows
 }
 
 // HKLText prints Miller indices as "1 1 1", several as "5 1 1 / 3 3 3".
-func HKLText(v [][3]int) string {
+func HKLText(v []cell.HKL) string {
 	var names []string
 	for _, h := range v {
-		names = append(names, fmt.Sprintf("%d %d %d", h[0], h[1], h[2]))
+		names = append(names, h.String())
 	}
 	return strings.Join(names, " / ")
 }
 
 func ftoa(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 
-// WriteCSV writes the peak list of a document with the hkl of solution k:
-// one header row, then one row per peak; numbers in full precision.
-func WriteCSV(w io.Writer, doc *Document, k int) error {
+// WriteCSV writes the peak list of an analysis with the hkl of the chosen
+// cell: one header row, then one row per peak; numbers in full precision.
+func WriteCSV(w io.Writer, a *analysis.Analysis) error {
+	return writeRows(w, PeakRows(a))
+}
+
+// writeRows writes a peak list.
+func writeRows(w io.Writer, rows []PeakRow) error {
 	cw := csv.NewWriter(w)
 	if err := cw.Write(csvHeader); err != nil {
 		return err
 	}
-	for i, r := range PeakRows(doc, k) {
+	for i, r := range rows {
 		comp := ""
 		if r.CompanionOf != nil {
 			comp = strconv.Itoa(*r.CompanionOf + 1)

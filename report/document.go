@@ -1,37 +1,49 @@
 package report
 
 import (
+	"math"
+
+	"reticle/analysis"
+	"reticle/cell"
+	"reticle/density"
+	"reticle/esd"
 	"reticle/indexing"
 	"reticle/peaks"
+	"reticle/refine"
 )
 
 // Schema is the version of the Document's JSON layout.
-const Schema = 1
+const Schema = 2
 
 // Program and Version name the program in every record.
 const (
 	Program = "Reticle"
-	Version = "0.5.0"
+	Version = "0.6.0"
 )
 
-// A Document is the result of one analysis: what `reticle index --json`
-// prints and every report is drawn from.
+// A Document is an analysis as JSON: what `reticle index --json` prints
+// and the JSON record of a report. It is made from an analysis.Analysis
+// at the edge (NewDocument) and read back only for its settings.
 type Document struct {
 	Program string `json:"program"`
 	Version string `json:"version"`
 	Schema  int    `json:"schema"`
 	Sample  string `json:"sample,omitempty"`
 	ScanInfo
-	Wavelength2 float64    `json:"wavelength_ka2,omitempty"`
-	Ka2Ratio    float64    `json:"ka2_ratio,omitempty"`
-	Settings    Settings   `json:"settings"`
-	Lines       int        `json:"lines"` // lines indexed (companions and rejected peaks left out)
-	Peaks       []Peak     `json:"peaks"`
-	Solutions   []Solution `json:"solutions"`
-	Warnings    []string   `json:"warnings,omitempty"`
-
-	// Pattern holds the curves for figures; it is not part of the JSON.
-	Pattern *Pattern `json:"-"`
+	Wavelength2 float64 `json:"wavelength_ka2,omitempty"`
+	Ka2Ratio    float64 `json:"ka2_ratio,omitempty"`
+	// Settings are the settings as given; Resolved with every default
+	// filled in.
+	Settings analysis.Settings  `json:"settings"`
+	Resolved *analysis.Settings `json:"settings_used,omitempty"`
+	Lines    int                `json:"lines"` // lines indexed (companions, rejected peaks and the standard's lines left out)
+	Peaks    []Peak             `json:"peaks"`
+	// StandardLines are the internal standard's lines, when one was used.
+	StandardLines []Residual `json:"standard_lines,omitempty"`
+	Solutions     []Solution `json:"solutions"`
+	// Chosen is the rank of the solution the records report.
+	Chosen   int      `json:"chosen"`
+	Warnings []string `json:"warnings,omitempty"`
 }
 
 // ScanInfo describes the scan a result comes from.
@@ -51,30 +63,35 @@ func NewScanInfo(s *peaks.Scan, r peaks.Radiation) ScanInfo {
 	return ScanInfo{File: s.Path, SHA256: s.SHA256, Points: s.Len(), Range: [2]float64{lo, hi}, Step: s.Step(), Radiation: r.Name, Wavelength: r.Lambda1}
 }
 
-// CellValues are a cell's parameters (Å, degrees), volume (Å³) and zero
-// shift (degrees 2θ) as the JSON documents print them.
+// CellValues are a cell's parameters (Å, degrees) with their esds (zero
+// when not refined or fixed by the system) and its text form.
 type CellValues struct {
-	System   string  `json:"system"`
-	Centring string  `json:"centring"`
-	A        float64 `json:"a"`
-	B        float64 `json:"b"`
-	C        float64 `json:"c"`
-	Alpha    float64 `json:"alpha"`
-	Beta     float64 `json:"beta"`
-	Gamma    float64 `json:"gamma"`
-	Volume   float64 `json:"volume"`
-	Zero     float64 `json:"zero_shift"`
+	System   cell.System   `json:"system"`
+	Centring cell.Centring `json:"centring"`
+	A        float64       `json:"a"`
+	B        float64       `json:"b"`
+	C        float64       `json:"c"`
+	Alpha    float64       `json:"alpha"`
+	Beta     float64       `json:"beta"`
+	Gamma    float64       `json:"gamma"`
+	AESD     float64       `json:"a_esd,omitempty"`
+	BESD     float64       `json:"b_esd,omitempty"`
+	CESD     float64       `json:"c_esd,omitempty"`
+	AlphaESD float64       `json:"alpha_esd,omitempty"`
+	BetaESD  float64       `json:"beta_esd,omitempty"`
+	GammaESD float64       `json:"gamma_esd,omitempty"`
+	// Volume in Å³ with its esd from the full covariance.
+	Volume    float64 `json:"volume"`
+	VolumeESD float64 `json:"volume_esd,omitempty"`
+	// Text is the cell's text form, which --cell reads back.
+	Text string `json:"cell"`
 }
 
-// NewCellValues gives a cell's values with its volume and zero shift.
-func NewCellValues(c indexing.Cell, volume, zero float64) CellValues {
-	return CellValues{System: c.System.String(), Centring: c.Centring.String(), A: c.A, B: c.B, C: c.C,
-		Alpha: c.Alpha, Beta: c.Beta, Gamma: c.Gamma, Volume: volume, Zero: zero}
-}
-
-// A Pattern is a scan with its fitted curves, for figures.
-type Pattern struct {
-	TwoTheta, Intensity, Background, Profile []float64
+// NewCellValues gives a cell's values with its esds and volume.
+func NewCellValues(c cell.Cell, e cell.ESD, v, ve float64) CellValues {
+	return CellValues{System: c.System, Centring: c.Centring, A: c.A, B: c.B, C: c.C, Alpha: c.Alpha, Beta: c.Beta, Gamma: c.Gamma,
+		AESD: e.A, BESD: e.B, CESD: e.C, AlphaESD: e.Alpha, BetaESD: e.Beta, GammaESD: e.Gamma,
+		Volume: v, VolumeESD: ve, Text: cell.Format(c, e)}
 }
 
 // A Peak is one extracted peak.
@@ -97,44 +114,63 @@ type Peak struct {
 	Rejected    bool    `json:"rejected,omitempty"`
 }
 
+// NewPeak converts a peak.
+func NewPeak(p peaks.Peak, rejected bool) Peak {
+	j := Peak{
+		TwoTheta: p.TwoTheta, TwoThetaESD: p.TwoThetaESD, D: p.D, DESD: p.DESD,
+		Height: p.Height, HeightESD: p.HeightESD, Area: p.Area, AreaESD: p.AreaESD,
+		FWHM: p.FWHM, FWHMESD: p.FWHMESD, Eta: p.Eta, Background: p.Background, SNR: p.SNR,
+		Flags: p.Flags.String(), Rejected: rejected,
+	}
+	if p.Parent >= 0 {
+		parent := p.Parent
+		j.CompanionOf = &parent
+	}
+	return j
+}
+
 // A Line is an observed line under a solution.
 type Line struct {
-	TwoTheta     float64  `json:"two_theta"`
-	ESD          float64  `json:"esd"`
-	Indexed      bool     `json:"indexed"`
-	HKL          [][3]int `json:"hkl,omitempty"`
-	TwoThetaCalc float64  `json:"two_theta_calc,omitempty"`
-	Delta        float64  `json:"delta,omitempty"`
+	TwoTheta     float64    `json:"two_theta"`
+	ESD          float64    `json:"esd"`
+	Indexed      bool       `json:"indexed"`
+	HKL          []cell.HKL `json:"hkl,omitempty"`
+	TwoThetaCalc float64    `json:"two_theta_calc,omitempty"`
+	Delta        float64    `json:"delta,omitempty"`
 }
 
 // A Calc is a calculated line of a solution (for tick marks).
 type Calc struct {
-	D        float64  `json:"d"`
-	TwoTheta float64  `json:"two_theta"`
-	Mult     int      `json:"multiplicity"`
-	HKL      [][3]int `json:"hkl"`
+	D        float64    `json:"d"`
+	TwoTheta float64    `json:"two_theta"`
+	Mult     int        `json:"multiplicity"`
+	HKL      []cell.HKL `json:"hkl"`
 }
 
 // A Solution is one ranked cell with its refinement and contents.
 type Solution struct {
 	Rank int `json:"rank"`
 	CellValues
-	M          float64  `json:"m20"`
-	N          int      `json:"m_lines"`
-	FN         float64  `json:"fn"`
-	FNMeanDiff float64  `json:"fn_mean_delta"`
-	FNPossible int      `json:"fn_possible"`
-	Indexed    int      `json:"indexed"`
-	Unindexed  int      `json:"unindexed"`
-	Conditions []string `json:"conditions,omitempty"`
-	Lines      []Line   `json:"lines"`
-	Calculated []Calc   `json:"calculated"`
+	// Zero is the zero offset of the indexing, or the refined zero
+	// shift, degrees 2θ.
+	Zero        float64  `json:"zero_shift"`
+	M           float64  `json:"m_n"`
+	FigureLines int      `json:"figure_lines"`
+	FN          float64  `json:"f_n"`
+	FNMeanDiff  float64  `json:"f_n_mean_delta"`
+	FNPossible  int      `json:"f_n_possible"`
+	Indexed     int      `json:"indexed"`
+	Unindexed   int      `json:"unindexed"`
+	Conditions  []string `json:"conditions,omitempty"`
+	Lines       []Line   `json:"lines"`
+	Calculated  []Calc   `json:"calculated"`
 	// The refinement of the cell against its indexed lines; absent, with
 	// RefineError saying why, when it could not be done.
-	*Refined
-	RefineError string `json:"refine_error,omitempty"`
-	// Contents, when a formula and a density or Z were given.
-	Contents *Contents `json:"contents,omitempty"`
+	Refined     *Refined `json:"refinement,omitempty"`
+	RefineError string   `json:"refinement_error,omitempty"`
+	// Contents, when a formula was given.
+	Contents      *Contents `json:"contents,omitempty"`
+	ContentsError string    `json:"contents_error,omitempty"`
 }
 
 // A Param is one refined parameter.
@@ -149,38 +185,70 @@ type Param struct {
 
 // A Residual is one line after the refinement.
 type Residual struct {
-	HKL          [][3]int `json:"hkl"`
-	TwoTheta     float64  `json:"two_theta_obs"`
-	ESD          float64  `json:"esd"`
-	TwoThetaCalc float64  `json:"two_theta_calc"`
-	Delta        float64  `json:"delta"`
-	Norm         float64  `json:"delta_over_esd"`
-	Flagged      bool     `json:"flagged"`
-	Excluded     bool     `json:"excluded"`
+	HKL          []cell.HKL `json:"hkl"`
+	TwoTheta     float64    `json:"two_theta"`
+	ESD          float64    `json:"esd"`
+	TwoThetaCalc float64    `json:"two_theta_calc"`
+	Delta        float64    `json:"delta"`
+	Sigmas       float64    `json:"delta_sigmas"`
+	Flagged      bool       `json:"flagged"`
+	Excluded     bool       `json:"excluded"`
 }
 
-// Refined is the refinement's part of a solution; its fields sit beside
-// the cell's in JSON.
+// NewResidual converts one residual.
+func NewResidual(rr refine.Residual) Residual {
+	return Residual{HKL: rr.HKL, TwoTheta: rr.TwoTheta, ESD: rr.ESD, TwoThetaCalc: rr.TwoThetaCalc,
+		Delta: rr.Delta, Sigmas: finite(rr.Sigmas), Flagged: rr.Flagged, Excluded: rr.Excluded}
+}
+
+// Refined is a refinement of a cell.
 type Refined struct {
-	AESD            float64     `json:"a_esd"`
-	BESD            float64     `json:"b_esd"`
-	CESD            float64     `json:"c_esd"`
-	VolumeESD       float64     `json:"volume_esd"`
-	ZeroESD         float64     `json:"zero_shift_esd"`
-	Displacement    *float64    `json:"displacement_mm,omitempty"`
-	DisplacementESD *float64    `json:"displacement_mm_esd,omitempty"`
-	Radius          float64     `json:"goniometer_radius_mm"`
-	Chi2Reduced     float64     `json:"chi2_reduced"`
-	Fitted          int         `json:"lines_fitted"` // residuals not excluded
-	DOF             int         `json:"degrees_of_freedom"`
-	Scaled          bool        `json:"esd_scaled_by_chi2"`
-	Scaling         string      `json:"esd_scaling"`
-	Params          []Param     `json:"parameters"`
-	ParamNames      []string    `json:"correlation_order"`
-	Correlation     [][]float64 `json:"correlation"`
-	Residuals       []Residual  `json:"residuals"`
-	Flagged         int         `json:"flagged"`
-	Warnings        []string    `json:"refine_warnings,omitempty"`
+	Corrections     refine.Corrections `json:"corrections"`
+	ZeroESD         float64            `json:"zero_shift_esd,omitempty"`
+	Displacement    *float64           `json:"displacement_mm,omitempty"`
+	DisplacementESD *float64           `json:"displacement_mm_esd,omitempty"`
+	Transparency    *float64           `json:"transparency_mm,omitempty"`
+	TransparencyESD *float64           `json:"transparency_mm_esd,omitempty"`
+	Radius          float64            `json:"radius_mm"`
+	Chi2Reduced     float64            `json:"chi2_reduced"`
+	Fitted          int                `json:"lines_fitted"` // residuals not excluded
+	DOF             int                `json:"degrees_of_freedom"`
+	Scaled          bool               `json:"esd_scaled_by_chi2"`
+	Scaling         refine.Scaling     `json:"scaling"`
+	Params          []Param            `json:"parameters"`
+	Correlation     [][]float64        `json:"correlation"` // in the order of Params
+	Residuals       []Residual         `json:"residuals"`
+	Flagged         int                `json:"flagged"`
+	Standard        string             `json:"standard,omitempty"`
+	Warnings        []string           `json:"warnings,omitempty"`
+}
+
+// NewRefined converts a refinement result.
+func NewRefined(r *refine.Result) Refined {
+	j := Refined{
+		Corrections: r.Corrections, Radius: r.Radius, Chi2Reduced: r.Chi2Reduced, Fitted: r.Fitted, DOF: r.DOF,
+		Scaled: r.Scaled, Scaling: r.Scaling, Correlation: r.Correlation, Flagged: r.Flagged, Warnings: r.Warnings,
+		Params: []Param{}, Residuals: []Residual{},
+	}
+	_, j.ZeroESD = r.Zero()
+	if r.Corrections.Has(refine.Displacement) {
+		d, e := r.Displacement()
+		j.Displacement, j.DisplacementESD = &d, &e
+	}
+	if r.Corrections.Has(refine.Transparency) {
+		d, e := r.Transparency()
+		j.Transparency, j.TransparencyESD = &d, &e
+	}
+	for _, p := range r.Params {
+		j.Params = append(j.Params, Param{Name: p.Name, Value: p.Value, ESD: p.ESD, Unit: p.Unit, Text: esd.Format(p.Value, p.ESD), FromStandard: p.Fixed})
+	}
+	for _, rr := range r.Residuals {
+		j.Residuals = append(j.Residuals, NewResidual(rr))
+	}
+	if r.StandardFit != nil {
+		j.Standard = r.StandardFit.Standard.Name
+	}
+	return j
 }
 
 // Contents is a cell's contents.
@@ -200,19 +268,126 @@ type Contents struct {
 	Candidates        []ZCandidate `json:"z_candidates,omitempty"`
 	Density           float64      `json:"density_xray"`
 	DensityESD        float64      `json:"density_xray_esd"`
-	DensityText       string       `json:"density_xray_text"`
 	Measured          *float64     `json:"density_measured,omitempty"`
 	MeasuredESD       *float64     `json:"density_measured_esd,omitempty"`
-	Discrepancy       *float64     `json:"density_discrepancy_sigma,omitempty"`
+	Sigmas            *float64     `json:"density_delta_sigmas,omitempty"`
 	AtomsPerCell      float64      `json:"atoms_per_cell"`
 	CellMass          float64      `json:"formula_mass_per_cell"`
+	CellMassESD       float64      `json:"formula_mass_per_cell_esd"`
 	UnitsPerLattice   float64      `json:"formula_units_per_lattice_point"`
 	AvogadroConstant  float64      `json:"avogadro_constant"`
 	AtomicWeightTable string       `json:"atomic_weights"`
 }
 
-// A ZCandidate is an allowed Z with its discrepancy from the estimate.
+// A ZCandidate is an allowed Z with its distance from the estimate.
 type ZCandidate struct {
-	Z     int     `json:"z"`
-	Sigma float64 `json:"sigma"`
+	Z      int     `json:"z"`
+	Sigmas float64 `json:"delta_sigmas"`
+}
+
+// AtomicWeights names the table of atomic weights the contents use.
+const AtomicWeights = "IUPAC 2021 standard atomic weights (conventional values for intervals)"
+
+// NewContents converts a contents result.
+func NewContents(c *density.Contents, f density.Formula, m *density.Measured) Contents {
+	j := Contents{
+		Formula: f.Text, MolarMass: c.MolarMass, MolarMassESD: c.MolarMassESD, NoStandardWeight: c.NoStandardWeight,
+		Volume: c.Volume, VolumeESD: c.VolumeESD, LatticePoints: c.LatticePoints, Z: c.Z, ZFromDensity: c.ZInferred,
+		Density: c.Density, DensityESD: c.DensityESD,
+		AtomsPerCell: c.AtomsPerCell, CellMass: c.CellMass, CellMassESD: c.CellMassESD, UnitsPerLattice: c.FormulaUnitsPerLattice,
+		AvogadroConstant: density.Avogadro, AtomicWeightTable: AtomicWeights,
+	}
+	if m != nil {
+		ze, zu, w, d := c.ZEst, c.ZEstESD, c.Whole, c.Sigmas
+		j.ZEst, j.ZEstESD, j.ZWhole, j.Sigmas = &ze, &zu, &w, &d
+		md, me := m.Density, m.ESD
+		j.Measured, j.MeasuredESD = &md, &me
+		for _, k := range c.Candidates {
+			j.Candidates = append(j.Candidates, ZCandidate{k.Z, finite(k.Sigmas)})
+		}
+	}
+	return j
+}
+
+func finite(v float64) float64 {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return 0
+	}
+	return v
+}
+
+// NewDocument makes the JSON document of an analysis.
+func NewDocument(a *analysis.Analysis) *Document {
+	r := a.Settings.Resolved(a.Scan)
+	doc := &Document{
+		Program: Program, Version: Version, Schema: Schema, Sample: a.Settings.Sample,
+		ScanInfo: NewScanInfo(a.Scan, a.Radiation), Settings: a.Settings, Resolved: &r,
+		Lines: len(a.Lines), Peaks: []Peak{}, Solutions: []Solution{}, Warnings: a.Warnings,
+	}
+	if a.Radiation.Doublet() {
+		doc.Wavelength2, doc.Ka2Ratio = a.Radiation.Lambda2, a.Radiation.Ratio2
+	}
+	for _, p := range a.Peaks {
+		doc.Peaks = append(doc.Peaks, NewPeak(p.Peak, p.Rejected))
+	}
+	for i := range a.Candidates {
+		doc.Solutions = append(doc.Solutions, NewSolution(a, &a.Candidates[i]))
+	}
+	if c := a.ChosenCandidate(); c != nil {
+		doc.Chosen = c.Rank
+	}
+	for _, c := range a.Candidates {
+		if c.Refined != nil && c.Refined.StandardFit != nil {
+			for _, rr := range c.Refined.StandardFit.Residuals {
+				doc.StandardLines = append(doc.StandardLines, NewResidual(rr))
+			}
+			break
+		}
+	}
+	return doc
+}
+
+// NewSolution converts a candidate cell.
+func NewSolution(a *analysis.Analysis, c *analysis.Candidate) Solution {
+	v, ve := c.Volume()
+	lambda := a.Radiation.Lambda1
+	s := c.Solution
+	j := Solution{
+		Rank: c.Rank, CellValues: NewCellValues(c.Cell(), c.Covariance().ESD(), v, ve), Zero: s.Zero,
+		M: s.M, FigureLines: s.FigureLines, FN: s.FN, FNMeanDiff: s.FNMeanDiff, FNPossible: s.FNPossible,
+		Indexed: s.Indexed, Unindexed: s.Unindexed, Conditions: s.Conditions, Lines: []Line{}, Calculated: []Calc{},
+	}
+	for _, l := range s.Lines {
+		jl := Line{TwoTheta: l.TwoTheta, ESD: l.ESD, Indexed: l.Indexed, HKL: l.HKL, TwoThetaCalc: l.TwoThetaCalc, Delta: l.Delta}
+		if _, rr, ok := c.Line(l.TwoTheta); ok && rr != nil {
+			jl.TwoThetaCalc, jl.Delta = rr.TwoThetaCalc, rr.Delta
+		}
+		j.Lines = append(j.Lines, jl)
+	}
+	for _, r := range s.Calculated {
+		j.Calculated = append(j.Calculated, Calc{D: r.D, TwoTheta: c.Position(r.HKL[0], lambda), Mult: r.Mult, HKL: r.HKL})
+	}
+	if c.Refined != nil {
+		rj := NewRefined(c.Refined)
+		j.Refined = &rj
+		j.Zero, _ = c.Refined.Zero()
+	} else if c.RefineErr != nil {
+		j.RefineError = c.RefineErr.Error()
+	}
+	if c.Contents != nil {
+		cj := NewContents(c.Contents, *a.Settings.Formula, a.Settings.Density)
+		j.Contents = &cj
+	} else if c.ContentsErr != nil {
+		j.ContentsError = c.ContentsErr.Error()
+	}
+	return j
+}
+
+// lineOf is a helper for renderers: the indexed line at tt under
+// candidate c, if any.
+func lineOf(c *analysis.Candidate, tt float64) (indexing.IndexedLine, *refine.Residual, bool) {
+	if c == nil {
+		return indexing.IndexedLine{}, nil, false
+	}
+	return c.Line(tt)
 }

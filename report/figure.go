@@ -11,6 +11,9 @@ import (
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
+
+	"reticle/analysis"
+	"reticle/cell"
 )
 
 // Colours of the pattern figure: observed, fitted, background,
@@ -24,10 +27,16 @@ var (
 	ColourTicks      = color.RGBA{0xcc, 0x79, 0xa7, 0xff}
 )
 
-func init() {
-	// Sans-serif figures, like the text around them.
-	plot.DefaultFont = font.Font{Typeface: "Liberation", Variant: "Sans"}
-	plotter.DefaultFont = plot.DefaultFont
+// figureFont is the figures' typeface: sans-serif, like the text around
+// them. It is set on each figure, never as gonum/plot's global default.
+var figureFont = font.Font{Typeface: "Liberation", Variant: "Sans"}
+
+// setFont gives every text of the plot the figure font, keeping sizes.
+func setFont(p *plot.Plot) {
+	for _, f := range []*font.Font{&p.Title.TextStyle.Font, &p.X.Label.TextStyle.Font, &p.Y.Label.TextStyle.Font,
+		&p.X.Tick.Label.Font, &p.Y.Tick.Label.Font, &p.Legend.TextStyle.Font} {
+		f.Typeface, f.Variant = figureFont.Typeface, figureFont.Variant
+	}
 }
 
 // A Scale is the intensity axis of a figure.
@@ -61,12 +70,13 @@ type FigureOptions struct {
 	DAxis bool
 }
 
-// X maps a 2θ (degrees) to the figure's x for wavelength lambda (Å).
+// X maps a 2θ (degrees) to the figure's x for wavelength lambda (Å): 2θ,
+// or −d so that d falls from left to right.
 func (o FigureOptions) X(tt, lambda float64) float64 {
 	if !o.DAxis {
 		return tt
 	}
-	return -lambda / (2 * math.Sin(tt*math.Pi/360))
+	return -cell.DSpacing(tt, lambda)
 }
 
 // TwoTheta inverts X.
@@ -74,11 +84,7 @@ func (o FigureOptions) TwoTheta(x, lambda float64) float64 {
 	if !o.DAxis {
 		return x
 	}
-	s := lambda / (2 * -x)
-	if !(s > 0 && s < 1) {
-		return math.NaN()
-	}
-	return 2 * math.Asin(s) * 180 / math.Pi
+	return cell.TwoTheta(-x, lambda)
 }
 
 // absTicks labels an axis of negated values with their magnitudes.
@@ -138,13 +144,14 @@ func decimateIndex(a, b, buckets int, val func(int) float64) []int {
 	return idx
 }
 
-// Figure draws a document's pattern: observed counts, fitted profile,
+// Figure draws an analysis' pattern: observed counts, fitted profile,
 // background, the difference beneath, tick marks of the calculated lines
-// of solution k (0-based; none when out of range) and markers of the
-// peaks, accepted as up-triangles and rejected as crosses. The figure is
-// the same for the report and the desktop view.
-func Figure(doc *Document, k int, o FigureOptions) *plot.Plot {
+// of the chosen cell and markers of the peaks, accepted as up-triangles
+// and rejected as crosses. The figure is the same for the report and the
+// desktop view.
+func Figure(a *analysis.Analysis, o FigureOptions) *plot.Plot {
 	p := plot.New()
+	setFont(p)
 	p.X.Label.Text = "2θ (degrees)"
 	if o.DAxis {
 		p.X.Label.Text = "d (Å)"
@@ -158,27 +165,25 @@ func Figure(doc *Document, k int, o FigureOptions) *plot.Plot {
 		p.Y.Label.Text = "log₁₀ intensity (counts)"
 	}
 	p.Legend.Top = true
-	if doc.Pattern == nil || len(doc.Pattern.TwoTheta) == 0 {
+	if a == nil || a.Scan == nil || a.Scan.Len() == 0 {
 		return p
 	}
 	if o.Buckets <= 0 {
 		o.Buckets = 1200
 	}
-	lo, hi := doc.Range[0], doc.Range[1]
+	lo, hi := a.Scan.Range()
 	if o.XMax > o.XMin {
 		lo, hi = math.Max(lo, o.XMin), math.Min(hi, o.XMax)
 	}
-	pt := doc.Pattern
-	lam := doc.Wavelength
+	pt := pattern{TwoTheta: a.Scan.TwoTheta, Intensity: a.Scan.Intensity, Background: a.Extraction.Result.Background, Profile: a.Extraction.Profile}
+	lam := a.Radiation.Lambda1
 	// The points in view: decimated over the raw values first (min and
 	// max per column survive any monotonic scale), transformed after, so
 	// that a million-point scan costs a few passes over it.
-	a := sort.SearchFloat64s(pt.TwoTheta, lo)
-	b := sort.SearchFloat64s(pt.TwoTheta, hi)
-	b = min(b+1, len(pt.TwoTheta))
-	a = max(a-1, 0)
+	first := max(sort.SearchFloat64s(pt.TwoTheta, lo)-1, 0)
+	last := min(sort.SearchFloat64s(pt.TwoTheta, hi)+1, len(pt.TwoTheta))
 	curve := func(val func(i int) float64, shift float64) plotter.XYs {
-		idx := decimateIndex(a, b, o.Buckets, val)
+		idx := decimateIndex(first, last, o.Buckets, val)
 		xy := make(plotter.XYs, len(idx))
 		for j, i := range idx {
 			xy[j].X = o.X(pt.TwoTheta[i], lam)
@@ -238,11 +243,11 @@ func Figure(doc *Document, k int, o FigureOptions) *plot.Plot {
 		}, diffZero)
 		add(diff, ColourDifference, vg.Points(0.5), nil, "difference")
 	}
-	if k >= 0 && k < len(doc.Solutions) {
+	if c := a.ChosenCandidate(); c != nil {
 		var segs plotter.XYs
-		for _, c := range doc.Solutions[k].Calculated {
-			if c.TwoTheta >= lo && c.TwoTheta <= hi {
-				x := o.X(c.TwoTheta, lam)
+		for _, r := range c.Calculated {
+			if tt := c.Position(r.HKL[0], lam); tt >= lo && tt <= hi {
+				x := o.X(tt, lam)
 				segs = append(segs, plotter.XY{X: x, Y: tickLow}, plotter.XY{X: x, Y: tickTop})
 			}
 		}
@@ -253,14 +258,14 @@ func Figure(doc *Document, k int, o FigureOptions) *plot.Plot {
 		}
 	}
 	var acc, rej plotter.XYs
-	for _, pk := range doc.Peaks {
+	for _, pk := range a.Peaks {
 		if pk.TwoTheta < lo || pk.TwoTheta > hi {
 			continue
 		}
 		xy := plotter.XY{X: o.X(pk.TwoTheta, lam), Y: PeakMarkerY(pk, o.Scale, span)}
 		if pk.Rejected {
 			rej = append(rej, xy)
-		} else if pk.CompanionOf == nil {
+		} else if !pk.Companion() {
 			acc = append(acc, xy)
 		}
 	}
@@ -288,9 +293,14 @@ func Figure(doc *Document, k int, o FigureOptions) *plot.Plot {
 	return p
 }
 
+// pattern holds the curves a figure draws, point by point.
+type pattern struct {
+	TwoTheta, Intensity, Background, Profile []float64
+}
+
 // PeakMarkerY is the height at which a peak's marker is drawn: a little
 // above its top, on the figure's intensity scale of the given span.
-func PeakMarkerY(pk Peak, sc Scale, span float64) float64 {
+func PeakMarkerY(pk analysis.Peak, sc Scale, span float64) float64 {
 	return sc.apply(pk.Background+pk.Height) + 0.04*span
 }
 

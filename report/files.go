@@ -11,13 +11,21 @@ import (
 	"path/filepath"
 	"strings"
 	"time"
+
+	"reticle/analysis"
 )
 
-// WriteJSON writes the document as `reticle index --json` prints it.
-func WriteJSON(w io.Writer, doc *Document) error {
+// WriteJSON writes the analysis' document as `reticle index --json`
+// prints it.
+func WriteJSON(w io.Writer, a *analysis.Analysis) error {
+	return EncodeJSON(w, NewDocument(a))
+}
+
+// EncodeJSON writes any record as indented JSON.
+func EncodeJSON(w io.Writer, v any) error {
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", " ")
-	return enc.Encode(doc)
+	return enc.Encode(v)
 }
 
 // ReadJSON reads a document written by WriteJSON (its settings regenerate
@@ -37,10 +45,10 @@ func ReadJSON(r io.Reader) (*Document, error) {
 // ErrExists: a file that would be overwritten without permission.
 var ErrExists = errors.New("file exists")
 
-// BaseName is the file name, without extension, of a document's report
+// BaseName is the file name, without extension, of an analysis' report
 // files: the sample name or the scan's file name, with characters unsafe
 // in file names replaced.
-func BaseName(doc *Document) string {
+func BaseName(a *analysis.Analysis) string {
 	name := strings.Map(func(r rune) rune {
 		if r < ' ' || strings.ContainsRune(`/\:*?"<>|`, r) {
 			return '_'
@@ -49,20 +57,20 @@ func BaseName(doc *Document) string {
 			return '-'
 		}
 		return r
-	}, strings.TrimSpace(recordName(doc)))
+	}, strings.TrimSpace(recordName(a)))
 	if name == "" || name == "." || name == ".." {
 		name = "reticle-report"
 	}
 	return name
 }
 
-// recordName names a document's records: the sample, else the scan's file
+// recordName names an analysis' records: the sample, else the scan's file
 // name without its extension.
-func recordName(doc *Document) string {
-	if doc.Sample != "" {
-		return doc.Sample
+func recordName(a *analysis.Analysis) string {
+	if a.Settings.Sample != "" {
+		return a.Settings.Sample
 	}
-	return strings.TrimSuffix(filepath.Base(doc.File), filepath.Ext(doc.File))
+	return strings.TrimSuffix(filepath.Base(a.Scan.Path), filepath.Ext(a.Scan.Path))
 }
 
 // Files are the paths WriteAll writes.
@@ -70,14 +78,14 @@ type Files struct {
 	PDF, CIF, CSV, JSON string
 }
 
-// WriteAll writes the four records of solution k (0-based) into dir:
-// BASE.pdf, BASE.cif, BASE.csv and BASE.json. Each is written to a
+// WriteAll writes the four records of an analysis (its chosen cell) into
+// dir: BASE.pdf, BASE.cif, BASE.csv and BASE.json. Each is written to a
 // temporary file beside its target and then moved into place, so a
 // failure never leaves a half-written record; an existing file is
 // replaced only when force is set, otherwise WriteAll writes nothing and
 // returns an error wrapping ErrExists naming it.
-func WriteAll(dir string, doc *Document, k int, paper Paper, date time.Time, force bool) (Files, error) {
-	base := filepath.Join(dir, BaseName(doc))
+func WriteAll(dir string, a *analysis.Analysis, paper Paper, date time.Time, force bool) (Files, error) {
+	base := filepath.Join(dir, BaseName(a))
 	f := Files{PDF: base + ".pdf", CIF: base + ".cif", CSV: base + ".csv", JSON: base + ".json"}
 	if !force {
 		for _, p := range []string{f.PDF, f.CIF, f.CSV, f.JSON} {
@@ -92,12 +100,12 @@ func WriteAll(dir string, doc *Document, k int, paper Paper, date time.Time, for
 		path  *string
 		write func(*bytes.Buffer) error
 	}{
-		{&f.PDF, func(b *bytes.Buffer) error { return WritePDF(b, doc, k, paper, date) }},
-		{&f.CIF, func(b *bytes.Buffer) error { return WriteCIF(b, doc, k, date) }},
-		{&f.CSV, func(b *bytes.Buffer) error { return WriteCSV(b, doc, k) }},
-		{&f.JSON, func(b *bytes.Buffer) error { return WriteJSON(b, doc) }},
+		{&f.PDF, func(b *bytes.Buffer) error { return WritePDF(b, a, paper, date) }},
+		{&f.CIF, func(b *bytes.Buffer) error { return WriteCIF(b, a, date) }},
+		{&f.CSV, func(b *bytes.Buffer) error { return WriteCSV(b, a) }},
+		{&f.JSON, func(b *bytes.Buffer) error { return WriteJSON(b, a) }},
 	}
-	if len(doc.Solutions) == 0 {
+	if a.ChosenCandidate() == nil {
 		// No cell, no CIF.
 		f.CIF = ""
 		outs = append(outs[:1], outs[2:]...)

@@ -22,12 +22,12 @@ func FuzzReadCSV(f *testing.F) {
 		if err != nil {
 			return
 		}
-		doc := &Document{}
+		var plain []PeakRow
 		for _, r := range rows {
-			doc.Peaks = append(doc.Peaks, r.Peak)
+			plain = append(plain, PeakRow{Peak: r.Peak})
 		}
 		var buf bytes.Buffer
-		if err := WriteCSV(&buf, doc, -1); err != nil {
+		if err := writeRows(&buf, plain); err != nil {
 			t.Fatal(err)
 		}
 		again, err := ReadCSV(&buf)
@@ -66,11 +66,11 @@ func FuzzReadSession(f *testing.F) {
 }
 
 func BenchmarkWritePDF(b *testing.B) {
-	doc := demoDoc(b)
+	a := demoAnalysis(b)
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
 		var buf bytes.Buffer
-		if err := WritePDF(&buf, doc, 0, A4, goldenDate); err != nil {
+		if err := WritePDF(&buf, a, A4, goldenDate); err != nil {
 			b.Fatal(err)
 		}
 	}

@@ -17,7 +17,10 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 	"gonum.org/v1/plot/vg/vgimg"
 
-	"reticle/peaks"
+	"reticle/analysis"
+	"reticle/cell"
+	"reticle/esd"
+	"reticle/refine"
 )
 
 // A Paper is a page size.
@@ -60,9 +63,9 @@ const (
 	fontMono = "mono"
 )
 
-// WritePDF writes the report of solution k (0-based) of the document on
-// the given paper; date fills the date line and the creation date.
-func WritePDF(w io.Writer, doc *Document, k int, paper Paper, date time.Time) error {
+// WritePDF writes the report of an analysis (its chosen cell) on the
+// given paper; date fills the date line and the creation date.
+func WritePDF(w io.Writer, a *analysis.Analysis, paper Paper, date time.Time) error {
 	pdf := fpdf.NewCustom(&fpdf.InitType{OrientationStr: "P", UnitStr: "mm", SizeStr: string(paper)})
 	pdf.SetCatalogSort(true)
 	pdf.SetCreationDate(date)
@@ -73,8 +76,8 @@ func WritePDF(w io.Writer, doc *Document, k int, paper Paper, date time.Time) er
 	pdf.AddUTF8FontFromBytes(fontSans, "I", liberationsansitalic.TTF)
 	pdf.AddUTF8FontFromBytes(fontMono, "", liberationmonoregular.TTF)
 	title := "Refined cell report"
-	if doc.Sample != "" {
-		title += ": " + doc.Sample
+	if a.Settings.Sample != "" {
+		title += ": " + a.Settings.Sample
 	}
 	pdf.SetTitle(title, true)
 	pdf.SetCreator(fmt.Sprintf("%s %s", Program, Version), true)
@@ -85,33 +88,32 @@ func WritePDF(w io.Writer, doc *Document, k int, paper Paper, date time.Time) er
 		pdf.SetY(-12)
 		pdf.SetFont(fontSans, "", 7.5)
 		pdf.SetTextColor(110, 110, 110)
-		pdf.CellFormat(0, 4, fmt.Sprintf("%s %s · %s · page %d of {pages}", Program, Version, filepath.Base(doc.File), pdf.PageNo()), "", 0, "C", false, 0, "")
+		pdf.CellFormat(0, 4, fmt.Sprintf("%s %s · %s · page %d of {pages}", Program, Version, filepath.Base(a.Scan.Path), pdf.PageNo()), "", 0, "C", false, 0, "")
 		pdf.SetTextColor(0, 0, 0)
 	})
 	pw, _ := pdf.GetPageSize()
 	lm, _, rm, _ := pdf.GetMargins()
 	x := &pdfWriter{pdf: pdf, width: pw - lm - rm, left: lm}
 	pdf.AddPage()
-	x.header(doc, k, title, date)
-	if err := x.figure(doc, k); err != nil {
+	x.header(a, title, date)
+	if err := x.figure(a); err != nil {
 		return err
 	}
-	if k >= 0 && k < len(doc.Solutions) {
-		s := &doc.Solutions[k]
-		x.refined(doc, s)
-		x.contents(s)
+	if c := a.ChosenCandidate(); c != nil {
+		x.refined(c)
+		x.contents(a, c)
 	} else {
 		x.heading("Refined cell")
 		x.para("No cell explains the lines within the search bounds.")
 	}
-	x.candidates(doc, k)
-	x.lines(doc, k)
-	x.settings(doc)
+	x.candidates(a)
+	x.lines(a)
+	x.settings(a)
 	x.heading("Limitations")
 	x.para(Limitations)
-	if len(doc.Warnings) > 0 {
+	if len(a.Warnings) > 0 {
 		x.heading("Warnings")
-		for _, m := range doc.Warnings {
+		for _, m := range a.Warnings {
 			x.para("• " + m)
 		}
 	}
@@ -160,7 +162,7 @@ func (x *pdfWriter) keyValues(rows [][2]string, labelWidth float64) {
 	}
 }
 
-func (x *pdfWriter) header(doc *Document, k int, title string, date time.Time) {
+func (x *pdfWriter) header(a *analysis.Analysis, title string, date time.Time) {
 	p := x.pdf
 	p.SetFont(fontSans, "B", 16)
 	p.CellFormat(0, 9, title, "", 1, "L", false, 0, "")
@@ -168,39 +170,55 @@ func (x *pdfWriter) header(doc *Document, k int, title string, date time.Time) {
 	p.SetLineWidth(0.6)
 	p.Line(x.left, p.GetY(), x.left+x.width, p.GetY())
 	p.Ln(2.5)
-	rad := fmt.Sprintf("%s, λ(Kα1) = %s Å", doc.Radiation, ftoa(doc.Wavelength))
-	if doc.Wavelength2 > 0 {
-		rad += fmt.Sprintf(", λ(Kα2) = %s Å, I(Kα2)/I(Kα1) = %s", ftoa(doc.Wavelength2), ftoa(doc.Ka2Ratio))
+	r := a.Radiation
+	rad := fmt.Sprintf("%s, λ(Kα1) = %s Å", r.Name, ftoa(r.Lambda1))
+	if r.Doublet() {
+		rad += fmt.Sprintf(", λ(Kα2) = %s Å, I(Kα2)/I(Kα1) = %s", ftoa(r.Lambda2), ftoa(r.Ratio2))
 	}
-	corr := doc.Settings.Corrections
-	if strings.Contains(corr, "displacement") || corr == "both" {
-		corr += fmt.Sprintf(" (goniometer radius %s mm)", ftoa(doc.Settings.Radius))
-	}
-	sample := doc.Sample
+	sample := a.Settings.Sample
 	if sample == "" {
 		sample = "(not named)"
 	}
+	lo, hi := a.Scan.Range()
 	rows := [][2]string{
 		{"Sample", sample},
-		{"Input file", doc.File},
-		{"SHA-256", doc.SHA256},
-		{"Scan", fmt.Sprintf("%d points, %.3f–%.3f° 2θ, step %.4f°", doc.Points, doc.Range[0], doc.Range[1], doc.Step)},
+		{"Input file", a.Scan.Path},
+		{"SHA-256", a.Scan.SHA256},
+		{"Scan", fmt.Sprintf("%d points, %.3f–%.3f° 2θ, step %.4f°", a.Scan.Len(), lo, hi, a.Scan.Step())},
 		{"Date", date.Format("2006-01-02 15:04 MST")},
 		{"Program", fmt.Sprintf("%s %s", Program, Version)},
 		{"Radiation", rad},
-		{"Corrections", corr},
-		{"Lines", fmt.Sprintf("%d peaks extracted, %d lines indexed (K-beta companions and rejected peaks left out)", len(doc.Peaks), doc.Lines)},
+		{"Corrections", correctionsText(a)},
+		{"Lines", fmt.Sprintf("%d peaks extracted, %d lines indexed (K-beta companions, rejected peaks and the standard's lines left out)", len(a.Peaks), len(a.Lines))},
 	}
-	if k >= 0 && k < len(doc.Solutions) {
-		s := doc.Solutions[k]
-		rows = append(rows, [2]string{"Cell reported", fmt.Sprintf("solution %d of %d: %s %s", k+1, len(doc.Solutions), s.System, s.Centring)})
+	if c := a.ChosenCandidate(); c != nil {
+		rows = append(rows, [2]string{"Cell reported", fmt.Sprintf("candidate %d of %d: %s %s", c.Rank, len(a.Candidates), c.Cell().System, c.Cell().Centring)})
 	}
 	x.keyValues(rows, 30)
 }
 
-func (x *pdfWriter) figure(doc *Document, k int) error {
+// correctionsText describes the corrections of the chosen cell's
+// refinement.
+func correctionsText(a *analysis.Analysis) string {
+	c := a.ChosenCandidate()
+	if c == nil || c.Refined == nil {
+		r := a.Settings.Resolved(a.Scan)
+		return r.Corrections.String()
+	}
+	r := c.Refined
+	s := r.Corrections.String()
+	if r.Corrections.Has(refine.Displacement) || r.Corrections.Has(refine.Transparency) {
+		s += fmt.Sprintf(" (goniometer radius %s mm)", ftoa(r.Radius))
+	}
+	if r.StandardFit != nil {
+		s += fmt.Sprintf(", fixed by the internal standard %s (%d lines)", r.StandardFit.Standard.Name, r.StandardFit.Fitted)
+	}
+	return s
+}
+
+func (x *pdfWriter) figure(a *analysis.Analysis) error {
 	const wmm, hmm = 174.0, 82.0
-	pl := Figure(doc, k, FigureOptions{})
+	pl := Figure(a, FigureOptions{})
 	pl.Title.Text = ""
 	c := vgimg.NewWith(vgimg.UseWH(vg.Length(wmm)*vg.Millimeter, vg.Length(hmm)*vg.Millimeter), vgimg.UseDPI(200))
 	pl.Draw(draw.New(c))
@@ -221,81 +239,84 @@ func (x *pdfWriter) figure(doc *Document, k int) error {
 	return nil
 }
 
-func (x *pdfWriter) refined(doc *Document, s *Solution) {
+func (x *pdfWriter) refined(c *analysis.Candidate) {
 	x.heading("Refined cell")
-	if s.Refined == nil {
-		x.para(fmt.Sprintf("%s %s, a = %.5f Å, c = %.5f Å (indexing values; the refinement failed: %s)", s.System, s.Centring, s.A, s.C, s.RefineError))
+	ce := c.Cell()
+	if c.Refined == nil {
+		x.para(fmt.Sprintf("%s (indexing values; the refinement failed: %v)", ce, c.RefineErr))
 		return
 	}
-	rows := [][2]string{{"Lattice", fmt.Sprintf("%s %s", s.System, s.Centring)}}
-	for _, p := range s.Params {
-		v := p.Text + " " + p.Unit
-		if p.FromStandard {
+	r := c.Refined
+	rows := [][2]string{{"Lattice", fmt.Sprintf("%s %s", ce.System, ce.Centring)}}
+	for _, p := range r.Params {
+		v := esd.Format(p.Value, p.ESD) + " " + p.Unit
+		if p.Fixed {
 			v += " (from the internal standard)"
 		}
 		rows = append(rows, [2]string{p.Name, v})
 	}
-	rows = append(rows, [2]string{"volume", peaks.FormatESD(s.Volume, s.VolumeESD) + " Å³"})
+	rows = append(rows, [2]string{"volume", esd.Format(r.Volume, r.VolumeESD) + " Å³"})
 	scaled := "esds not scaled"
-	if s.Scaled {
+	if r.Scaled {
 		scaled = "esds multiplied by χ²_red"
 	}
-	rows = append(rows, [2]string{"fit", fmt.Sprintf("%d lines, %d degrees of freedom, χ²_red = %.3f (%s; convention: %s)", s.Fitted, s.DOF, s.Chi2Reduced, scaled, s.Scaling)})
-	rows = append(rows, [2]string{"figures of merit", fmt.Sprintf("M%d = %.1f (de Wolff 1968), F%d = %.1f (%.4f°, %d) (Smith & Snyder 1979)", s.N, s.M, s.N, s.FN, s.FNMeanDiff, s.FNPossible)})
+	rows = append(rows, [2]string{"fit", fmt.Sprintf("%d lines, %d degrees of freedom, χ²_red = %.3f (%s; convention: %s)", r.Fitted, r.DOF, r.Chi2Reduced, scaled, r.Scaling)})
+	s := c.Solution
+	rows = append(rows, [2]string{"figures of merit", fmt.Sprintf("M%d = %.1f (de Wolff 1968), F%d = %.1f (%.4f°, %d) (Smith & Snyder 1979)", s.FigureLines, s.M, s.FigureLines, s.FN, s.FNMeanDiff, s.FNPossible)})
 	x.keyValues(rows, 30)
-	if n := len(s.ParamNames); n > 1 {
+	if n := len(r.Params); n > 1 {
 		x.pdf.Ln(1)
 		x.pdf.SetFont(fontSans, "B", 8.5)
 		x.pdf.CellFormat(0, 4.6, "Correlation matrix", "", 1, "L", false, 0, "")
 		cols := []column{{"", 28, "L"}}
-		for _, name := range s.ParamNames {
-			cols = append(cols, column{name, 24, "R"})
+		for _, p := range r.Params {
+			cols = append(cols, column{p.Name, 20, "R"})
 		}
 		var rowsT [][]string
-		for i, name := range s.ParamNames {
-			r := []string{name}
-			for j := range s.ParamNames {
-				r = append(r, fmt.Sprintf("%+.3f", s.Correlation[i][j]))
+		for i, p := range r.Params {
+			row := []string{p.Name}
+			for j := range r.Params {
+				row = append(row, fmt.Sprintf("%+.3f", r.Correlation[i][j]))
 			}
-			rowsT = append(rowsT, r)
+			rowsT = append(rowsT, row)
 		}
 		x.table(cols, rowsT)
 	}
-	for _, m := range s.Warnings {
+	for _, m := range r.Warnings {
 		x.para("Note: " + m)
 	}
 }
 
-func (x *pdfWriter) contents(s *Solution) {
-	c := s.Contents
+func (x *pdfWriter) contents(a *analysis.Analysis, cand *analysis.Candidate) {
+	c := cand.Contents
 	if c == nil {
 		return
 	}
 	x.heading("Cell contents")
 	how := "given"
-	if c.ZFromDensity {
+	if c.ZInferred {
 		how = "the allowed value nearest to the estimate from the measured density"
 	}
 	rows := [][2]string{
-		{"Formula", fmt.Sprintf("%s, M = %s g/mol (%s)", c.Formula, peaks.FormatESD(c.MolarMass, c.MolarMassESD), c.AtomicWeightTable)},
-		{"Z", fmt.Sprintf("%d (%s; %d lattice point(s) per cell, %g formula unit(s) per lattice point)", c.Z, how, c.LatticePoints, c.UnitsPerLattice)},
+		{"Formula", fmt.Sprintf("%s, M = %s g/mol (%s)", a.Settings.Formula.Text, esd.Format(c.MolarMass, c.MolarMassESD), AtomicWeights)},
+		{"Z", fmt.Sprintf("%d (%s; %d lattice point(s) per cell, %g formula unit(s) per lattice point)", c.Z, how, c.LatticePoints, c.FormulaUnitsPerLattice)},
 	}
-	if c.ZEst != nil {
+	if m := a.Settings.Density; m != nil {
 		var cands []string
 		for _, k := range c.Candidates {
-			cands = append(cands, fmt.Sprintf("%d (%+.1fσ)", k.Z, k.Sigma))
+			cands = append(cands, fmt.Sprintf("%d (%+.1fσ)", k.Z, k.Sigmas))
 		}
-		v := fmt.Sprintf("%s; allowed values nearest first: %s", peaks.FormatESD(*c.ZEst, *c.ZEstESD), strings.Join(cands, ", "))
-		if !*c.ZWhole {
+		v := fmt.Sprintf("%s; allowed values nearest first: %s", esd.Format(c.ZEst, c.ZEstESD), strings.Join(cands, ", "))
+		if !c.Whole {
 			v += " — no whole Z: the cell, the formula or the density is wrong"
 		}
 		rows = append(rows, [2]string{"Z from density", v})
 	}
-	rows = append(rows, [2]string{"X-ray density", c.DensityText + " g/cm³ (ρ = Z·M/(N_A·V), N_A = 6.02214076×10²³ per mol)"})
-	if c.Measured != nil {
-		rows = append(rows, [2]string{"Measured density", fmt.Sprintf("%s g/cm³, %+.1fσ from the X-ray density", peaks.FormatESD(*c.Measured, *c.MeasuredESD), *c.Discrepancy)})
+	rows = append(rows, [2]string{"X-ray density", esd.Format(c.Density, c.DensityESD) + " g/cm³ (ρ = Z·M/(N_A·V), N_A = 6.02214076×10²³ per mol)"})
+	if m := a.Settings.Density; m != nil {
+		rows = append(rows, [2]string{"Measured density", fmt.Sprintf("%s g/cm³, %+.1fσ from the X-ray density", esd.Format(m.Density, m.ESD), c.Sigmas)})
 	}
-	rows = append(rows, [2]string{"Atoms per cell", ftoa(c.AtomsPerCell)}, [2]string{"Mass per cell", fmt.Sprintf("%.3f g/mol", c.CellMass)})
+	rows = append(rows, [2]string{"Atoms per cell", ftoa(c.AtomsPerCell)}, [2]string{"Mass per cell", esd.Format(c.CellMass, c.CellMassESD) + " g/mol"})
 	x.keyValues(rows, 30)
 }
 
@@ -341,61 +362,87 @@ func (x *pdfWriter) table(cols []column, rows [][]string) {
 	}
 }
 
-func (x *pdfWriter) candidates(doc *Document, k int) {
+func (x *pdfWriter) candidates(a *analysis.Analysis) {
 	x.heading("Candidate cells")
-	if len(doc.Solutions) == 0 {
+	if len(a.Candidates) == 0 {
 		x.para("None within the search bounds.")
 		return
 	}
-	cols := []column{{"#", 7, "R"}, {"system", 24, "L"}, {"", 6, "C"}, {"a (Å)", 22, "R"}, {"c (Å)", 22, "R"}, {"V (Å³)", 20, "R"},
-		{"M20", 16, "R"}, {"F_N", 16, "R"}, {"indexed", 16, "R"}, {"Z", 10, "R"}, {"", 15, "L"}}
+	// Columns for the parameters that some candidate's system leaves
+	// free.
+	free := map[string]bool{}
+	for _, c := range a.Candidates {
+		for _, n := range c.Cell().System.FreeNames() {
+			free[n] = true
+		}
+	}
+	cols := []column{{"#", 7, "R"}, {"system", 22, "L"}, {"", 5, "C"}}
+	type param struct {
+		name, title string
+		get         func(cell.Cell) float64
+	}
+	params := []param{
+		{"a", "a (Å)", func(c cell.Cell) float64 { return c.A }}, {"b", "b (Å)", func(c cell.Cell) float64 { return c.B }},
+		{"c", "c (Å)", func(c cell.Cell) float64 { return c.C }}, {"alpha", "α (°)", func(c cell.Cell) float64 { return c.Alpha }},
+		{"beta", "β (°)", func(c cell.Cell) float64 { return c.Beta }}, {"gamma", "γ (°)", func(c cell.Cell) float64 { return c.Gamma }},
+	}
+	var shown []param
+	for _, p := range params {
+		if free[p.name] || p.name == "c" {
+			shown = append(shown, p)
+			cols = append(cols, column{p.title, 17, "R"})
+		}
+	}
+	cols = append(cols, column{"V (Å³)", 17, "R"}, column{fmt.Sprintf("M%d", a.Candidates[0].FigureLines), 12, "R"},
+		column{"F_N", 12, "R"}, column{"indexed", 13, "R"}, column{"Z", 10, "R"}, column{"", 13, "L"})
 	var rows [][]string
-	for i, s := range doc.Solutions {
+	for i, c := range a.Candidates {
+		ce := c.Cell()
 		z := ""
-		if s.Contents != nil {
-			z = fmt.Sprint(s.Contents.Z)
-			if s.Contents.ZWhole != nil && !*s.Contents.ZWhole {
+		if c.Contents != nil {
+			z = fmt.Sprint(c.Contents.Z)
+			if !c.Contents.Whole {
 				z += "?"
 			}
 		}
 		mark := ""
-		if i == k {
+		if i == a.Chosen {
 			mark = "reported"
 		}
-		rows = append(rows, []string{fmt.Sprint(s.Rank), s.System, s.Centring, fmt.Sprintf("%.5f", s.A), fmt.Sprintf("%.5f", s.C), fmt.Sprintf("%.2f", s.Volume),
-			fmt.Sprintf("%.1f", s.M), fmt.Sprintf("%.1f", s.FN), fmt.Sprintf("%d/%d", s.Indexed, s.Indexed+s.Unindexed), z, mark})
+		v, _ := c.Volume()
+		row := []string{fmt.Sprint(c.Rank), ce.System.String(), ce.Centring.String()}
+		for _, p := range shown {
+			row = append(row, fmt.Sprintf("%.4f", p.get(ce)))
+		}
+		row = append(row, fmt.Sprintf("%.2f", v), fmt.Sprintf("%.1f", c.M), fmt.Sprintf("%.1f", c.FN), fmt.Sprintf("%d/%d", c.Indexed, c.Indexed+c.Unindexed), z, mark)
+		rows = append(rows, row)
 	}
 	x.table(cols, rows)
 	x.pdf.SetFont(fontSans, "I", 7.5)
-	x.pdf.MultiCell(0, 3.6, fmt.Sprintf("M20 after de Wolff (1968) and F_N after Smith & Snyder (1979), over the first %d lines; a Z marked ? is not whole for the measured density.", doc.Solutions[0].N), "", "L", false)
+	x.pdf.MultiCell(0, 3.6, fmt.Sprintf("M_N after de Wolff (1968) and F_N after Smith & Snyder (1979), over the first %d lines; a Z marked ? is not whole for the measured density.", a.Candidates[0].FigureLines), "", "L", false)
 }
 
-func (x *pdfWriter) lines(doc *Document, k int) {
+func (x *pdfWriter) lines(a *analysis.Analysis) {
 	x.heading("Peaks and their indices")
-	res := map[float64]Residual{}
-	if k >= 0 && k < len(doc.Solutions) && doc.Solutions[k].Refined != nil {
-		for _, r := range doc.Solutions[k].Residuals {
-			res[r.TwoTheta] = r
-		}
-	}
 	cols := []column{{"#", 7, "R"}, {"2θ obs (°)", 24, "R"}, {"d (Å)", 22, "R"}, {"height", 16, "R"}, {"FWHM (°)", 15, "R"},
 		{"hkl", 30, "C"}, {"2θ calc (°)", 19, "R"}, {"Δ2θ (°)", 15, "R"}, {"Δ/σ", 11, "R"}, {"", 15, "L"}}
+	c := a.ChosenCandidate()
 	var rows [][]string
-	for i, r := range PeakRows(doc, k) {
+	for i, r := range PeakRows(a) {
 		note := ""
 		switch {
 		case r.Rejected:
 			note = "rejected"
 		case r.CompanionOf != nil:
 			note = fmt.Sprintf("Kβ of %d", *r.CompanionOf+1)
-		case !r.Indexed && k >= 0 && k < len(doc.Solutions):
+		case !r.Indexed && c != nil:
 			note = "unindexed"
 		}
 		calc, delta, norm := "", "", ""
 		if r.Indexed {
 			calc, delta = fmt.Sprintf("%.4f", r.TwoThetaCalc), fmt.Sprintf("%+.4f", r.Delta)
-			if rr, ok := res[r.TwoTheta]; ok {
-				norm = fmt.Sprintf("%+.1f", rr.Norm)
+			if _, rr, ok := lineOf(c, r.TwoTheta); ok && rr != nil {
+				norm = fmt.Sprintf("%+.1f", rr.Sigmas)
 				if rr.Flagged {
 					note = "flagged"
 				}
@@ -404,43 +451,48 @@ func (x *pdfWriter) lines(doc *Document, k int) {
 				}
 			}
 		}
-		rows = append(rows, []string{fmt.Sprint(i + 1), peaks.FormatESD(r.TwoTheta, r.TwoThetaESD), peaks.FormatESD(r.D, r.DESD),
+		rows = append(rows, []string{fmt.Sprint(i + 1), esd.Format(r.TwoTheta, r.TwoThetaESD), esd.Format(r.D, r.DESD),
 			fmt.Sprintf("%.0f", r.Height), fmt.Sprintf("%.4f", r.FWHM), r.HKL, calc, delta, norm, note})
 	}
 	x.table(cols, rows)
 }
 
-func (x *pdfWriter) settings(doc *Document) {
+func (x *pdfWriter) settings(a *analysis.Analysis) {
 	x.heading("Settings used")
-	s := doc.Settings
-	wl := s.Wavelength
-	if wl == "" {
-		wl = "from the file, else Cu"
-	}
-	opt := func(v string) string {
-		if v == "" {
-			return "none"
-		}
-		return v
-	}
+	s := a.Settings.Resolved(a.Scan)
 	z := "from the density"
 	if s.Z > 0 {
 		z = fmt.Sprint(s.Z)
 	}
+	var systems []string
+	for _, sys := range s.Systems {
+		systems = append(systems, sys.String())
+	}
+	formula, dens, std := "none", "none", "none"
+	if s.Formula != nil {
+		formula = s.Formula.Text
+	}
+	if s.Density != nil {
+		dens = s.Density.String() + " g/cm³"
+	}
+	if s.Standard != nil {
+		std = s.Standard.Name
+	}
 	rows := [][2]string{
-		{"wavelength", wl},
-		{"ka2_ratio", ftoa(s.Ka2Ratio)},
+		{"radiation", s.Radiation.Setting()},
+		{"ka2_ratio", ftoa(s.KAlpha2Ratio)},
 		{"threshold", ftoa(s.Threshold) + " esd of the fitted height"},
 		{"background_width", ftoa(s.BackgroundWidth) + "° 2θ (SNIP window)"},
-		{"systems", strings.Join(s.Systems, ", ")},
+		{"systems", strings.Join(systems, ", ")},
 		{"impurities", fmt.Sprintf("%d among the first 20 lines", s.Impurities)},
 		{"tolerance", ftoa(s.Tolerance) + "° 2θ (smallest matching window)"},
-		{"corrections", s.Corrections},
-		{"goniometer_radius_mm", ftoa(s.Radius)},
+		{"corrections", s.Corrections.String()},
+		{"radius_mm", ftoa(s.Radius)},
 		{"flag_limit", ftoa(s.FlagLimit) + " esd"},
-		{"esd_scaling", s.Scaling},
-		{"formula", opt(s.Formula)},
-		{"density", opt(s.Density)},
+		{"scaling", s.Scaling.String()},
+		{"standard", std},
+		{"formula", formula},
+		{"density", dens},
 		{"z", z},
 		{"rejected_peaks", angles(s.Rejected)},
 		{"added_peaks", angles(s.Added)},

@@ -4,6 +4,8 @@ import (
 	"encoding/json"
 	"fmt"
 	"os"
+
+	"reticle/analysis"
 )
 
 // SessionFormat and SessionVersion identify a session file.
@@ -16,10 +18,10 @@ const (
 // and SHA-256, to warn when the file has changed), the settings with the
 // user's peak edits, and the chosen solution.
 type Session struct {
-	Format   string   `json:"format"`
-	Version  int      `json:"version"`
-	Scan     ScanRef  `json:"scan"`
-	Settings Settings `json:"settings"`
+	Format   string            `json:"format"`
+	Version  int               `json:"version"`
+	Scan     ScanRef           `json:"scan"`
+	Settings analysis.Settings `json:"settings"`
 	// Solution is the chosen solution's rank (1-based); 0 means the best.
 	Solution int `json:"solution"`
 }
@@ -65,7 +67,7 @@ func ReadSession(path string) (*Session, error) {
 		if d.File == "" {
 			return nil, fmt.Errorf("report: result document %s names no scan", path)
 		}
-		return &Session{Format: SessionFormat, Version: SessionVersion, Scan: ScanRef{d.File, d.SHA256}, Settings: d.Settings}, nil
+		return &Session{Format: SessionFormat, Version: SessionVersion, Scan: ScanRef{d.File, d.SHA256}, Settings: d.Settings, Solution: d.Chosen}, nil
 	}
 	return nil, fmt.Errorf("report: %s is neither a %s session (format %q) nor a result document", path, Program, SessionFormat)
 }

@@ -65,6 +65,7 @@ func TestPeaksErrors(t *testing.T) {
 		{[]string{"peaks", "--wavelength", "Zz", demo}, 2, "expected an anode"},
 		{[]string{"peaks", bad}, 1, "kiln-bad.xy:3: column 2"},
 		{[]string{"peaks", "--ka2-ratio", "2", demo}, 2, "--ka2-ratio"},
+		{[]string{"peaks", "--systems", "cubic", demo}, 2, "unknown option --systems"},
 		{[]string{"peaks", filepath.Join(dir, "none.xy")}, 1, "no such file"},
 	} {
 		code, _, errs := runCmd(test.args...)
@@ -91,7 +92,7 @@ func TestIndexJSON(t *testing.T) {
 		t.Fatalf("no solutions: %s", out)
 	}
 	first := sols[0].(map[string]any)
-	for _, k := range []string{"system", "centring", "a", "b", "c", "alpha", "beta", "gamma", "m20", "fn", "indexed", "unindexed", "lines", "calculated"} {
+	for _, k := range []string{"system", "centring", "a", "b", "c", "alpha", "beta", "gamma", "m_n", "f_n", "indexed", "unindexed", "lines", "calculated"} {
 		if _, ok := first[k]; !ok {
 			t.Errorf("solution lacks %q", k)
 		}
@@ -99,7 +100,7 @@ func TestIndexJSON(t *testing.T) {
 	if first["system"] != "cubic" || first["centring"] != "F" {
 		t.Errorf("demo indexed as %v %v", first["system"], first["centring"])
 	}
-	code, _, errs = runCmd("index", "--systems", "cubic,monoclinic", demo)
+	code, _, errs = runCmd("index", "--systems", "cubic,monoclinical", demo)
 	if code != 2 || !strings.Contains(errs, "unknown crystal system") {
 		t.Errorf("bad --systems: exit %d, %q", code, errs)
 	}

@@ -2,79 +2,51 @@ package main
 
 import (
 	"context"
-	"flag"
 	"fmt"
 	"io"
 	"text/tabwriter"
 
-	"reticle/peaks"
+	"reticle/analysis"
+	"reticle/esd"
 	"reticle/report"
 )
 
-// peakJSON is one peak in the --json document.
-type peakJSON = report.Peak
-
-// scanJSON is the --json document for one scan.
+// scanJSON is the --json document of reticle peaks for one scan.
 type scanJSON struct {
 	report.ScanInfo
-	Warnings []string   `json:"warnings,omitempty"`
-	Peaks    []peakJSON `json:"peaks"`
+	Warnings []string      `json:"warnings,omitempty"`
+	Peaks    []report.Peak `json:"peaks"`
 }
 
-func cmdPeaks(args []string, stdout, stderr io.Writer) int {
-	fs := flag.NewFlagSet("peaks", flag.ContinueOnError)
-	fs.SetOutput(stderr)
-	wl := fs.String("wavelength", "", "anode symbol (K-alpha doublet), anode+Ka1, or wavelength in Å")
-	asJSON := fs.Bool("json", false, "print a JSON document instead of a table")
-	ratio := fs.Float64("ka2-ratio", peaks.DefaultKAlpha2Ratio, "K-alpha2/K-alpha1 intensity ratio of a doublet")
-	threshold := fs.Float64("threshold", 0, "significance a peak must reach, in esds of its height (0: the default, 4.5)")
-	bgWidth := fs.Float64("background-width", 0, "background clipping window, degrees 2θ (0: the default, 1.5)")
-	if err := fs.Parse(args); err != nil {
-		return 2
+func cmdPeaksRun(args []string, stdout, stderr io.Writer) int {
+	r, files, code, ok := start(cmdPeaks, args, stderr)
+	if !ok {
+		return code
 	}
-	if fs.NArg() == 0 {
+	if len(files) == 0 {
 		fmt.Fprintln(stderr, "reticle peaks: no scan file given")
 		return 2
 	}
-	if !(*ratio >= 0 && *ratio <= 1) || *threshold < 0 || *bgWidth < 0 {
-		fmt.Fprintln(stderr, "reticle peaks: --ka2-ratio must lie in 0…1, --threshold and --background-width must not be negative")
-		return 2
-	}
-	opt := peaks.Options{Threshold: *threshold, BackgroundWidth: *bgWidth}
-	if *wl != "" {
-		r, err := peaks.ParseRadiation(*wl)
-		if err != nil {
-			fmt.Fprintf(stderr, "reticle peaks: --wavelength: %v\n", err)
-			return 2
-		}
-		if r.Doublet() {
-			r.Ratio2 = *ratio
-		}
-		opt.Radiation = r
-	}
 	var docs []scanJSON
 	status := 0
-	for _, path := range fs.Args() {
-		s, err := peaks.ReadFile(path)
+	for _, path := range files {
+		e, err := analysis.ReadExtract(context.Background(), path, r.settings, nil)
 		if err != nil {
 			fmt.Fprintf(stderr, "reticle peaks: %v\n", err)
 			status = 1
 			continue
 		}
-		res, err := peaks.Extract(context.Background(), s, opt, nil)
-		if err != nil {
-			fmt.Fprintf(stderr, "reticle peaks: %s: %v\n", path, err)
-			status = 1
-			continue
+		doc := scanJSON{ScanInfo: report.NewScanInfo(e.Scan, e.Result.Radiation), Warnings: e.Scan.Warnings, Peaks: []report.Peak{}}
+		for _, p := range e.Result.Peaks {
+			doc.Peaks = append(doc.Peaks, report.NewPeak(p, false))
 		}
-		doc := toJSON(s, res)
-		if *asJSON {
+		if r.json {
 			docs = append(docs, doc)
 		} else {
-			printTable(stdout, doc)
+			printPeaks(stdout, doc)
 		}
 	}
-	if *asJSON {
+	if r.json && len(docs) > 0 {
 		if err := encodeDocs(stdout, docs); err != nil {
 			fmt.Fprintf(stderr, "reticle peaks: %v\n", err)
 			return 1
@@ -83,18 +55,17 @@ func cmdPeaks(args []string, stdout, stderr io.Writer) int {
 	return status
 }
 
-func toJSON(s *peaks.Scan, res *peaks.Result) scanJSON {
-	doc := scanJSON{
-		ScanInfo: report.NewScanInfo(s, res.Radiation), Warnings: s.Warnings,
-		Peaks: []peakJSON{},
+// encodeDocs prints one document, or {"scans": [...]} for several.
+func encodeDocs[T any](w io.Writer, docs []T) error {
+	if len(docs) == 1 {
+		return report.EncodeJSON(w, docs[0])
 	}
-	for _, p := range res.Peaks {
-		doc.Peaks = append(doc.Peaks, report.NewPeak(p))
-	}
-	return doc
+	return report.EncodeJSON(w, struct {
+		Scans []T `json:"scans"`
+	}{docs})
 }
 
-func printTable(w io.Writer, d scanJSON) {
+func printPeaks(w io.Writer, d scanJSON) {
 	fmt.Fprintf(w, "%s  %d points, %.3f–%.3f° 2θ, step %.4f°, %s\n", d.File, d.Points, d.Range[0], d.Range[1], d.Step, d.Radiation)
 	for _, m := range d.Warnings {
 		fmt.Fprintf(w, "warning: %s\n", m)
@@ -103,7 +74,7 @@ func printTable(w io.Writer, d scanJSON) {
 	fmt.Fprintln(tw, "#\t2θ (°)\td (Å)\theight\tFWHM (°)\tη\tS/N\tflags\t")
 	for i, p := range d.Peaks {
 		fmt.Fprintf(tw, "%d\t%s\t%s\t%.0f\t%.4f\t%.2f\t%.0f\t%s\t\n", i+1,
-			peaks.FormatESD(p.TwoTheta, p.TwoThetaESD), peaks.FormatESD(p.D, p.DESD),
+			esd.Format(p.TwoTheta, p.TwoThetaESD), esd.Format(p.D, p.DESD),
 			p.Height, p.FWHM, p.Eta, p.SNR, p.Flags)
 	}
 	tw.Flush()

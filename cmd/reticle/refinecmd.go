@@ -2,16 +2,13 @@ package main
 
 import (
 	"context"
-	"flag"
 	"fmt"
 	"io"
-	"strconv"
 	"strings"
 	"text/tabwriter"
 
-	"reticle/indexing"
-	"reticle/peaks"
-	"reticle/refine"
+	"reticle/analysis"
+	"reticle/esd"
 	"reticle/report"
 )
 
@@ -30,81 +27,41 @@ type refineDocJSON struct {
 	report.ScanInfo
 	StartCell string `json:"start_cell"`
 	report.CellValues
-	report.Refined
-	Standard   *standardJSON `json:"standard,omitempty"`
-	Unmatched  []float64     `json:"unmatched_lines"`
-	Overlapped []float64     `json:"overlapped_lines,omitempty"`
+	Refined    report.Refined `json:"refinement"`
+	Standard   *standardJSON  `json:"standard,omitempty"`
+	Unmatched  []float64      `json:"unmatched_lines"`
+	Overlapped []float64      `json:"overlapped_lines,omitempty"`
 }
 
-func cmdRefine(args []string, stdout, stderr io.Writer) int {
-	fs := flag.NewFlagSet("refine", flag.ContinueOnError)
-	fs.SetOutput(stderr)
-	wl := fs.String("wavelength", "", "anode symbol (K-alpha doublet), anode+Ka1, or wavelength in Å")
-	cellText := fs.String("cell", "", "starting cell, e.g. 'tetragonal P a=4.59 c=2.96' (required)")
-	asJSON := fs.Bool("json", false, "print a JSON document instead of a table")
-	tol := fs.Float64("tolerance", 0.03, "smallest 2θ window for matching a line, degrees")
-	exclude := fs.String("exclude", "", "comma-separated 2θ of lines to leave out, degrees")
-	rf := addRefineFlags(fs, "zero")
-	if err := fs.Parse(args); err != nil {
-		return 2
+func cmdRefineRun(args []string, stdout, stderr io.Writer) int {
+	r, files, code, ok := start(cmdRefine, args, stderr)
+	if !ok {
+		return code
 	}
-	if *cellText == "" {
+	if r.cell == nil {
 		fmt.Fprintln(stderr, "reticle refine: --cell is required, e.g. --cell 'cubic F a=5.64'")
 		return 2
 	}
-	cell, _, err := indexing.ParseCell(*cellText)
-	if err != nil {
-		fmt.Fprintf(stderr, "reticle refine: --cell: %v\n", err)
-		return 2
-	}
-	if fs.NArg() == 0 {
+	if len(files) == 0 {
 		fmt.Fprintln(stderr, "reticle refine: no scan file given")
 		return 2
 	}
-	if !(*tol > 0) {
-		fmt.Fprintf(stderr, "reticle refine: --tolerance: want a positive window in degrees, got %g\n", *tol)
-		return 2
-	}
-	m := refine.Matching{Tolerance: *tol}
-	if *exclude != "" {
-		for _, f := range strings.Split(*exclude, ",") {
-			v, err := strconv.ParseFloat(strings.TrimSpace(f), 64)
-			if err != nil {
-				fmt.Fprintf(stderr, "reticle refine: --exclude: %q is not an angle in degrees\n", f)
-				return 2
-			}
-			m.Exclude = append(m.Exclude, v)
-		}
-	}
-	if _, err := rf.options(1); err != nil {
-		fmt.Fprintf(stderr, "reticle refine: %v\n", err)
-		return 2
-	}
-	var popt peaks.Options
-	if *wl != "" {
-		r, err := peaks.ParseRadiation(*wl)
-		if err != nil {
-			fmt.Fprintf(stderr, "reticle refine: --wavelength: %v\n", err)
-			return 2
-		}
-		popt.Radiation = r
-	}
 	var docs []refineDocJSON
 	status := 0
-	for _, path := range fs.Args() {
-		doc, err := refineFile(path, cell, *cellText, popt, rf, m)
+	for _, path := range files {
+		doc, err := refineFile(path, r)
 		if err != nil {
 			fmt.Fprintf(stderr, "reticle refine: %v\n", err)
 			status = 1
 			continue
 		}
-		if *asJSON {
+		if r.json {
 			docs = append(docs, doc)
 		} else {
 			printRefinement(stdout, doc)
 		}
 	}
-	if *asJSON && len(docs) > 0 {
+	if r.json && len(docs) > 0 {
 		if err := encodeDocs(stdout, docs); err != nil {
 			fmt.Fprintf(stderr, "reticle refine: %v\n", err)
 			return 1
@@ -114,41 +71,28 @@ func cmdRefine(args []string, stdout, stderr io.Writer) int {
 }
 
 // refineFile extracts a scan's peaks and refines the cell against them.
-func refineFile(path string, cell indexing.Cell, cellText string, popt peaks.Options, rf *refineFlags, m refine.Matching) (refineDocJSON, error) {
-	s, err := peaks.ReadFile(path)
+func refineFile(path string, r *request) (refineDocJSON, error) {
+	ctx := context.Background()
+	e, err := analysis.ReadExtract(ctx, path, r.settings, nil)
 	if err != nil {
 		return refineDocJSON{}, err
 	}
-	pr, err := peaks.Extract(context.Background(), s, popt, nil)
-	if err != nil {
-		return refineDocJSON{}, fmt.Errorf("%s: %w", path, err)
-	}
-	var lines []indexing.Line
-	for _, p := range pr.Peaks {
-		if !p.Companion() {
-			lines = append(lines, indexing.Line{TwoTheta: p.TwoTheta, ESD: p.TwoThetaESD})
-		}
-	}
-	ropt, err := rf.options(pr.Radiation.Lambda1)
+	res, err := analysis.RefineCell(ctx, e, *r.cell, r.settings)
 	if err != nil {
 		return refineDocJSON{}, err
-	}
-	r, err := refine.RefineLines(context.Background(), cell, lines, ropt, m)
-	if err != nil {
-		return refineDocJSON{}, fmt.Errorf("%s: %w", path, err)
 	}
 	doc := refineDocJSON{
-		ScanInfo: report.NewScanInfo(s, pr.Radiation), StartCell: cellText,
-		CellValues: report.NewCellValues(r.Cell, r.Volume, r.Zero), Refined: report.NewRefined(r), Unmatched: []float64{},
+		ScanInfo: report.NewScanInfo(e.Scan, e.Result.Radiation), StartCell: r.cellText,
+		CellValues: report.NewCellValues(res.Cell, res.ESD, res.Volume, res.VolumeESD), Refined: report.NewRefined(res), Unmatched: []float64{},
 	}
-	for _, l := range r.Unmatched {
+	for _, l := range res.Unmatched {
 		doc.Unmatched = append(doc.Unmatched, l.TwoTheta)
 	}
-	for _, l := range r.Overlapped {
+	for _, l := range res.Overlapped {
 		doc.Overlapped = append(doc.Overlapped, l.TwoTheta)
 	}
-	if sf := r.StandardFit; sf != nil {
-		sj := &standardJSON{Name: sf.Standard.Name, Source: sf.Standard.Source, Cell: sf.Standard.Cell.String(), Lines: sf.N, Chi2Reduced: sf.Chi2Reduced, Residuals: []report.Residual{}}
+	if sf := res.StandardFit; sf != nil {
+		sj := &standardJSON{Name: sf.Standard.Name, Source: sf.Standard.Source, Cell: sf.Standard.Cell.String(), Lines: sf.Fitted, Chi2Reduced: sf.Chi2Reduced, Residuals: []report.Residual{}}
 		for _, rr := range sf.Residuals {
 			sj.Residuals = append(sj.Residuals, report.NewResidual(rr))
 		}
@@ -159,37 +103,43 @@ func refineFile(path string, cell indexing.Cell, cellText string, popt peaks.Opt
 
 func printRefinement(w io.Writer, d refineDocJSON) {
 	fmt.Fprintf(w, "%s  %s, λ = %.7f Å\n", d.File, d.Radiation, d.Wavelength)
-	fmt.Fprintf(w, "refined %s %s from %d lines (started from %s)\n", d.System, d.Centring, d.Fitted, d.StartCell)
-	for _, p := range d.Params {
+	f := d.Refined
+	fmt.Fprintf(w, "refined %s %s from %d lines (started from %s)\n", d.System, d.Centring, f.Fitted, d.StartCell)
+	fmt.Fprintf(w, "  cell          %s\n", d.Text)
+	for _, p := range f.Params {
 		note := ""
 		if p.FromStandard {
 			note = "  (from the internal standard)"
 		}
 		fmt.Fprintf(w, "  %-13s %s %s%s\n", p.Name, p.Text, p.Unit, note)
 	}
-	fmt.Fprintf(w, "  %-13s %s Å³\n", "volume", peaks.FormatESD(d.Volume, d.VolumeESD))
+	fmt.Fprintf(w, "  %-13s %s Å³\n", "volume", formatESD(d.Volume, d.VolumeESD))
 	scaled := "not scaled"
-	if d.Scaled {
+	if f.Scaled {
 		scaled = "esds scaled by it"
 	}
-	fmt.Fprintf(w, "  χ²_red = %.3f over %d degrees of freedom (%s; convention %q)\n", d.Chi2Reduced, d.DOF, scaled, d.Scaling)
-	if d.Displacement != nil {
-		fmt.Fprintf(w, "  goniometer radius %g mm\n", d.Radius)
+	fmt.Fprintf(w, "  χ²_red = %.3f over %d degrees of freedom (%s; convention %s)\n", f.Chi2Reduced, f.DOF, scaled, f.Scaling)
+	if f.Displacement != nil || f.Transparency != nil {
+		fmt.Fprintf(w, "  goniometer radius %g mm\n", f.Radius)
 	}
-	if len(d.ParamNames) > 1 {
+	if len(f.Params) > 1 {
 		fmt.Fprintln(w, "correlations:")
 		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
-		fmt.Fprintf(tw, "\t%s\t\n", strings.Join(d.ParamNames, "\t"))
-		for i, n := range d.ParamNames {
+		var names []string
+		for _, p := range f.Params {
+			names = append(names, p.Name)
+		}
+		fmt.Fprintf(tw, "\t%s\t\n", strings.Join(names, "\t"))
+		for i, n := range names {
 			row := []string{n}
-			for j := range d.ParamNames {
-				row = append(row, fmt.Sprintf("%+.3f", d.Correlation[i][j]))
+			for j := range names {
+				row = append(row, fmt.Sprintf("%+.3f", f.Correlation[i][j]))
 			}
 			fmt.Fprintf(tw, "%s\t\n", strings.Join(row, "\t"))
 		}
 		tw.Flush()
 	}
-	printResiduals(w, "lines", d.Residuals)
+	printResiduals(w, "lines", f.Residuals)
 	if d.Standard != nil {
 		fmt.Fprintf(w, "internal standard %s (%s), %d lines, χ²_red = %.3f\n", d.Standard.Name, d.Standard.Cell, d.Standard.Lines, d.Standard.Chi2Reduced)
 		printResiduals(w, "standard lines", d.Standard.Residuals)
@@ -200,7 +150,7 @@ func printRefinement(w io.Writer, d refineDocJSON) {
 	if len(d.Overlapped) > 0 {
 		fmt.Fprintf(w, "left out, overlapping both phases (°): %s\n", joinAngles(d.Overlapped))
 	}
-	for _, warn := range d.Warnings {
+	for _, warn := range f.Warnings {
 		fmt.Fprintf(w, "warning: %s\n", warn)
 	}
 	fmt.Fprintln(w)
@@ -218,7 +168,7 @@ func printResiduals(w io.Writer, title string, rs []report.Residual) {
 		case r.Flagged:
 			mark = "flagged"
 		}
-		fmt.Fprintf(tw, "%s\t%.4f\t%.4f\t%.4f\t%+.4f\t%+.1f\t%s\t\n", report.HKLText(r.HKL), r.TwoTheta, r.ESD, r.TwoThetaCalc, r.Delta, r.Norm, mark)
+		fmt.Fprintf(tw, "%s\t%.4f\t%.4f\t%.4f\t%+.4f\t%+.1f\t%s\t\n", report.HKLText(r.HKL), r.TwoTheta, r.ESD, r.TwoThetaCalc, r.Delta, r.Sigmas, mark)
 	}
 	tw.Flush()
 }
@@ -230,3 +180,6 @@ func joinAngles(v []float64) string {
 	}
 	return strings.Join(s, ", ")
 }
+
+// formatESD prints a value with its esd.
+func formatESD(v, u float64) string { return esd.Format(v, u) }

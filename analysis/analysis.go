@@ -1,0 +1,286 @@
+package analysis
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"sort"
+
+	"reticle/cell"
+	"reticle/density"
+	"reticle/indexing"
+	"reticle/peaks"
+	"reticle/refine"
+)
+
+// An Analysis is the result of every stage for one scan.
+type Analysis struct {
+	Scan       *peaks.Scan
+	Extraction *Extraction
+	// Settings are those the analysis ran with, as given (see
+	// Settings.Resolved for the defaults used).
+	Settings  Settings
+	Radiation peaks.Radiation // the radiation the peaks were fitted with
+	// Peaks are every extracted and added peak, by 2θ, with the user's
+	// rejections.
+	Peaks []Peak
+	// Lines are the lines indexed: peaks neither rejected nor
+	// companions, less the internal standard's lines.
+	Lines []cell.Line
+	// StandardLines are the lines of the internal standard, when one is
+	// set.
+	StandardLines []refine.Observation
+	// Search is the indexing's result; nil when there were no lines.
+	Search *indexing.Result
+	// Candidates are the cells found, best first.
+	Candidates []Candidate
+	// Chosen is the index of the candidate the user chose (0: the best).
+	Chosen   int
+	Warnings []string
+}
+
+// A Peak is an extracted or added peak with the user's verdict.
+type Peak struct {
+	peaks.Peak
+	Rejected bool
+}
+
+// A Candidate is one cell from the search, refined, with its contents.
+type Candidate struct {
+	Rank int // 1-based, after ranking by contents
+	indexing.Solution
+	// Refined is the least-squares refinement of the cell against its
+	// indexed lines; nil, with RefineErr saying why, when it failed.
+	Refined   *refine.Result
+	RefineErr error
+	// Contents, when a formula was given; ContentsErr says why not
+	// when they could not be worked out.
+	Contents    *density.Contents
+	ContentsErr error
+}
+
+// Cell returns the refined cell, or the indexing's when the refinement
+// failed.
+func (c *Candidate) Cell() cell.Cell {
+	if c.Refined != nil {
+		return c.Refined.Cell
+	}
+	return c.Solution.Cell
+}
+
+// Covariance returns the covariance of the cell's parameters: the
+// refinement's, or none.
+func (c *Candidate) Covariance() cell.Covariance {
+	if c.Refined != nil {
+		return c.Refined.Covariance
+	}
+	return cell.Covariance{}
+}
+
+// Volume returns the cell volume and its esd in Å³.
+func (c *Candidate) Volume() (float64, float64) {
+	if c.Refined != nil {
+		return c.Refined.Volume, c.Refined.VolumeESD
+	}
+	return c.Solution.Volume, 0
+}
+
+// Position returns the calculated 2θ (degrees) of reflection h: under the
+// refined cell and corrections, else the indexing's cell and zero offset.
+func (c *Candidate) Position(h cell.HKL, lambda float64) float64 {
+	if c.Refined != nil {
+		return c.Refined.Position(h)
+	}
+	return cell.TwoTheta(c.Solution.Cell.D(h), lambda) + c.Solution.Zero
+}
+
+// Line returns the candidate's record of the observed line at tt
+// (degrees 2θ): its indexing and, when refined, its residual.
+func (c *Candidate) Line(tt float64) (indexing.IndexedLine, *refine.Residual, bool) {
+	for _, l := range c.Lines {
+		if l.TwoTheta != tt {
+			continue
+		}
+		if c.Refined != nil {
+			for i := range c.Refined.Residuals {
+				if c.Refined.Residuals[i].TwoTheta == tt {
+					return l, &c.Refined.Residuals[i], true
+				}
+			}
+		}
+		return l, nil, true
+	}
+	return indexing.IndexedLine{}, nil, false
+}
+
+// ChosenCandidate returns the chosen candidate, or nil.
+func (a *Analysis) ChosenCandidate() *Candidate {
+	if a == nil || a.Chosen < 0 || a.Chosen >= len(a.Candidates) {
+		return nil
+	}
+	return &a.Candidates[a.Chosen]
+}
+
+// Choose makes candidate k (0-based) the chosen one.
+func (a *Analysis) Choose(k int) error {
+	if k < 0 || k >= len(a.Candidates) {
+		return fmt.Errorf("no candidate cell %d (%d found)", k+1, len(a.Candidates))
+	}
+	a.Chosen = k
+	return nil
+}
+
+// Run analyses a scan with the settings: Extract, then Analyse.
+func Run(ctx context.Context, scan *peaks.Scan, s Settings, progress Progress) (*Analysis, error) {
+	e, err := Extract(ctx, scan, s, progress)
+	if err != nil {
+		return nil, err
+	}
+	return Analyse(ctx, e, s, progress)
+}
+
+// Open reads a scan file and analyses it.
+func Open(ctx context.Context, path string, s Settings, progress Progress) (*Analysis, error) {
+	scan, err := peaks.ReadFile(path)
+	if err != nil {
+		return nil, err
+	}
+	return Run(ctx, scan, s, progress)
+}
+
+// Analyse runs the stages after the extraction: it indexes the peaks that
+// are neither rejected nor companions (less the internal standard's
+// lines), refines every candidate cell against its indexed lines and,
+// with a formula, works out the cells' contents (cells whose measured
+// density gives no whole Z rank last). The context cancels the work.
+func Analyse(ctx context.Context, e *Extraction, s Settings, progress Progress) (*Analysis, error) {
+	if err := s.Check(); err != nil {
+		return nil, fmt.Errorf("%s: settings: %w", e.Scan.Path, err)
+	}
+	pr := e.Result
+	a := &Analysis{
+		Scan: e.Scan, Extraction: e, Settings: s.Clone(), Radiation: pr.Radiation,
+		Warnings: append(append([]string(nil), e.Scan.Warnings...), pr.Warnings...),
+	}
+	for _, p := range e.peaks() {
+		a.Peaks = append(a.Peaks, Peak{Peak: p, Rejected: within(p.TwoTheta, s.Rejected)})
+	}
+	lambda := pr.Radiation.Lambda1
+	var lines []cell.Line
+	for _, p := range a.Peaks {
+		if !p.Companion() && !p.Rejected {
+			lines = append(lines, cell.Line{TwoTheta: p.TwoTheta, ESD: p.TwoThetaESD})
+		}
+	}
+	ro := s.refineOptions(lambda)
+	if s.Standard != nil {
+		std, rest, err := refine.MatchStandard(ctx, lines, *s.Standard, ro)
+		if err != nil {
+			return nil, fmt.Errorf("%s: internal standard %s: %w", e.Scan.Path, s.Standard.Name, err)
+		}
+		a.StandardLines, lines = std, rest
+		for i := range a.StandardLines {
+			a.StandardLines[i].Excluded = within(a.StandardLines[i].TwoTheta, s.Excluded)
+		}
+	}
+	a.Lines = lines
+	if len(lines) == 0 {
+		a.Warnings = append(a.Warnings, "no lines to index")
+		return a, nil
+	}
+	res, err := indexing.Index(ctx, lines, s.indexOptions(lambda), progress.of(StageIndexing))
+	if err != nil {
+		if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
+			return nil, err
+		}
+		return nil, fmt.Errorf("%s: %w", e.Scan.Path, err)
+	}
+	a.Search = res
+	for i, sol := range res.Solutions {
+		if progress != nil {
+			progress(StageRefinement, i, len(res.Solutions))
+		}
+		c := Candidate{Rank: i + 1, Solution: sol}
+		c.Refined, c.RefineErr = refineSolution(ctx, sol, a.StandardLines, ro, s.Excluded)
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		if s.Formula != nil {
+			c.Contents, c.ContentsErr = contents(&c, s)
+		}
+		a.Candidates = append(a.Candidates, c)
+	}
+	if s.Density != nil {
+		demoteFractionalZ(a.Candidates)
+	}
+	if progress != nil {
+		progress(StageRefinement, len(res.Solutions), len(res.Solutions))
+	}
+	return a, nil
+}
+
+// refineSolution refines a solution's cell against its indexed lines
+// (and the internal standard's), leaving out those within EditTolerance
+// of an angle in excluded.
+func refineSolution(ctx context.Context, sol indexing.Solution, std []refine.Observation, opt refine.Options, excluded []float64) (*refine.Result, error) {
+	var obs []refine.Observation
+	for _, l := range sol.Lines {
+		if l.Indexed && l.ESD > 0 {
+			obs = append(obs, refine.Observation{Line: cell.Line{TwoTheta: l.TwoTheta, ESD: l.ESD}, HKL: l.HKL, Excluded: within(l.TwoTheta, excluded)})
+		}
+	}
+	obs = append(obs, std...)
+	return refine.Refine(ctx, sol.Cell, obs, opt)
+}
+
+// contents works out a candidate's contents with the settings' formula,
+// density and Z.
+func contents(c *Candidate, s Settings) (*density.Contents, error) {
+	_, vesd := c.Volume()
+	return density.Compute(density.Input{Cell: c.Cell(), VolumeESD: vesd, Formula: *s.Formula, Z: s.Z, Measured: s.Density})
+}
+
+// demoteFractionalZ moves candidates whose measured density gives no whole
+// Z below those that do, keeping the order within each group, and
+// renumbers the ranks: a Z far from every allowed value is evidence
+// against a cell.
+func demoteFractionalZ(cs []Candidate) {
+	whole := func(c Candidate) bool { return c.Contents == nil || c.Contents.Whole }
+	sort.SliceStable(cs, func(a, b int) bool { return whole(cs[a]) && !whole(cs[b]) })
+	for i := range cs {
+		cs[i].Rank = i + 1
+	}
+}
+
+// Contents works out the contents of a cell with the given covariance
+// (zero when unknown) from the settings' formula, measured density and
+// Z.
+func Contents(c cell.Cell, cov cell.Covariance, s Settings) (*density.Contents, error) {
+	if s.Formula == nil {
+		return nil, fmt.Errorf("%w: no formula", density.ErrInput)
+	}
+	return density.Compute(density.Input{Cell: c, VolumeESD: c.VolumeESD(cov), Formula: *s.Formula, Z: s.Z, Measured: s.Density})
+}
+
+// RefineCell refines a known cell (typed in, or from the literature)
+// against the extraction's lines that are not rejected or companions:
+// the lines are assigned to the cell's calculated lines (and to the
+// internal standard's, when the settings name one) and the cell is
+// refined until the assignment is stable.
+func RefineCell(ctx context.Context, e *Extraction, c cell.Cell, s Settings) (*refine.Result, error) {
+	if err := s.Check(); err != nil {
+		return nil, fmt.Errorf("%s: settings: %w", e.Scan.Path, err)
+	}
+	var obs []refine.Observation
+	for _, p := range e.peaks() {
+		if !p.Companion() && !within(p.TwoTheta, s.Rejected) {
+			obs = append(obs, refine.Observation{Line: cell.Line{TwoTheta: p.TwoTheta, ESD: p.TwoThetaESD}, Excluded: within(p.TwoTheta, s.Excluded)})
+		}
+	}
+	opt := s.refineOptions(e.Result.Radiation.Lambda1)
+	r, err := refine.RefineLines(ctx, c, obs, opt, refine.Matching{Tolerance: s.Tolerance})
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", e.Scan.Path, err)
+	}
+	return r, nil
+}

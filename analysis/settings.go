@@ -1,0 +1,195 @@
+package analysis
+
+import (
+	"fmt"
+	"math"
+	"slices"
+
+	"reticle/cell"
+	"reticle/density"
+	"reticle/indexing"
+	"reticle/peaks"
+	"reticle/refine"
+)
+
+// EditTolerance is the distance, degrees 2θ, within which an edit's
+// position names a peak or a line: well below any peak's width, well
+// above the rounding of a position printed to 0.0001°.
+const EditTolerance = 0.005
+
+// Settings are every choice that shapes an analysis. The zero value of
+// every field means the default of the stage it belongs to; Resolved
+// fills the defaults in. The JSON names are those of session files and
+// result documents.
+type Settings struct {
+	// Sample names the specimen in the records.
+	Sample string `json:"sample,omitempty"`
+
+	// Radiation is the incident spectrum; nil means what the scan
+	// states (peaks.Scan.Radiation).
+	Radiation *peaks.Radiation `json:"radiation,omitempty"`
+	// KAlpha2Ratio is the K-alpha2/K-alpha1 intensity ratio of a
+	// doublet (peaks.DefaultKAlpha2Ratio).
+	KAlpha2Ratio float64 `json:"ka2_ratio,omitempty"`
+	// Threshold is the significance a peak must reach, in esds of its
+	// height (peaks.DefaultThreshold).
+	Threshold float64 `json:"threshold,omitempty"`
+	// BackgroundWidth is the background window, degrees 2θ
+	// (peaks.DefaultBackgroundWidth).
+	BackgroundWidth float64 `json:"background_width,omitempty"`
+
+	// Systems are the crystal systems searched (indexing's default).
+	Systems []cell.System `json:"systems,omitempty"`
+	// Impurities is how many of the first 20 lines may stay unindexed
+	// (indexing's default when zero; negative: none).
+	Impurities int `json:"impurities,omitempty"`
+	// Tolerance is the smallest window, degrees 2θ, within which a
+	// calculated line indexes an observed one (indexing's default).
+	Tolerance float64 `json:"tolerance,omitempty"`
+
+	// Corrections are the instrument corrections refined with each cell;
+	// nil means a zero shift.
+	Corrections *refine.Corrections `json:"corrections,omitempty"`
+	// Radius is the goniometer radius in mm (refine.DefaultRadius).
+	Radius float64 `json:"radius_mm,omitempty"`
+	// FlagLimit is the |Δ/σ| beyond which a line is flagged
+	// (refine.DefaultFlagLimit).
+	FlagLimit float64 `json:"flag_limit,omitempty"`
+	// Scaling is the convention for scaling esds by χ²_red.
+	Scaling refine.Scaling `json:"scaling"`
+	// Standard is an internal standard mixed into the sample, whose
+	// lines fix the corrections; nil means none.
+	Standard *refine.Standard `json:"standard,omitempty"`
+
+	// Formula, with a measured density or Z, gives every cell its
+	// contents; nil means none.
+	Formula *density.Formula `json:"formula,omitempty"`
+	// Density is the measured density; nil means none.
+	Density *density.Measured `json:"density,omitempty"`
+	// Z is the number of formula units per cell, when known.
+	Z int `json:"z,omitempty"`
+
+	// Rejected are the positions (degrees 2θ) of extracted peaks left
+	// out of the indexing.
+	Rejected []float64 `json:"rejected_peaks,omitempty"`
+	// Added are the positions (degrees 2θ) the user pointed at to add a
+	// peak the extraction missed; each is fitted again, in order.
+	Added []float64 `json:"added_peaks,omitempty"`
+	// Excluded are the positions (degrees 2θ) of indexed lines left out
+	// of the refinement.
+	Excluded []float64 `json:"excluded_lines,omitempty"`
+}
+
+// Clone returns a copy that shares no slices with s.
+func (s Settings) Clone() Settings {
+	s.Systems = slices.Clone(s.Systems)
+	s.Rejected = slices.Clone(s.Rejected)
+	s.Added = slices.Clone(s.Added)
+	s.Excluded = slices.Clone(s.Excluded)
+	return s
+}
+
+// Check reports a setting that no analysis can use, naming it.
+func (s Settings) Check() error {
+	switch {
+	case s.KAlpha2Ratio < 0 || s.KAlpha2Ratio > 1 || math.IsNaN(s.KAlpha2Ratio):
+		return fmt.Errorf("ka2_ratio: want 0…1, got %g", s.KAlpha2Ratio)
+	case s.Threshold < 0 || math.IsNaN(s.Threshold):
+		return fmt.Errorf("threshold: want a number of esds, got %g", s.Threshold)
+	case s.BackgroundWidth < 0 || math.IsNaN(s.BackgroundWidth):
+		return fmt.Errorf("background_width: want a window in degrees, got %g", s.BackgroundWidth)
+	case s.Tolerance < 0 || math.IsNaN(s.Tolerance):
+		return fmt.Errorf("tolerance: want a window in degrees, got %g", s.Tolerance)
+	case s.Radius < 0 || math.IsNaN(s.Radius) || math.IsInf(s.Radius, 0):
+		return fmt.Errorf("radius_mm: want a goniometer radius in mm, got %g", s.Radius)
+	case s.FlagLimit < 0 || math.IsNaN(s.FlagLimit):
+		return fmt.Errorf("flag_limit: want a number of esds, got %g", s.FlagLimit)
+	case s.Z < 0:
+		return fmt.Errorf("z: want a positive number of formula units, got %d", s.Z)
+	case s.Formula == nil && (s.Density != nil || s.Z != 0):
+		return fmt.Errorf("a density or Z needs a formula")
+	case s.Standard != nil && s.Corrections != nil && *s.Corrections == refine.None:
+		return fmt.Errorf("an internal standard fixes the instrument corrections: choose at least one")
+	}
+	for _, sys := range s.Systems {
+		if !sys.Valid() {
+			return fmt.Errorf("systems: unknown crystal system %d", int(sys))
+		}
+	}
+	return nil
+}
+
+// Resolved returns the settings with every default filled in from the
+// stage that owns it, as the records print them; the radiation is the
+// one scan implies when none is set.
+func (s Settings) Resolved(scan *peaks.Scan) Settings {
+	s = s.Clone()
+	po := s.peakOptions().Resolved(scan)
+	s.Radiation, s.KAlpha2Ratio, s.Threshold, s.BackgroundWidth = &po.Radiation, po.KAlpha2Ratio, po.Threshold, po.BackgroundWidth
+	io := s.indexOptions(0).Resolved()
+	s.Systems, s.Impurities, s.Tolerance = io.Systems, io.MaxImpurities, io.Tolerance
+	if s.Impurities == 0 {
+		s.Impurities = -1
+	}
+	ro := s.refineOptions(0).Resolved()
+	c := ro.Corrections
+	s.Corrections, s.Radius, s.FlagLimit = &c, ro.Radius, ro.FlagLimit
+	return s
+}
+
+// peakOptions are the extraction's options.
+func (s Settings) peakOptions() peaks.Options {
+	o := peaks.Options{KAlpha2Ratio: s.KAlpha2Ratio, Threshold: s.Threshold, BackgroundWidth: s.BackgroundWidth}
+	if s.Radiation != nil {
+		o.Radiation = *s.Radiation
+	}
+	return o
+}
+
+// indexOptions are the search's options for wavelength λ (Å).
+func (s Settings) indexOptions(lambda float64) indexing.Options {
+	return indexing.Options{Wavelength: lambda, Systems: s.Systems, MaxImpurities: s.Impurities, Tolerance: s.Tolerance}
+}
+
+// refineOptions are the refinement's options for wavelength λ (Å).
+func (s Settings) refineOptions(lambda float64) refine.Options {
+	o := refine.Options{Wavelength: lambda, Corrections: refine.Zero, Radius: s.Radius, FlagLimit: s.FlagLimit, Scaling: s.Scaling, Standard: s.Standard}
+	if s.Corrections != nil {
+		o.Corrections = *s.Corrections
+	}
+	return o
+}
+
+// within reports whether tt lies within EditTolerance of an angle in
+// list.
+func within(tt float64, list []float64) bool {
+	for _, r := range list {
+		if math.Abs(r-tt) <= EditTolerance {
+			return true
+		}
+	}
+	return false
+}
+
+// Reject leaves the peak at tt (degrees 2θ) out of the indexing, or takes
+// it back when it was left out.
+func (s *Settings) Reject(tt float64) {
+	s.Rejected = toggle(s.Rejected, tt)
+}
+
+// Exclude leaves the indexed line at tt (degrees 2θ) out of the
+// refinement, or takes it back when it was left out.
+func (s *Settings) Exclude(tt float64) {
+	s.Excluded = toggle(s.Excluded, tt)
+}
+
+// toggle removes the angles within EditTolerance of tt from list, or adds
+// tt when there were none.
+func toggle(list []float64, tt float64) []float64 {
+	n := len(list)
+	list = slices.DeleteFunc(slices.Clone(list), func(x float64) bool { return math.Abs(x-tt) <= EditTolerance })
+	if len(list) == n {
+		list = append(list, tt)
+	}
+	return list
+}

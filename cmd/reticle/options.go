@@ -1,0 +1,343 @@
+package main
+
+import (
+	"flag"
+	"fmt"
+	"io"
+	"strconv"
+	"strings"
+
+	"reticle/analysis"
+	"reticle/cell"
+	"reticle/density"
+	"reticle/peaks"
+	"reticle/refine"
+)
+
+// A command is a subcommand, as a bit of the set of commands an option
+// belongs to.
+type command uint
+
+const (
+	cmdPeaks command = 1 << iota
+	cmdIndex
+	cmdRefine
+	cmdContents
+	cmdReport
+)
+
+var commandNames = map[command]string{cmdPeaks: "peaks", cmdIndex: "index", cmdRefine: "refine", cmdContents: "contents", cmdReport: "report"}
+
+// request is everything a command line asks for: the analysis settings
+// and the options of the command itself.
+type request struct {
+	settings analysis.Settings
+	json     bool
+	cell     *cell.Cell // --cell
+	cellText string
+	out      string // report
+	paper    string
+	force    bool
+	session  string
+	solution int
+}
+
+// An option is one command-line option: its name, the placeholder of its
+// value (empty for a switch), its help, the default it shows, the
+// commands that accept it, and how it sets the request. Help and parsing
+// are both made from this one list.
+type option struct {
+	name, arg, help string
+	def             string
+	in              command
+	set             func(r *request, v string) error
+}
+
+// scanCommands are the commands that read scans.
+const scanCommands = cmdPeaks | cmdIndex | cmdRefine | cmdReport
+
+// analysisCommands are the commands that index, refine or report.
+const analysisCommands = cmdIndex | cmdRefine | cmdReport
+
+func floatOpt(dst func(r *request) *float64, check func(float64) bool, want string) func(*request, string) error {
+	return func(r *request, v string) error {
+		x, err := strconv.ParseFloat(strings.TrimSpace(v), 64)
+		if err != nil || !check(x) {
+			return fmt.Errorf("want %s, got %q", want, v)
+		}
+		*dst(r) = x
+		return nil
+	}
+}
+
+func positive(x float64) bool { return x > 0 && x < 1e300 }
+
+var options = []option{
+	{name: "wavelength", arg: "W", in: scanCommands, def: "the file's, else Cu",
+		help: "radiation: an anode (Cu, Co, Cr, Fe, Mo, Ag: its K-alpha doublet), an anode with Ka1 (CuKa1: K-alpha1 only) or a wavelength in Å",
+		set: func(r *request, v string) error {
+			rad, err := peaks.ParseRadiation(v)
+			if err != nil {
+				return err
+			}
+			r.settings.Radiation = &rad
+			return nil
+		}},
+	{name: "ka2-ratio", arg: "R", in: scanCommands, def: ftoa(peaks.DefaultKAlpha2Ratio),
+		help: "K-alpha2/K-alpha1 intensity ratio of a doublet",
+		set:  floatOpt(func(r *request) *float64 { return &r.settings.KAlpha2Ratio }, func(x float64) bool { return x > 0 && x <= 1 }, "a ratio above 0, at most 1")},
+	{name: "threshold", arg: "Z", in: scanCommands, def: ftoa(peaks.DefaultThreshold),
+		help: "significance a peak must reach, in esds of its height",
+		set:  floatOpt(func(r *request) *float64 { return &r.settings.Threshold }, positive, "a positive number of esds")},
+	{name: "background-width", arg: "D", in: scanCommands, def: ftoa(peaks.DefaultBackgroundWidth),
+		help: "window of the background estimate, degrees 2θ",
+		set:  floatOpt(func(r *request) *float64 { return &r.settings.BackgroundWidth }, positive, "a positive window in degrees")},
+	{name: "systems", arg: "LIST", in: cmdIndex | cmdReport, def: "cubic,tetragonal,hexagonal,rhombohedral",
+		help: "crystal systems to search, comma-separated",
+		set: func(r *request, v string) error {
+			r.settings.Systems = nil
+			for _, name := range strings.Split(v, ",") {
+				s, err := cell.ParseSystem(name)
+				if err != nil {
+					return err
+				}
+				r.settings.Systems = append(r.settings.Systems, s)
+			}
+			return nil
+		}},
+	{name: "impurities", arg: "N", in: cmdIndex | cmdReport, def: "3",
+		help: "lines among the first 20 that may stay unindexed",
+		set: func(r *request, v string) error {
+			n, err := strconv.Atoi(v)
+			if err != nil || n < 0 {
+				return fmt.Errorf("want a number of lines, 0 or more, got %q", v)
+			}
+			r.settings.Impurities = n
+			if n == 0 {
+				r.settings.Impurities = -1
+			}
+			return nil
+		}},
+	{name: "tolerance", arg: "D", in: analysisCommands, def: ftoa(cell.MatchTolerance),
+		help: "smallest window within which a calculated line indexes an observed one, degrees 2θ",
+		set:  floatOpt(func(r *request) *float64 { return &r.settings.Tolerance }, positive, "a positive window in degrees")},
+	{name: "corrections", arg: "LIST", in: analysisCommands, def: "zero",
+		help: "instrument corrections refined with the cell: zero, displacement, transparency or none, joined by +",
+		set: func(r *request, v string) error {
+			c, err := refine.ParseCorrections(v)
+			if err != nil {
+				return err
+			}
+			r.settings.Corrections = &c
+			return nil
+		}},
+	{name: "radius", arg: "MM", in: analysisCommands, def: ftoa(refine.DefaultRadius),
+		help: "goniometer radius for the displacement and transparency corrections, mm",
+		set:  floatOpt(func(r *request) *float64 { return &r.settings.Radius }, positive, "a positive radius in mm")},
+	{name: "flag-limit", arg: "K", in: analysisCommands, def: ftoa(refine.DefaultFlagLimit),
+		help: "flag lines whose |Δ/σ| exceeds K",
+		set:  floatOpt(func(r *request) *float64 { return &r.settings.FlagLimit }, positive, "a positive number of esds")},
+	{name: "scaling", arg: "S", in: analysisCommands, def: refine.ScaleSignificant.String(),
+		help: "when esds are multiplied by χ²_red: significant (χ² beyond its 95 % point), above-one, always or never",
+		set: func(r *request, v string) error {
+			s, err := refine.ParseScaling(v)
+			r.settings.Scaling = s
+			return err
+		}},
+	{name: "standard", arg: "S", in: analysisCommands, def: "none",
+		help: "internal standard mixed into the sample: Si, LaB6, a NIST lot (Si-640c, Si-640d, LaB6-660a, LaB6-660c; certified cells from memory) or a cell; its lines fix the corrections",
+		set: func(r *request, v string) error {
+			s, err := refine.ParseStandard(v)
+			if err != nil {
+				return err
+			}
+			r.settings.Standard = &s
+			return nil
+		}},
+	{name: "exclude", arg: "LIST", in: analysisCommands, def: "none",
+		help: "positions of lines to leave out of the refinement, degrees 2θ, comma-separated",
+		set: func(r *request, v string) error {
+			r.settings.Excluded = nil
+			for _, f := range strings.Split(v, ",") {
+				x, err := strconv.ParseFloat(strings.TrimSpace(f), 64)
+				if err != nil {
+					return fmt.Errorf("%q is not an angle in degrees", f)
+				}
+				r.settings.Excluded = append(r.settings.Excluded, x)
+			}
+			return nil
+		}},
+	{name: "cell", arg: "CELL", in: cmdRefine | cmdContents, def: "required",
+		help: "the cell, e.g. 'tetragonal P a=4.59 c=2.96' or 'monoclinic C a=9.41 b=5.38 c=6.12 beta=102.4'; values may carry esds, a=5.6402(3)",
+		set: func(r *request, v string) error {
+			c, _, err := cell.Parse(v)
+			if err != nil {
+				return err
+			}
+			r.cell, r.cellText = &c, v
+			return nil
+		}},
+	{name: "formula", arg: "F", in: cmdIndex | cmdContents | cmdReport, def: "none",
+		help: "one formula unit: MgAl2O4, Fe0.95O, Ca3(PO4)2, CuSO4·5H2O",
+		set: func(r *request, v string) error {
+			f, err := density.ParseFormula(v)
+			if err != nil {
+				return err
+			}
+			r.settings.Formula = &f
+			return nil
+		}},
+	{name: "density", arg: "D", in: cmdIndex | cmdContents | cmdReport, def: "none",
+		help: "measured density in g/cm³ with its esd, e.g. 3.58(2) (without an esd, 1 % is assumed)",
+		set: func(r *request, v string) error {
+			m, err := density.ParseMeasured(v)
+			if err != nil {
+				return err
+			}
+			r.settings.Density = &m
+			return nil
+		}},
+	{name: "z", arg: "N", in: cmdIndex | cmdContents | cmdReport, def: "from the density",
+		help: "formula units per cell",
+		set: func(r *request, v string) error {
+			n, err := strconv.Atoi(v)
+			if err != nil || n < 1 {
+				return fmt.Errorf("want a whole number of formula units, 1 or more, got %q", v)
+			}
+			r.settings.Z = n
+			return nil
+		}},
+	{name: "sample", arg: "NAME", in: cmdIndex | cmdReport, def: "the file's name",
+		help: "sample name printed in the records",
+		set:  func(r *request, v string) error { r.settings.Sample = v; return nil }},
+	{name: "out", arg: "DIR", in: cmdReport, def: "required",
+		help: "folder for NAME.pdf, NAME.cif, NAME.csv and NAME.json (NAME: the sample, else the scan's file name)",
+		set:  func(r *request, v string) error { r.out = v; return nil }},
+	{name: "paper", arg: "P", in: cmdReport, def: "A4",
+		help: "page size of the PDF: A4 or Letter",
+		set:  func(r *request, v string) error { r.paper = v; return nil }},
+	{name: "solution", arg: "N", in: cmdReport, def: "the session's, else 1",
+		help: "rank of the cell to report",
+		set: func(r *request, v string) error {
+			n, err := strconv.Atoi(v)
+			if err != nil || n < 1 {
+				return fmt.Errorf("want a rank of 1 or more, got %q", v)
+			}
+			r.solution = n
+			return nil
+		}},
+	{name: "session", arg: "FILE", in: cmdReport, def: "none",
+		help: "regenerate from a session file of the desktop program or an earlier report's JSON",
+		set:  func(r *request, v string) error { r.session = v; return nil }},
+	{name: "force", in: cmdReport,
+		help: "replace report files that exist (otherwise nothing is written)",
+		set:  func(r *request, _ string) error { r.force = true; return nil }},
+	{name: "json", in: cmdPeaks | cmdIndex | cmdRefine | cmdContents,
+		help: "print a JSON document instead of text",
+		set:  func(r *request, _ string) error { r.json = true; return nil }},
+}
+
+func ftoa(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+
+// parse reads the options of command c; errors name the option.
+func parse(c command, args []string, stderr io.Writer) (*request, []string, error) {
+	r := &request{}
+	fs := flag.NewFlagSet(commandNames[c], flag.ContinueOnError)
+	fs.SetOutput(io.Discard)
+	for _, o := range options {
+		if o.in&c == 0 {
+			continue
+		}
+		o := o
+		f := func(v string) error {
+			if err := o.set(r, v); err != nil {
+				return fmt.Errorf("%w", err)
+			}
+			return nil
+		}
+		if o.arg == "" {
+			fs.BoolFunc(o.name, o.help, f)
+		} else {
+			fs.Func(o.name, o.help, f)
+		}
+	}
+	if err := fs.Parse(args); err != nil {
+		if err == flag.ErrHelp {
+			fmt.Fprint(stderr, help(c))
+			return nil, nil, errHelp
+		}
+		return nil, nil, fmt.Errorf("%s (see reticle %s --help)", optionError(err), commandNames[c])
+	}
+	return r, fs.Args(), nil
+}
+
+// optionError rewrites the flag package's messages with the -- style
+// this program's help uses.
+func optionError(err error) string {
+	s := err.Error()
+	s = strings.Replace(s, "invalid value", "bad value", 1)
+	s = strings.Replace(s, " for flag -", " for --", 1)
+	s = strings.Replace(s, "flag provided but not defined: -", "unknown option --", 1)
+	s = strings.Replace(s, "flag needs an argument: -", "option needs a value: --", 1)
+	return s
+}
+
+// errHelp: the user asked for help, which was printed.
+var errHelp = fmt.Errorf("help")
+
+// help prints the options of command c from the option list.
+func help(c command) string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "usage: reticle %s %s\n\n%s\n\noptions:\n", commandNames[c], synopsis[c], about[c])
+	for _, o := range options {
+		if o.in&c == 0 {
+			continue
+		}
+		head := "  --" + o.name
+		if o.arg != "" {
+			head += " " + o.arg
+		}
+		text := o.help
+		if o.def != "" {
+			text += " (default: " + o.def + ")"
+		}
+		fmt.Fprintf(&b, "%-24s %s\n", head, wrap(text, 24, 78))
+	}
+	return b.String()
+}
+
+// wrap breaks text into lines of at most width columns, continuation
+// lines indented by indent.
+func wrap(text string, indent, width int) string {
+	var b strings.Builder
+	col := indent
+	for i, w := range strings.Fields(text) {
+		n := len([]rune(w))
+		if i > 0 && col+1+n > width {
+			b.WriteString("\n" + strings.Repeat(" ", indent+1))
+			col = indent
+		} else if i > 0 {
+			b.WriteByte(' ')
+			col++
+		}
+		b.WriteString(w)
+		col += n
+	}
+	return b.String()
+}
+
+var synopsis = map[command]string{
+	cmdPeaks:    "[options] FILE...",
+	cmdIndex:    "[options] FILE...",
+	cmdRefine:   "--cell CELL [options] FILE...",
+	cmdContents: "--cell CELL --formula F [--z N | --density D] [options]",
+	cmdReport:   "--out DIR [options] FILE... | --out DIR --session FILE",
+}
+
+var about = map[command]string{
+	cmdPeaks:    "Finds and fits the peaks of each scan.",
+	cmdIndex:    "Finds the unit cell from the peaks of each scan, refines every candidate cell and, with a formula, works out its contents.",
+	cmdRefine:   "Refines a known cell against the peaks of each scan.",
+	cmdContents: "Works out formula units, X-ray density and atoms per cell of a cell.",
+	cmdReport:   "Runs the analysis of index and writes its records (PDF, CIF, CSV, JSON) into a folder.",
+}

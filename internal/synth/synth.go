@@ -1,0 +1,233 @@
+// Package synth simulates powder diffraction scans for the project's own
+// tests and demo: the lines of one or more cells, with a K-alpha doublet,
+// instrument errors, a width curve, a background and Poisson noise. The
+// scans are invented test data; the simulation shares with the program
+// only Bragg's law and the cell's reflection list (package cell), and
+// writes its profile formula out again so that a mistake in the fitter's
+// cannot cancel in a test.
+package synth
+
+import (
+	"fmt"
+	"hash/fnv"
+	"math"
+	"math/rand/v2"
+	"sort"
+	"strings"
+
+	"reticle/cell"
+)
+
+const deg = math.Pi / 180
+
+// A Phase is one crystalline phase of a simulated sample.
+type Phase struct {
+	Cell cell.Cell
+	// Scale is the height of the phase's strongest line relative to the
+	// scan's Peak height; zero means 1.
+	Scale float64
+	// Height gives a reflection's relative intensity; nil means
+	// multiplicity × Lorentz–polarisation factor × a fixed pseudo-random
+	// factor between 0.05 and 1 drawn from the indices.
+	Height func(h cell.HKL, twoTheta float64, mult int) float64
+}
+
+// An Instrument describes the radiation and the instrument's errors.
+type Instrument struct {
+	Lambda1 float64 // K-alpha1 (or single) wavelength, Å
+	Lambda2 float64 // K-alpha2, Å; zero for a single line
+	Ratio2  float64 // K-alpha2/K-alpha1 intensity; zero means 0.5 with Lambda2
+	// Zero is the zero shift, degrees 2θ; Displacement the sample
+	// displacement in mm (shift −2s·cos θ/R); Radius the goniometer
+	// radius in mm (zero means 240).
+	Zero, Displacement, Radius float64
+	// U, V, W give the FWHM, degrees 2θ: FWHM² = U tan²θ + V tan θ + W
+	// (Caglioti et al. 1958). All zero means U 0.004, V −0.001, W 0.0045.
+	U, V, W float64
+	// Eta is the pseudo-Voigt Lorentzian fraction; zero means 0.5.
+	Eta float64
+}
+
+// A Spec is a scan to simulate.
+type Spec struct {
+	Phases     []Phase
+	Instrument Instrument
+	// From, To and Step are the scan's range and step, degrees 2θ.
+	From, To, Step float64
+	// Peak is the height of the strongest line in counts; zero means
+	// 5,000.
+	Peak float64
+	// Background gives the background counts at 2θ; nil means
+	// 60 + 900/2θ.
+	Background func(twoTheta float64) float64
+	// Noiseless leaves the counts at their expected values.
+	Noiseless bool
+}
+
+// A Line is one simulated reflection.
+type Line struct {
+	Phase    int
+	HKL      []cell.HKL
+	D        float64 // Å
+	TwoTheta float64 // K-alpha1 position with the instrument errors, degrees
+	Height   float64 // peak height of the K-alpha1 component, counts
+	FWHM     float64 // degrees 2θ
+}
+
+// A Scan is a simulated scan with its true lines.
+type Scan struct {
+	TwoTheta, Counts []float64
+	Lines            []Line // sorted by 2θ
+}
+
+func (in Instrument) withDefaults() Instrument {
+	if in.Radius == 0 {
+		in.Radius = 240
+	}
+	if in.Lambda2 > 0 && in.Ratio2 == 0 {
+		in.Ratio2 = 0.5
+	}
+	if in.U == 0 && in.V == 0 && in.W == 0 {
+		in.U, in.V, in.W = 0.004, -0.001, 0.0045
+	}
+	if in.Eta == 0 {
+		in.Eta = 0.5
+	}
+	return in
+}
+
+// position returns the observed 2θ of d-spacing d at wavelength lambda,
+// with the zero shift and displacement.
+func (in Instrument) position(d, lambda float64) float64 {
+	tt := cell.TwoTheta(d, lambda)
+	if math.IsNaN(tt) {
+		return tt
+	}
+	return tt + in.Zero - 2*in.Displacement*math.Cos(tt/2*deg)/in.Radius/deg
+}
+
+// fwhm returns the width at 2θ.
+func (in Instrument) fwhm(tt float64) float64 {
+	t := math.Tan(tt / 2 * deg)
+	return math.Sqrt(math.Max(in.U*t*t+in.V*t+in.W, 1e-6))
+}
+
+// pv is the pseudo-Voigt function of unit height, written out here.
+func pv(x, x0, fwhm, eta float64) float64 {
+	u := (x - x0) / fwhm
+	return eta/(1+4*u*u) + (1-eta)*math.Exp(-4*math.Ln2*u*u)
+}
+
+// shade is a fixed pseudo-random factor in [0.05, 1) from the indices.
+func shade(h cell.HKL, phase int) float64 {
+	f := fnv.New32a()
+	fmt.Fprintf(f, "%d %d %d %d", phase, h[0], h[1], h[2])
+	return 0.05 + 0.95*float64(f.Sum32()%1000)/1000
+}
+
+// Simulate computes the scan.
+func Simulate(s Spec, rng *rand.Rand) *Scan {
+	in := s.Instrument.withDefaults()
+	if s.Peak == 0 {
+		s.Peak = 5000
+	}
+	if s.Background == nil {
+		s.Background = func(tt float64) float64 { return 60 + 900/tt }
+	}
+	n := int(math.Round((s.To-s.From)/s.Step)) + 1
+	out := &Scan{TwoTheta: make([]float64, n), Counts: make([]float64, n)}
+	for i := range out.TwoTheta {
+		out.TwoTheta[i] = s.From + float64(i)*s.Step
+	}
+	qmax := cell.QOf(math.Min(s.To+2, 179), in.Lambda1)
+	for pi, ph := range s.Phases {
+		scale := ph.Scale
+		if scale == 0 {
+			scale = 1
+		}
+		var lines []Line
+		top := 0.0
+		for _, r := range cell.Reflections(ph.Cell, qmax) {
+			tt := in.position(r.D, in.Lambda1)
+			if math.IsNaN(tt) || tt < s.From-1 || tt > s.To+1 {
+				continue
+			}
+			var h float64
+			if ph.Height != nil {
+				h = ph.Height(r.HKL[0], tt, r.Mult)
+			} else {
+				th := tt / 2 * deg
+				lp := (1 + math.Pow(math.Cos(2*th), 2)) / (math.Pow(math.Sin(th), 2) * math.Cos(th))
+				h = float64(r.Mult) * lp * shade(r.HKL[0], pi)
+			}
+			top = math.Max(top, h)
+			lines = append(lines, Line{Phase: pi, HKL: r.HKL, D: r.D, TwoTheta: tt, Height: h, FWHM: in.fwhm(tt)})
+		}
+		for i := range lines {
+			lines[i].Height *= s.Peak * scale / top
+		}
+		out.Lines = append(out.Lines, lines...)
+	}
+	sort.SliceStable(out.Lines, func(i, j int) bool { return out.Lines[i].TwoTheta < out.Lines[j].TwoTheta })
+	for i, x := range out.TwoTheta {
+		out.Counts[i] = s.Background(x)
+	}
+	for _, l := range out.Lines {
+		comps := [][2]float64{{l.TwoTheta, l.Height}}
+		if in.Lambda2 > 0 {
+			comps = append(comps, [2]float64{in.position(l.D, in.Lambda2), l.Height * in.Ratio2})
+		}
+		for _, c := range comps {
+			if math.IsNaN(c[0]) {
+				continue
+			}
+			reach := 40 * l.FWHM
+			lo := sort.SearchFloat64s(out.TwoTheta, c[0]-reach)
+			for i := lo; i < n && out.TwoTheta[i] <= c[0]+reach; i++ {
+				out.Counts[i] += c[1] * pv(out.TwoTheta[i], c[0], l.FWHM, in.Eta)
+			}
+		}
+	}
+	if !s.Noiseless {
+		for i, m := range out.Counts {
+			out.Counts[i] = float64(poisson(rng, m))
+		}
+	}
+	return out
+}
+
+// poisson returns a Poisson variate of the given mean: Knuth's
+// multiplication method below 50, the normal approximation with continuity
+// correction above.
+func poisson(rng *rand.Rand, mean float64) int {
+	if mean <= 0 {
+		return 0
+	}
+	if mean > 50 {
+		return int(math.Max(0, math.Floor(mean+math.Sqrt(mean)*rng.NormFloat64()+0.5)))
+	}
+	l := math.Exp(-mean)
+	k, p := 0, 1.0
+	for {
+		p *= rng.Float64()
+		if p <= l {
+			return k
+		}
+		k++
+	}
+}
+
+// Text writes the scan as a whitespace two-column export with a comment
+// header.
+func (s *Scan) Text(header string) []byte {
+	var b strings.Builder
+	for _, h := range strings.Split(header, "\n") {
+		if h != "" {
+			b.WriteString("# " + h + "\n")
+		}
+	}
+	for i := range s.TwoTheta {
+		fmt.Fprintf(&b, "%.4f %.0f\n", s.TwoTheta[i], s.Counts[i])
+	}
+	return []byte(b.String())
+}
