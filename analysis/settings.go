@@ -121,11 +121,17 @@ func (s Settings) Check() error {
 
 // Resolved returns the settings with every default filled in from the
 // stage that owns it, as the records print them; the radiation is the
-// one scan implies when none is set.
+// one scan implies when none is set (it stays unset without a scan).
 func (s Settings) Resolved(scan *peaks.Scan) Settings {
 	s = s.Clone()
+	if scan == nil {
+		scan = &peaks.Scan{}
+	}
 	po := s.peakOptions().Resolved(scan)
-	s.Radiation, s.KAlpha2Ratio, s.Threshold, s.BackgroundWidth = &po.Radiation, po.KAlpha2Ratio, po.Threshold, po.BackgroundWidth
+	s.KAlpha2Ratio, s.Threshold, s.BackgroundWidth = po.KAlpha2Ratio, po.Threshold, po.BackgroundWidth
+	if s.Radiation != nil || scan.Len() > 0 {
+		s.Radiation = &po.Radiation
+	}
 	io := s.indexOptions(0).Resolved()
 	s.Systems, s.Impurities, s.Tolerance = io.Systems, io.MaxImpurities, io.Tolerance
 	if s.Impurities == 0 {

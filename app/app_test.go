@@ -165,7 +165,7 @@ func TestWorkflow(t *testing.T) {
 	u.densityEntry.SetText("3.58(2)")
 	u.applyContents()
 	u.wait()
-	if c := u.contentsSummary(); !strings.Contains(c, "Z                    8") || !strings.Contains(c, "atoms per cell       56") {
+	if c := u.contentsSummary(); !strings.Contains(c, "Z                 8 (") || !strings.Contains(c, "atoms per cell    56") {
 		t.Fatalf("contents %q", c)
 	}
 	if z := cellColumnText(u, 1, "Z"); z != "8" {

@@ -416,11 +416,7 @@ func (u *ui) refineStep() fyne.CanvasObject {
 	}
 	u.zeroCheck = widget.NewCheck("zero shift", setCorr)
 	u.dispCheck = widget.NewCheck("sample displacement", setCorr)
-	u.refreshing = true
-	u.zeroCheck.SetChecked(true)
-	u.refreshing = false
 	u.radiusEntry = widget.NewEntry()
-	u.radiusEntry.SetText(strconv.FormatFloat(refine.DefaultRadius, 'g', -1, 64))
 	u.radiusEntry.OnSubmitted = func(t string) {
 		r, err := strconv.ParseFloat(strings.TrimSpace(t), 64)
 		if err != nil || !(r > 0) {
@@ -464,9 +460,6 @@ func (u *ui) refineStep() fyne.CanvasObject {
 		u.syncFields()
 		u.edited()
 	}
-	u.refreshing = true
-	u.scalingSel.SetSelected("significant")
-	u.refreshing = false
 	u.paramsText = widget.NewLabel("")
 	u.paramsText.TextStyle = fyne.TextStyle{Monospace: true}
 	u.paramsText.Wrapping = fyne.TextWrapWord
@@ -504,41 +497,16 @@ func (u *ui) paramsSummary() string {
 	if c == nil {
 		return "No cell yet."
 	}
-	var b strings.Builder
 	ce := c.Cell()
-	fmt.Fprintf(&b, "%s %s  (candidate %d)\n", ce.System, ce.Centring, u.m.Selected+1)
+	head := fmt.Sprintf("%s %s  (candidate %d)\n", ce.System, ce.Centring, u.m.Selected+1)
 	if c.Refined == nil {
-		fmt.Fprintf(&b, "not refined: %v\n", c.RefineErr)
-		return b.String()
+		return head + fmt.Sprintf("not refined: %v\n", c.RefineErr)
 	}
-	r := c.Refined
-	for _, p := range r.Params {
-		note := ""
-		if p.Fixed {
-			note = " (internal standard)"
-		}
-		fmt.Fprintf(&b, "%-13s %s %s%s\n", p.Name, esd.Format(p.Value, p.ESD), p.Unit, note)
-	}
-	fmt.Fprintf(&b, "%-13s %s Å³\n", "volume", esd.Format(r.Volume, r.VolumeESD))
-	scaled := "not scaled"
-	if r.Scaled {
-		scaled = "esds scaled by it"
-	}
-	fmt.Fprintf(&b, "χ²_red %.3f, %d degrees of freedom (%s)\n", r.Chi2Reduced, r.DOF, scaled)
-	fmt.Fprintf(&b, "M%d %.1f   F%d %.1f (%.4f°, %d)\n", c.FigureLines, c.M, c.FigureLines, c.FN, c.FNMeanDiff, c.FNPossible)
-	if sf := r.StandardFit; sf != nil {
-		fmt.Fprintf(&b, "corrections fixed by the internal standard %s (%d lines, χ²_red %.3f)\n", sf.Standard.Name, sf.Fitted, sf.Chi2Reduced)
-	}
-	if len(r.Params) > 1 {
-		b.WriteString("correlations:")
-		for i := range r.Params {
-			for j := i + 1; j < len(r.Params); j++ {
-				fmt.Fprintf(&b, " %s–%s %+.3f", r.Params[i].Name, r.Params[j].Name, r.Correlation[i][j])
-			}
-		}
-		b.WriteString("\n")
-	}
-	for _, w := range r.Warnings {
+	var b strings.Builder
+	b.WriteString(head)
+	b.WriteString(report.Text(append(report.RefinementRows(c.Refined),
+		report.Row{Label: "figures of merit", Value: fmt.Sprintf("M%d %.1f, F%d %.1f (%.4f°, %d)", c.FigureLines, c.M, c.FigureLines, c.FN, c.FNMeanDiff, c.FNPossible)})))
+	for _, w := range c.Refined.Warnings {
 		fmt.Fprintf(&b, "note: %s\n", w)
 	}
 	return b.String()
@@ -616,36 +584,14 @@ func (u *ui) contentsSummary() string {
 	if cand == nil {
 		return ""
 	}
-	c := cand.Contents
-	if c == nil {
+	if cand.Contents == nil {
 		if cand.ContentsErr != nil {
 			return fmt.Sprintf("No contents: %v", cand.ContentsErr)
 		}
 		return "Type a formula and a measured density (or Z) to see formula units, X-ray density and atoms per cell."
 	}
-	s := u.m.Settings
-	var b strings.Builder
 	ce := cand.Cell()
-	fmt.Fprintf(&b, "%s %s cell, %s (M = %s g/mol)\n", ce.System, ce.Centring, s.Formula.Text, esd.Format(c.MolarMass, c.MolarMassESD))
-	if s.Density != nil {
-		fmt.Fprintf(&b, "Z from the density   %s", esd.Format(c.ZEst, c.ZEstESD))
-		if !c.Whole {
-			b.WriteString("  — not whole for this lattice: the cell, formula or density is wrong")
-		}
-		b.WriteString("\n")
-	}
-	how := "given"
-	if c.ZInferred {
-		how = "nearest allowed"
-	}
-	fmt.Fprintf(&b, "Z                    %d (%s; %d lattice point(s), %g per point)\n", c.Z, how, c.LatticePoints, c.FormulaUnitsPerLattice)
-	fmt.Fprintf(&b, "X-ray density        %s g/cm³\n", esd.Format(c.Density, c.DensityESD))
-	if s.Density != nil {
-		fmt.Fprintf(&b, "measured density     %s g/cm³ (%+.1fσ)\n", s.Density, c.Sigmas)
-	}
-	fmt.Fprintf(&b, "atoms per cell       %g\n", c.AtomsPerCell)
-	fmt.Fprintf(&b, "formula mass / cell  %s g/mol\n", esd.Format(c.CellMass, c.CellMassESD))
-	return b.String()
+	return fmt.Sprintf("%s %s cell\n", ce.System, ce.Centring) + report.Text(report.ContentsRows(cand.Contents, *u.m.Settings.Formula, u.m.Settings.Density))
 }
 
 // cellText is the chosen cell as the clipboard receives it: its text

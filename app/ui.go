@@ -146,6 +146,7 @@ func (u *ui) build() {
 	})
 	u.shortcuts()
 	u.updateButtons()
+	u.syncFields()
 }
 
 // shortcuts binds the keyboard.
@@ -377,10 +378,7 @@ func (u *ui) refreshAll() {
 func (u *ui) syncFields() {
 	u.refreshing = true
 	defer func() { u.refreshing = false }()
-	s := u.m.Settings
-	if scan := u.m.Scan(); scan != nil {
-		s = s.Resolved(scan)
-	}
+	s := u.m.Settings.Resolved(u.m.Scan())
 	c := refine.Zero
 	if s.Corrections != nil {
 		c = *s.Corrections

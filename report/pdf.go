@@ -147,18 +147,18 @@ func (x *pdfWriter) para(s string) {
 }
 
 // keyValues prints two columns of labels and values.
-func (x *pdfWriter) keyValues(rows [][2]string, labelWidth float64) {
+func (x *pdfWriter) keyValues(rows []Row, labelWidth float64) {
 	p := x.pdf
 	for _, r := range rows {
 		p.SetFont(fontSans, "B", 8.5)
-		p.CellFormat(labelWidth, 4.6, r[0], "", 0, "L", false, 0, "")
+		p.CellFormat(labelWidth, 4.6, r.Label, "", 0, "L", false, 0, "")
 		font := fontSans
 		size := 8.5
-		if strings.HasPrefix(r[0], "SHA-256") {
+		if strings.HasPrefix(r.Label, "SHA-256") {
 			font, size = fontMono, 7.5
 		}
 		p.SetFont(font, "", size)
-		p.MultiCell(x.width-labelWidth, 4.6, r[1], "", "L", false)
+		p.MultiCell(x.width-labelWidth, 4.6, r.Value, "", "L", false)
 	}
 }
 
@@ -180,7 +180,7 @@ func (x *pdfWriter) header(a *analysis.Analysis, title string, date time.Time) {
 		sample = "(not named)"
 	}
 	lo, hi := a.Scan.Range()
-	rows := [][2]string{
+	rows := []Row{
 		{"Sample", sample},
 		{"Input file", a.Scan.Path},
 		{"SHA-256", a.Scan.SHA256},
@@ -192,7 +192,7 @@ func (x *pdfWriter) header(a *analysis.Analysis, title string, date time.Time) {
 		{"Lines", fmt.Sprintf("%d peaks extracted, %d lines indexed (K-beta companions, rejected peaks and the standard's lines left out)", len(a.Peaks), len(a.Lines))},
 	}
 	if c := a.ChosenCandidate(); c != nil {
-		rows = append(rows, [2]string{"Cell reported", fmt.Sprintf("candidate %d of %d: %s %s", c.Rank, len(a.Candidates), c.Cell().System, c.Cell().Centring)})
+		rows = append(rows, Row{"Cell reported", fmt.Sprintf("candidate %d of %d: %s %s", c.Rank, len(a.Candidates), c.Cell().System, c.Cell().Centring)})
 	}
 	x.keyValues(rows, 30)
 }
@@ -247,22 +247,8 @@ func (x *pdfWriter) refined(c *analysis.Candidate) {
 		return
 	}
 	r := c.Refined
-	rows := [][2]string{{"Lattice", fmt.Sprintf("%s %s", ce.System, ce.Centring)}}
-	for _, p := range r.Params {
-		v := esd.Format(p.Value, p.ESD) + " " + p.Unit
-		if p.Fixed {
-			v += " (from the internal standard)"
-		}
-		rows = append(rows, [2]string{p.Name, v})
-	}
-	rows = append(rows, [2]string{"volume", esd.Format(r.Volume, r.VolumeESD) + " Å³"})
-	scaled := "esds not scaled"
-	if r.Scaled {
-		scaled = "esds multiplied by χ²_red"
-	}
-	rows = append(rows, [2]string{"fit", fmt.Sprintf("%d lines, %d degrees of freedom, χ²_red = %.3f (%s; convention: %s)", r.Fitted, r.DOF, r.Chi2Reduced, scaled, r.Scaling)})
 	s := c.Solution
-	rows = append(rows, [2]string{"figures of merit", fmt.Sprintf("M%d = %.1f (de Wolff 1968), F%d = %.1f (%.4f°, %d) (Smith & Snyder 1979)", s.FigureLines, s.M, s.FigureLines, s.FN, s.FNMeanDiff, s.FNPossible)})
+	rows := append(RefinementRows(r), Row{"figures of merit", fmt.Sprintf("M%d = %.1f (de Wolff 1968), F%d = %.1f (%.4f°, %d) (Smith & Snyder 1979)", s.FigureLines, s.M, s.FigureLines, s.FN, s.FNMeanDiff, s.FNPossible)})
 	x.keyValues(rows, 30)
 	if n := len(r.Params); n > 1 {
 		x.pdf.Ln(1)
@@ -288,36 +274,11 @@ func (x *pdfWriter) refined(c *analysis.Candidate) {
 }
 
 func (x *pdfWriter) contents(a *analysis.Analysis, cand *analysis.Candidate) {
-	c := cand.Contents
-	if c == nil {
+	if cand.Contents == nil {
 		return
 	}
 	x.heading("Cell contents")
-	how := "given"
-	if c.ZInferred {
-		how = "the allowed value nearest to the estimate from the measured density"
-	}
-	rows := [][2]string{
-		{"Formula", fmt.Sprintf("%s, M = %s g/mol (%s)", a.Settings.Formula.Text, esd.Format(c.MolarMass, c.MolarMassESD), AtomicWeights)},
-		{"Z", fmt.Sprintf("%d (%s; %d lattice point(s) per cell, %g formula unit(s) per lattice point)", c.Z, how, c.LatticePoints, c.FormulaUnitsPerLattice)},
-	}
-	if m := a.Settings.Density; m != nil {
-		var cands []string
-		for _, k := range c.Candidates {
-			cands = append(cands, fmt.Sprintf("%d (%+.1fσ)", k.Z, k.Sigmas))
-		}
-		v := fmt.Sprintf("%s; allowed values nearest first: %s", esd.Format(c.ZEst, c.ZEstESD), strings.Join(cands, ", "))
-		if !c.Whole {
-			v += " — no whole Z: the cell, the formula or the density is wrong"
-		}
-		rows = append(rows, [2]string{"Z from density", v})
-	}
-	rows = append(rows, [2]string{"X-ray density", esd.Format(c.Density, c.DensityESD) + " g/cm³ (ρ = Z·M/(N_A·V), N_A = 6.02214076×10²³ per mol)"})
-	if m := a.Settings.Density; m != nil {
-		rows = append(rows, [2]string{"Measured density", fmt.Sprintf("%s g/cm³, %+.1fσ from the X-ray density", esd.Format(m.Density, m.ESD), c.Sigmas)})
-	}
-	rows = append(rows, [2]string{"Atoms per cell", ftoa(c.AtomsPerCell)}, [2]string{"Mass per cell", esd.Format(c.CellMass, c.CellMassESD) + " g/mol"})
-	x.keyValues(rows, 30)
+	x.keyValues(ContentsRows(cand.Contents, *a.Settings.Formula, a.Settings.Density), 30)
 }
 
 // A column of a table: title, width in mm, alignment "L", "C" or "R".
@@ -478,7 +439,7 @@ func (x *pdfWriter) settings(a *analysis.Analysis) {
 	if s.Standard != nil {
 		std = s.Standard.Name
 	}
-	rows := [][2]string{
+	rows := []Row{
 		{"radiation", s.Radiation.Setting()},
 		{"ka2_ratio", ftoa(s.KAlpha2Ratio)},
 		{"threshold", ftoa(s.Threshold) + " esd of the fitted height"},

@@ -3,12 +3,10 @@ package main
 import (
 	"fmt"
 	"io"
-	"strings"
 
 	"reticle/analysis"
 	"reticle/cell"
 	"reticle/density"
-	"reticle/esd"
 	"reticle/report"
 )
 
@@ -51,31 +49,5 @@ func cmdContentsRun(args []string, stdout, stderr io.Writer) int {
 
 // printContents prints a cell's contents for the terminal.
 func printContents(w io.Writer, cellText string, c *density.Contents, f density.Formula, m *density.Measured) {
-	fmt.Fprintf(w, "%s, %s\n", cellText, f.Text)
-	fmt.Fprintf(w, "  molar mass            %s g/mol\n", esd.Format(c.MolarMass, c.MolarMassESD))
-	fmt.Fprintf(w, "  cell volume           %s Å³\n", esd.Format(c.Volume, c.VolumeESD))
-	if m != nil {
-		var cands []string
-		for _, k := range c.Candidates {
-			cands = append(cands, fmt.Sprintf("%d (%+.1fσ)", k.Z, k.Sigmas))
-		}
-		fmt.Fprintf(w, "  Z from density        %s  (allowed, nearest first: %s)\n", esd.Format(c.ZEst, c.ZEstESD), strings.Join(cands, ", "))
-		if !c.Whole {
-			fmt.Fprintf(w, "  warning: the measured density gives no whole Z for a cell with %d lattice point(s): the cell, the formula or the density is wrong\n", c.LatticePoints)
-		}
-	}
-	how := "given"
-	if c.ZInferred {
-		how = "nearest allowed to the estimate"
-	}
-	fmt.Fprintf(w, "  Z                     %d (%s; %g per lattice point, %d lattice point(s))\n", c.Z, how, c.FormulaUnitsPerLattice, c.LatticePoints)
-	fmt.Fprintf(w, "  X-ray density         %s g/cm³\n", esd.Format(c.Density, c.DensityESD))
-	if m != nil {
-		fmt.Fprintf(w, "  measured density      %s g/cm³, %+.1fσ from the X-ray density\n", m, c.Sigmas)
-	}
-	fmt.Fprintf(w, "  atoms per cell        %g\n", c.AtomsPerCell)
-	fmt.Fprintf(w, "  formula mass per cell %s g/mol\n", esd.Format(c.CellMass, c.CellMassESD))
-	if c.NoStandardWeight {
-		fmt.Fprintln(w, "  note: an element without a standard atomic weight is counted at the mass number of a long-lived isotope")
-	}
+	fmt.Fprintf(w, "%s\n%s", cellText, report.Text(report.ContentsRows(c, f, m)))
 }

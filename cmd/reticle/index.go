@@ -9,6 +9,7 @@ import (
 
 	"reticle/analysis"
 	"reticle/cell"
+	"reticle/esd"
 	"reticle/report"
 )
 
@@ -60,7 +61,7 @@ func printCandidates(w io.Writer, a *analysis.Analysis) {
 	for _, c := range a.Candidates {
 		v, ve := c.Volume()
 		fmt.Fprintf(tw, "%d\t%s\t%s\t%.1f\t%.1f(%.4f,%d)\t%d/%d\t\n", c.Rank, cell.Format(c.Cell(), c.Covariance().ESD()),
-			formatESD(v, ve), c.M, c.FN, c.FNMeanDiff, c.FNPossible, c.Indexed, c.Indexed+c.Unindexed)
+			esd.Format(v, ve), c.M, c.FN, c.FNMeanDiff, c.FNPossible, c.Indexed, c.Indexed+c.Unindexed)
 	}
 	tw.Flush()
 	best := a.ChosenCandidate()

@@ -8,7 +8,6 @@ import (
 	"text/tabwriter"
 
 	"reticle/analysis"
-	"reticle/esd"
 	"reticle/report"
 )
 
@@ -31,6 +30,8 @@ type refineDocJSON struct {
 	Standard   *standardJSON  `json:"standard,omitempty"`
 	Unmatched  []float64      `json:"unmatched_lines"`
 	Overlapped []float64      `json:"overlapped_lines,omitempty"`
+	// text is the terminal's description of the refinement.
+	text string
 }
 
 func cmdRefineRun(args []string, stdout, stderr io.Writer) int {
@@ -84,6 +85,7 @@ func refineFile(path string, r *request) (refineDocJSON, error) {
 	doc := refineDocJSON{
 		ScanInfo: report.NewScanInfo(e.Scan, e.Result.Radiation), StartCell: r.cellText,
 		CellValues: report.NewCellValues(res.Cell, res.ESD, res.Volume, res.VolumeESD), Refined: report.NewRefined(res), Unmatched: []float64{},
+		text: report.Text(report.RefinementRows(res)),
 	}
 	for _, l := range res.Unmatched {
 		doc.Unmatched = append(doc.Unmatched, l.TwoTheta)
@@ -103,52 +105,17 @@ func refineFile(path string, r *request) (refineDocJSON, error) {
 
 func printRefinement(w io.Writer, d refineDocJSON) {
 	fmt.Fprintf(w, "%s  %s, λ = %.7f Å\n", d.File, d.Radiation, d.Wavelength)
+	fmt.Fprintf(w, "refined from %s:\n%s\n%s", d.StartCell, d.Text, d.text)
 	f := d.Refined
-	fmt.Fprintf(w, "refined %s %s from %d lines (started from %s)\n", d.System, d.Centring, f.Fitted, d.StartCell)
-	fmt.Fprintf(w, "  cell          %s\n", d.Text)
-	for _, p := range f.Params {
-		note := ""
-		if p.FromStandard {
-			note = "  (from the internal standard)"
-		}
-		fmt.Fprintf(w, "  %-13s %s %s%s\n", p.Name, p.Text, p.Unit, note)
-	}
-	fmt.Fprintf(w, "  %-13s %s Å³\n", "volume", formatESD(d.Volume, d.VolumeESD))
-	scaled := "not scaled"
-	if f.Scaled {
-		scaled = "esds scaled by it"
-	}
-	fmt.Fprintf(w, "  χ²_red = %.3f over %d degrees of freedom (%s; convention %s)\n", f.Chi2Reduced, f.DOF, scaled, f.Scaling)
-	if f.Displacement != nil || f.Transparency != nil {
-		fmt.Fprintf(w, "  goniometer radius %g mm\n", f.Radius)
-	}
-	if len(f.Params) > 1 {
-		fmt.Fprintln(w, "correlations:")
-		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
-		var names []string
-		for _, p := range f.Params {
-			names = append(names, p.Name)
-		}
-		fmt.Fprintf(tw, "\t%s\t\n", strings.Join(names, "\t"))
-		for i, n := range names {
-			row := []string{n}
-			for j := range names {
-				row = append(row, fmt.Sprintf("%+.3f", f.Correlation[i][j]))
-			}
-			fmt.Fprintf(tw, "%s\t\n", strings.Join(row, "\t"))
-		}
-		tw.Flush()
-	}
 	printResiduals(w, "lines", f.Residuals)
 	if d.Standard != nil {
-		fmt.Fprintf(w, "internal standard %s (%s), %d lines, χ²_red = %.3f\n", d.Standard.Name, d.Standard.Cell, d.Standard.Lines, d.Standard.Chi2Reduced)
 		printResiduals(w, "standard lines", d.Standard.Residuals)
 	}
 	if len(d.Unmatched) > 0 {
 		fmt.Fprintf(w, "unmatched lines (°): %s\n", joinAngles(d.Unmatched))
 	}
 	if len(d.Overlapped) > 0 {
-		fmt.Fprintf(w, "left out, overlapping both phases (°): %s\n", joinAngles(d.Overlapped))
+		fmt.Fprintf(w, "left out as overlapped (°): %s\n", joinAngles(d.Overlapped))
 	}
 	for _, warn := range f.Warnings {
 		fmt.Fprintf(w, "warning: %s\n", warn)
@@ -180,6 +147,3 @@ func joinAngles(v []float64) string {
 	}
 	return strings.Join(s, ", ")
 }
-
-// formatESD prints a value with its esd.
-func formatESD(v, u float64) string { return esd.Format(v, u) }

@@ -1,0 +1,106 @@
+package report
+
+import (
+	"fmt"
+	"strings"
+
+	"reticle/density"
+	"reticle/esd"
+	"reticle/refine"
+)
+
+// A Row is one labelled value of a record, the form in which the PDF, the
+// terminal and the desktop program all print a refinement and a cell's
+// contents: one printer per record.
+type Row struct {
+	Label, Value string
+}
+
+// Text prints rows as aligned lines of plain text.
+func Text(rows []Row) string {
+	w := 0
+	for _, r := range rows {
+		w = max(w, len([]rune(r.Label)))
+	}
+	var b strings.Builder
+	for _, r := range rows {
+		fmt.Fprintf(&b, "%s%s  %s\n", r.Label, strings.Repeat(" ", w-len([]rune(r.Label))), r.Value)
+	}
+	return b.String()
+}
+
+// ContentsRows describes a cell's contents: the formula and its molar
+// mass, Z (given or from the measured density, with the allowed values
+// nearest to the estimate), the X-ray density, the measured density's
+// distance from it, atoms and formula mass per cell, all with their esds.
+func ContentsRows(c *density.Contents, f density.Formula, m *density.Measured) []Row {
+	how := "given"
+	if c.ZInferred {
+		how = "the allowed value nearest to the estimate from the measured density"
+	}
+	rows := []Row{
+		{"formula", fmt.Sprintf("%s, M = %s g/mol (%s)", f.Text, esd.Format(c.MolarMass, c.MolarMassESD), AtomicWeights)},
+		{"Z", fmt.Sprintf("%d (%s; %d lattice point(s) per cell, %g formula unit(s) per lattice point)", c.Z, how, c.LatticePoints, c.FormulaUnitsPerLattice)},
+	}
+	if m != nil {
+		var cands []string
+		for _, k := range c.Candidates {
+			cands = append(cands, fmt.Sprintf("%d (%+.1fσ)", k.Z, k.Sigmas))
+		}
+		v := fmt.Sprintf("%s; allowed values nearest first: %s", esd.Format(c.ZEst, c.ZEstESD), strings.Join(cands, ", "))
+		if !c.Whole {
+			v += " — no whole Z: the cell, the formula or the density is wrong"
+		}
+		rows = append(rows, Row{"Z from density", v})
+	}
+	rows = append(rows, Row{"X-ray density", esd.Format(c.Density, c.DensityESD) + " g/cm³ (ρ = Z·M/(N_A·V), N_A = 6.02214076×10²³ per mol)"})
+	if m != nil {
+		rows = append(rows, Row{"measured density", fmt.Sprintf("%s g/cm³, %+.1fσ from the X-ray density", esd.Format(m.Density, m.ESD), c.Sigmas)})
+	}
+	rows = append(rows,
+		Row{"atoms per cell", ftoa(c.AtomsPerCell)},
+		Row{"mass per cell", esd.Format(c.CellMass, c.CellMassESD) + " g/mol"})
+	if c.NoStandardWeight {
+		rows = append(rows, Row{"note", "an element without a standard atomic weight is counted at the mass number of a long-lived isotope"})
+	}
+	return rows
+}
+
+// RefinementRows describes a refinement: every parameter with its esd
+// (corrections fixed by an internal standard marked), the volume, the
+// fit, the goniometer radius when a correction uses it, the internal
+// standard, and the correlations above 0.5 in magnitude.
+func RefinementRows(r *refine.Result) []Row {
+	rows := []Row{{"lattice", fmt.Sprintf("%s %s", r.Cell.System, r.Cell.Centring)}}
+	for _, p := range r.Params {
+		v := esd.Format(p.Value, p.ESD) + " " + p.Unit
+		if p.Fixed {
+			v += " (from the internal standard)"
+		}
+		rows = append(rows, Row{p.Name, v})
+	}
+	rows = append(rows, Row{"volume", esd.Format(r.Volume, r.VolumeESD) + " Å³"})
+	scaled := "esds not scaled"
+	if r.Scaled {
+		scaled = "esds multiplied by χ²_red"
+	}
+	rows = append(rows, Row{"fit", fmt.Sprintf("%d lines, %d degrees of freedom, χ²_red = %.3f (%s; convention: %s)", r.Fitted, r.DOF, r.Chi2Reduced, scaled, r.Scaling)})
+	if r.Corrections.Has(refine.Displacement) || r.Corrections.Has(refine.Transparency) {
+		rows = append(rows, Row{"radius", ftoa(r.Radius) + " mm (goniometer)"})
+	}
+	if sf := r.StandardFit; sf != nil {
+		rows = append(rows, Row{"standard", fmt.Sprintf("%s, %d lines, χ²_red = %.3f (%s)", sf.Standard.Name, sf.Fitted, sf.Chi2Reduced, sf.Standard.Source)})
+	}
+	var corr []string
+	for i := range r.Params {
+		for j := i + 1; j < len(r.Params); j++ {
+			if rho := r.Correlation[i][j]; rho > 0.5 || rho < -0.5 {
+				corr = append(corr, fmt.Sprintf("%s–%s %+.3f", r.Params[i].Name, r.Params[j].Name, rho))
+			}
+		}
+	}
+	if len(corr) > 0 {
+		rows = append(rows, Row{"correlations", strings.Join(corr, ", ")})
+	}
+	return rows
+}
