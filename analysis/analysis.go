@@ -141,11 +141,16 @@ func Run(ctx context.Context, scan *peaks.Scan, s Settings, progress Progress) (
 
 // Open reads a scan file and analyses it.
 func Open(ctx context.Context, path string, s Settings, progress Progress) (*Analysis, error) {
-	scan, err := peaks.ReadFile(path)
+	scan, err := Read(path, s)
 	if err != nil {
 		return nil, err
 	}
 	return Run(ctx, scan, s, progress)
+}
+
+// Read reads a scan file as the settings say (its CIF block).
+func Read(path string, s Settings) (*peaks.Scan, error) {
+	return peaks.ReadFileWith(path, peaks.ReadOptions{Block: s.Block})
 }
 
 // Analyse runs the stages after the extraction: it indexes the peaks that

@@ -111,7 +111,7 @@ func (e *Extraction) peaks() []peaks.Peak {
 
 // ReadExtract reads a scan file and extracts its peaks.
 func ReadExtract(ctx context.Context, path string, s Settings, progress Progress) (*Extraction, error) {
-	scan, err := peaks.ReadFile(path)
+	scan, err := Read(path, s)
 	if err != nil {
 		return nil, err
 	}

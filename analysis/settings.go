@@ -24,6 +24,9 @@ const EditTolerance = 0.005
 type Settings struct {
 	// Sample names the specimen in the records.
 	Sample string `json:"sample,omitempty"`
+	// Block is the data block of a CIF file to read; empty means the
+	// block that holds the measured pattern.
+	Block string `json:"cif_block,omitempty"`
 
 	// Radiation is the incident spectrum; nil means what the scan
 	// states (peaks.Scan.Radiation).

@@ -50,6 +50,7 @@ func FitAt(s *Scan, res *Result, twoTheta float64) (Peak, []float64, error) {
 	w := make([]float64, n)
 	md := &model{x: x, y: y, w: w, bg: res.Background, rad: res.Radiation}
 	c := &component{x: x[best], anchor: x[best], h: math.Max(y[best]-res.Profile[best], 1), w: w0, eta: eta, fixedShape: true, flags: FlagUser}
+	c.asym = res.Asymmetry.At(x[best])
 	wlo, whi := md.window(c)
 	if whi-wlo < 8 {
 		return Peak{}, nil, fmt.Errorf("peaks: too few points near %.4f°: %w", twoTheta, ErrNoPeak)
@@ -69,7 +70,7 @@ func FitAt(s *Scan, res *Result, twoTheta float64) (Peak, []float64, error) {
 	}
 	p := peaksOf(md, []*component{c})[0]
 	prof := append([]float64(nil), res.Profile...)
-	md.addProfile(prof[wlo:whi], wlo, whi, c.x, c.h, c.w, c.eta)
+	md.addProfile(prof[wlo:whi], wlo, whi, c)
 	for i := wlo; i < whi; i++ {
 		prof[i] += c.b0 + c.b1*(x[i]-c.xc)
 	}

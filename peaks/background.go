@@ -1,6 +1,9 @@
 package peaks
 
-import "math"
+import (
+	"math"
+	"sort"
+)
 
 // SNIP estimates a slowly varying background under peaks by the
 // Statistics-sensitive Non-linear Iterative Peak-clipping method (Ryan et
@@ -179,4 +182,32 @@ func interpolate(xs, ys, x []float64) []float64 {
 		}
 	}
 	return out
+}
+
+// maxNoiseScale is the ratio of the measured scatter to the stated noise
+// below which the stated noise is kept: the robust spread of a few
+// thousand points is itself uncertain by a few per cent, and a scan whose
+// counts were scaled or whose detector adds noise scatters far more.
+const maxNoiseScale = 1.15
+
+// noiseScale measures how much more the intensities y scatter than their
+// esds sigma say: the robust spread (1.4826 × median absolute value) of
+// the second differences y_i − (y_{i−1} + y_{i+1})/2 over σ_i √1.5, on
+// the points where the net intensity net (y less a rough background) is
+// within 3σ of zero, so that peaks' curvature does not count as noise.
+func noiseScale(y, net, sigma []float64) float64 {
+	n := len(y)
+	t := make([]float64, 0, n)
+	for i := 1; i < n-1; i++ {
+		if sigma[i] <= 0 || math.Abs(net[i]) > 3*sigma[i] {
+			continue
+		}
+		r := y[i] - (y[i-1]+y[i+1])/2
+		t = append(t, math.Abs(r)/(sigma[i]*math.Sqrt(1.5)))
+	}
+	if len(t) < 20 {
+		return 1
+	}
+	sort.Float64s(t)
+	return 1.4826 * t[len(t)/2]
 }

@@ -5,8 +5,11 @@ import (
 	"sort"
 )
 
-// estimateFWHM returns a rough FWHM in degrees 2θ: the median half-height
-// width of the strongest maxima of net (counts above background).
+// estimateFWHM returns a rough FWHM in degrees 2θ: the lower quartile of
+// the half-height widths of the strongest maxima of net (counts above
+// background). Strong maxima are often unresolved doublets (a tetragonal
+// splitting, K-alpha2 at high angle) wider than one line; the narrow
+// ones give the line width.
 func estimateFWHM(x, net []float64, step float64) float64 {
 	n := len(net)
 	s := boxcar(net, 1)
@@ -57,7 +60,7 @@ func estimateFWHM(x, net []float64, step float64) float64 {
 		return 5 * step
 	}
 	sort.Float64s(ws)
-	return math.Max(ws[len(ws)/2], 2*step)
+	return math.Max(ws[len(ws)/4], 2*step)
 }
 
 func abs(i int) int {
@@ -110,6 +113,42 @@ func detect(x, net, sigma []float64, rad Radiation, fwhm float64, minZ float64) 
 			xi += 0.5 * (s[i-1] - s[i+1]) / d * (x[i+1] - x[i-1]) / 2
 		}
 		out = append(out, candidate{x: xi, h: s[i], z: z, w: halfWidth(x, s, i)})
+	}
+	return append(out, curvatureCandidates(x, s, ss, fwhm, minZ, out)...)
+}
+
+// curvatureCandidates finds lines that make no maximum of their own, a
+// shoulder or one line of an unresolved pair: significant minima of the
+// smoothed second derivative (Savitzky–Golay, over about 0.8 FWHM) where
+// the smoothed counts are significant too, further than half a width from
+// every maximum already found. The fit decides whether they stay.
+func curvatureCandidates(x, s, ss []float64, fwhm, minZ float64, maxima []candidate) []candidate {
+	n := len(x)
+	step := (x[n-1] - x[0]) / float64(n-1)
+	h := max(2, int(0.4*fwhm/step+0.5))
+	if 2*h+1 > n {
+		return nil
+	}
+	d2, sd2 := smooth(s, ss, SavitzkyGolay2(h))
+	var out []candidate
+	for i := 1; i < n-1; i++ {
+		if !(d2[i] <= d2[i-1] && d2[i] < d2[i+1]) || d2[i] >= 0 || sd2[i] <= 0 || ss[i] <= 0 {
+			continue
+		}
+		if -d2[i]/sd2[i] < minZ+1 || s[i]/ss[i] < minZ+1 {
+			continue
+		}
+		near := false
+		for _, m := range maxima {
+			if math.Abs(m.x-x[i]) < 0.5*math.Max(fwhm, m.w) {
+				near = true
+				break
+			}
+		}
+		if near {
+			continue
+		}
+		out = append(out, candidate{x: x[i], h: s[i], z: s[i] / ss[i], w: fwhm})
 	}
 	return out
 }

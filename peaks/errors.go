@@ -9,7 +9,7 @@ import (
 // Sentinel errors that a *ParseError may wrap; test with errors.Is.
 var (
 	ErrEmpty       = errors.New("file holds no data")
-	ErrBinary      = errors.New("file is binary, not a text export")
+	ErrBinary      = errors.New("binary file, not a text export: Reticle reads plain-text columns (2θ, intensity, optional esd) and pdCIF; export the scan in one of those from the instrument's software")
 	ErrColumns     = errors.New("expected 2 or 3 numeric columns (2θ in degrees, intensity, optional esd)")
 	ErrText        = errors.New("text where the data block expects numbers")
 	ErrNotFinite   = errors.New("value is NaN or infinite")
@@ -20,6 +20,8 @@ var (
 	ErrCIFMissing  = errors.New("CIF lacks a required item")
 	ErrOutOfRange  = errors.New("angle outside 0 to 180 degrees 2θ")
 	ErrUnknownLine = errors.New("unknown radiation")
+	ErrNotAngle    = errors.New("not an angle-dispersive pattern")
+	ErrVendor      = errors.New("not an open export")
 )
 
 // A ParseError reports a problem at a place in a scan file. Line and Column

@@ -84,6 +84,17 @@ type Result struct {
 	Profile    []float64 // background plus all fitted profiles at every point
 	FWHMCurve  Caglioti  // width curve of the well-determined peaks
 	Eta        float64   // median mixing of the well-determined peaks
+	Asymmetry  Asymmetry // asymmetry law of the well-determined peaks
+	// TailRatio is the ratio of the Lorentzian to the Gaussian width of
+	// the lines (see tailedVoigt): 1 for plain pseudo-Voigt lines.
+	TailRatio float64
+	// KBetaRatio is the scan's K-beta to K-alpha1 area ratio, estimated
+	// from the lines at the K-beta positions of stronger lines; zero when
+	// no line was taken for a K-beta companion.
+	KBetaRatio float64
+	// NoiseScale is the factor by which the points' esds were multiplied
+	// because the intensities scatter more than they state (1: not).
+	NoiseScale float64
 	Warnings   []string
 }
 
@@ -127,6 +138,15 @@ func Extract(ctx context.Context, s *Scan, opt Options, progress func(done, tota
 		net[i] = y[i] - rough[i]
 	}
 	fwhm0 := estimateFWHM(x, net, step)
+	kappa := noiseScale(y, net, sigma)
+	if kappa > maxNoiseScale {
+		for i := range sigma {
+			sigma[i] *= kappa
+			w[i] = 1 / (sigma[i] * sigma[i])
+		}
+	} else {
+		kappa = 1
+	}
 	bg := background(x, y, sigma, o.BackgroundWidth, fwhm0)
 	if err := ctx.Err(); err != nil {
 		return nil, err
@@ -146,15 +166,37 @@ func Extract(ctx context.Context, s *Scan, opt Options, progress func(done, tota
 	}
 	cs := seed(md1, cands, fwhm0, o)
 
-	res := &Result{Radiation: o.Radiation, Background: bg}
+	res := &Result{Radiation: o.Radiation, Background: bg, NoiseScale: kappa}
+	if kappa > 1 {
+		res.Warnings = append(res.Warnings, fmt.Sprintf("the intensities scatter %.2f times more than their esds (or counting noise) allow; every esd was multiplied by %.2f", kappa, kappa))
+	}
 	// Pass 1: every candidate on its own group's terms.
 	if err := fitAll(ctx, md1, cs, nil, progress, 0); err != nil {
 		return nil, err
 	}
+	// Scan-wide profile parameters from the strong lines; the first pass
+	// is repeated with them.
+	mds := []*model{md}
+	if md1 != md {
+		mds = append(mds, md1)
+	}
+	var notes []string
+	if cs, notes = calibrate(mds, cs, o); len(notes) > 0 {
+		res.Warnings = append(res.Warnings, notes...)
+		res.Radiation = md.rad
+		if err := fitAll(ctx, md1, cs, nil, nil, 0); err != nil {
+			return nil, err
+		}
+	}
 	// Width curve from the well-determined peaks; the weak peaks' shapes
 	// are held to it from now on.
-	res.FWHMCurve, res.Eta = shapeCurve(md1, cs, o, fwhm0)
+	var asymmetric bool
+	res.FWHMCurve, res.Eta, res.Asymmetry, asymmetric = shapeCurve(md1, cs, o, fwhm0)
 	for _, c := range cs {
+		c.symmetric = !asymmetric
+		if !asymmetric || c.fixedShape || c.flags&FlagShared != 0 {
+			c.asym = res.Asymmetry.At(c.x)
+		}
 		if c.fixedShape {
 			c.w, c.eta = res.FWHMCurve.At(c.x), res.Eta
 		}
@@ -162,7 +204,7 @@ func Extract(ctx context.Context, s *Scan, opt Options, progress func(done, tota
 	cs = prune(cs, o.Threshold/2)
 	// Shoulders: maxima of the residual that the first fit left
 	// unexplained.
-	if added := residualCandidates(md1, cs, res.FWHMCurve, res.Eta, o); len(added) > 0 {
+	if added := residualCandidates(md1, cs, res, o); len(added) > 0 {
 		cs = append(cs, added...)
 		sort.Slice(cs, func(a, b int) bool { return cs[a].x < cs[b].x })
 	}
@@ -171,10 +213,11 @@ func Extract(ctx context.Context, s *Scan, opt Options, progress func(done, tota
 		return nil, err
 	}
 	cs = prune(cs, o.Threshold)
+	cs = confirmShoulders(md, cs)
 	// Pass 3: weights from the fitted model instead of the data.
 	if s.ESD == nil {
 		for i, m := range profileOf(md, cs) {
-			w[i] = 1 / math.Max(m, 1)
+			w[i] = 1 / (kappa * kappa * math.Max(m, 1))
 		}
 	}
 	if err := fitAll(ctx, md, cs, cs, progress, 2); err != nil {
@@ -182,7 +225,9 @@ func Extract(ctx context.Context, s *Scan, opt Options, progress func(done, tota
 	}
 	cs = prune(cs, o.Threshold)
 	res.Peaks = peaksOf(md, cs)
-	flagKBeta(res.Peaks, o.Radiation)
+	res.KBetaRatio = flagKBeta(res.Peaks, md.rad, x[0], x[n-1])
+	flagFilterEdge(res.Peaks, md.rad)
+	res.TailRatio = md.tailRatio()
 	res.Profile = profileOf(md, cs)
 	return res, nil
 }
@@ -278,6 +323,7 @@ func seed(md *model, cands []candidate, fwhm0 float64, o Options) []*component {
 
 // fitAll fits every group of cs. With tails set, the profiles of the other
 // components (from their last fit) are part of each group's base.
+
 func fitAll(ctx context.Context, md *model, cs, tails []*component, progress func(done, total int), pass int) error {
 	gs := md.groups(cs)
 	for gi, g := range gs {
@@ -363,11 +409,19 @@ func peaksOf(md *model, cs []*component) []Peak {
 	out := make([]Peak, 0, len(cs))
 	for _, c := range cs {
 		d, sd := cell.DSpacingESD(c.x, c.sx, md.rad.Lambda1, 0)
-		area := PseudoVoigtArea(c.h, c.w, c.eta)
+		// With wide wings (tail ratio τ) the Lorentzian part's area grows
+		// by τ and the width at half maximum is that of the sum.
+		tail := md.tailRatio()
+		f := areaFactor(c.eta) + c.eta*(tail-1)*math.Pi/2
+		area := c.h * c.w * f
 		// Area esd to first order from the height, width and mixing esds
 		// (their correlations neglected).
-		f := areaFactor(c.eta)
-		sa := math.Sqrt(sq(c.sh*c.w*f) + sq(c.h*c.sw*f) + sq(c.h*c.w*(math.Pi/2-math.Sqrt(math.Pi/(4*ln2)))*c.seta))
+		sa := math.Sqrt(sq(c.sh*c.w*f) + sq(c.h*c.sw*f) + sq(c.h*c.w*(tail*math.Pi/2-math.Sqrt(math.Pi/(4*ln2)))*c.seta))
+		fw, sfw := c.w, c.sw
+		if tail != 1 {
+			fw = tailedFWHM(c.w, c.eta, tail)
+			sfw = c.sw * fw / c.w
+		}
 		i := sort.SearchFloat64s(md.x, c.x)
 		i = min(i, len(md.x)-1)
 		flags := c.flags
@@ -377,7 +431,7 @@ func peaksOf(md *model, cs []*component) []Peak {
 		out = append(out, Peak{
 			TwoTheta: c.x, TwoThetaESD: c.sx, D: d, DESD: sd,
 			Height: c.h, HeightESD: c.sh, Area: area, AreaESD: sa,
-			FWHM: c.w, FWHMESD: c.sw, Eta: c.eta, EtaESD: c.seta,
+			FWHM: fw, FWHMESD: sfw, Eta: c.eta, EtaESD: c.seta, Asymmetry: c.asym,
 			Background: md.bg[i] + c.b0 + c.b1*(c.x-c.xc), SNR: c.h / c.sh,
 			Flags: flags, Parent: -1,
 		})
@@ -388,29 +442,6 @@ func peaksOf(md *model, cs []*component) []Peak {
 
 func sq(v float64) float64 { return v * v }
 
-// flagKBeta marks peaks that sit at the K-beta position of a peak at least
-// three times as high.
-func flagKBeta(ps []Peak, rad Radiation) {
-	if rad.KBeta == 0 {
-		return
-	}
-	for i := range ps {
-		p := &ps[i]
-		for j := range ps {
-			q := &ps[j]
-			if j == i || q.Height < 3*p.Height {
-				continue
-			}
-			xb := Companion(q.TwoTheta, rad.Lambda1, rad.KBeta)
-			if math.Abs(xb-p.TwoTheta) <= math.Max(0.5*p.FWHM, 3*p.TwoThetaESD) {
-				p.Flags |= FlagKBeta
-				p.Parent = j
-				break
-			}
-		}
-	}
-}
-
 // profileOf returns background plus every fitted component at every point.
 func profileOf(md *model, cs []*component) []float64 {
 	out := append([]float64(nil), md.bg...)
@@ -418,10 +449,10 @@ func profileOf(md *model, cs []*component) []float64 {
 		lo, hi := md.window(c)
 		// Extend to where the profile falls below 1e-3 of the height.
 		x2, _ := md.companion2(c.x)
-		a := sort.SearchFloat64s(md.x, c.x-20*c.w)
-		b := min(sort.SearchFloat64s(md.x, x2+20*c.w), len(md.x))
+		a := sort.SearchFloat64s(md.x, c.x-20*md.tailRatio()*c.w)
+		b := min(sort.SearchFloat64s(md.x, x2+20*md.tailRatio()*c.w), len(md.x))
 		lo, hi = min(lo, a), max(hi, b)
-		md.addProfile(out[lo:hi], lo, hi, c.x, c.h, c.w, c.eta)
+		md.addProfile(out[lo:hi], lo, hi, c)
 	}
 	// Local backgrounds of the groups, over each group's span.
 	for _, g := range md.groups(cs) {

@@ -8,18 +8,32 @@ import (
 // A component is one peak being fitted: its current parameters and esds.
 type component struct {
 	x, h, w, eta     float64 // K-alpha1 position, height, FWHM, mixing
+	asym             float64 // asymmetry A (see lineShape)
 	anchor           float64 // where detection put it; the fit keeps it within 0.75 FWHM
 	sx, sh, sw, seta float64 // esds
+	sasym            float64
 	z                float64 // detection significance, σ
-	fixedShape       bool    // hold w and eta
+	fixedShape       bool    // hold w, eta and A
+	symmetric        bool    // hold A (at 0 unless set from the law)
 	flags            Flags
 	b0, b1, xc       float64 // local background of its group at the last fit
+	red              float64 // reduced χ² of its group's last fit
+	dof              int     // degrees of freedom of that fit
 }
 
 // model is what a group's peaks are drawn with.
 type model struct {
 	x, y, w, bg []float64 // data, weights 1/σ², background
 	rad         Radiation
+	tail        float64 // ratio of the Lorentzian to the Gaussian width (see tailedVoigt); 0 means 1
+}
+
+// tailRatio returns the model's tail ratio τ (1 unless set).
+func (md *model) tailRatio() float64 {
+	if md.tail > 1 {
+		return md.tail
+	}
+	return 1
 }
 
 // companion2 returns the K-alpha2 position of a K-alpha1 line at x and
@@ -38,27 +52,32 @@ func (md *model) companion2(x float64) (float64, float64) {
 	return 2 * th2 / deg, r * math.Cos(th) / math.Cos(th2)
 }
 
-// addProfile adds h times the line shape of a component (with its K-alpha2
-// line) to out over points [lo, hi).
-func (md *model) addProfile(out []float64, lo, hi int, x0, h, w, eta float64) {
-	x2, _ := md.companion2(x0)
+// addProfile adds a component's line (with its K-alpha2 line) to out over
+// points [lo, hi).
+func (md *model) addProfile(out []float64, lo, hi int, c *component) {
+	x2, _ := md.companion2(c.x)
 	dbl := md.rad.Doublet()
 	r := md.rad.Ratio2
+	tail := md.tailRatio()
 	for i := lo; i < hi; i++ {
-		f := PseudoVoigt(md.x[i], x0, w, eta)
+		f := lineShape(md.x[i], c.x, c.w, c.eta, c.asym, tail)
 		if dbl {
-			f += r * PseudoVoigt(md.x[i], x2, w, eta)
+			f += r * lineShape(md.x[i], x2, c.w, c.eta, c.asym, tail)
 		}
-		out[i-lo] += h * f
+		out[i-lo] += c.h * f
 	}
 }
+
+// per is the number of fitted parameters of a component: position,
+// height, FWHM, mixing and asymmetry.
+const per = 5
 
 // fitGroup fits the components cs together over points [lo, hi), with base
 // (background plus the tails of peaks outside the group) held fixed. It
 // updates cs in place and returns the reduced χ² (1 when not fitted).
 func (md *model) fitGroup(cs []*component, lo, hi int, base []float64) float64 {
 	n := hi - lo
-	np := 2 + 4*len(cs)
+	np := 2 + per*len(cs)
 	xc := 0.5 * (md.x[lo] + md.x[hi-1])
 	p0 := make([]float64, np)
 	lob := make([]float64, np)
@@ -68,8 +87,8 @@ func (md *model) fitGroup(cs []*component, lo, hi int, base []float64) float64 {
 	lob[1], hib[1], free[1] = math.Inf(-1), math.Inf(1), true
 	step := (md.x[hi-1] - md.x[lo]) / float64(max(n-1, 1))
 	for k, c := range cs {
-		j := 2 + 4*k
-		p0[j], p0[j+1], p0[j+2], p0[j+3] = c.x, math.Max(c.h, 0), c.w, c.eta
+		j := 2 + per*k
+		p0[j], p0[j+1], p0[j+2], p0[j+3], p0[j+4] = c.x, math.Max(c.h, 0), c.w, c.eta, c.asym
 		reach := 0.75 * c.w
 		if c.flags&FlagAdded != 0 {
 			// A shoulder stays where the residual showed it.
@@ -80,11 +99,18 @@ func (md *model) fitGroup(cs []*component, lo, hi int, base []float64) float64 {
 		lob[j+1], hib[j+1] = 0, math.Inf(1)
 		lob[j+2], hib[j+2] = math.Max(0.3*c.w, 0.8*step), 3*c.w
 		lob[j+3], hib[j+3] = 0, 1
+		lob[j+4], hib[j+4] = -maxAsym, maxAsym
+		p0[j+4] = math.Min(math.Max(p0[j+4], lob[j+4]), hib[j+4])
 		free[j], free[j+1] = true, true
 		free[j+2], free[j+3] = !c.fixedShape, !c.fixedShape
+		// Asymmetry is refined only where the line is strong and stands
+		// clear of its neighbours: a weak or crowded line takes it from
+		// the scan's law.
+		free[j+4] = !c.fixedShape && !c.symmetric && md.isolated(c, cs)
 	}
 	y := md.y[lo:hi]
 	xs := md.x[lo:hi]
+	tail := md.tailRatio()
 	eval := func(p, m, jac []float64) {
 		for i, xi := range xs {
 			m[i] = base[i] + p[0] + p[1]*(xi-xc)
@@ -94,42 +120,45 @@ func (md *model) fitGroup(cs []*component, lo, hi int, base []float64) float64 {
 			}
 		}
 		for k := range cs {
-			j := 2 + 4*k
-			x0, h, w, eta := p[j], p[j+1], p[j+2], p[j+3]
+			j := 2 + per*k
+			x0, h, w, eta, as := p[j], p[j+1], p[j+2], p[j+3], p[j+4]
 			x2, dx2 := md.companion2(x0)
 			r := md.rad.Ratio2
 			dbl := md.rad.Doublet()
 			// A component reaches 15 FWHM around its lines; beyond, even
 			// a pure Lorentzian is below 0.1 % of its height.
-			a := sort.SearchFloat64s(xs, x0-15*w)
-			b := sort.SearchFloat64s(xs, math.Min(x2, x0+3)+15*w)
+			a := sort.SearchFloat64s(xs, x0-15*tail*w)
+			b := sort.SearchFloat64s(xs, math.Min(x2, x0+3)+15*tail*w)
 			if jac == nil {
 				for i := a; i < b; i++ {
-					f := PseudoVoigt(xs[i], x0, w, eta)
+					f := lineShape(xs[i], x0, w, eta, as, tail)
 					if dbl {
-						f += r * PseudoVoigt(xs[i], x2, w, eta)
+						f += r * lineShape(xs[i], x2, w, eta, as, tail)
 					}
 					m[i] += h * f
 				}
 				continue
 			}
 			for i := range xs {
-				row := jac[i*np+j : i*np+j+4]
-				row[0], row[1], row[2], row[3] = 0, 0, 0, 0
+				row := jac[i*np+j : i*np+j+per]
+				for q := range row {
+					row[q] = 0
+				}
 			}
 			for i := a; i < b; i++ {
 				xi := xs[i]
-				f, dx, dw, de := pvGrad(xi, x0, w, eta)
+				f, dx, dw, de, da := lineGrad(xi, x0, w, eta, as, tail)
 				if dbl {
-					f2, dx2i, dw2, de2 := pvGrad(xi, x2, w, eta)
+					f2, dx2i, dw2, de2, da2 := lineGrad(xi, x2, w, eta, as, tail)
 					f += r * f2
 					dx += r * dx2i * dx2
 					dw += r * dw2
 					de += r * de2
+					da += r * da2
 				}
 				m[i] += h * f
-				row := jac[i*np+j : i*np+j+4]
-				row[0], row[1], row[2], row[3] = h*dx, f, h*dw, h*de
+				row := jac[i*np+j : i*np+j+per]
+				row[0], row[1], row[2], row[3], row[4] = h*dx, f, h*dw, h*de, h*da
 			}
 		}
 	}
@@ -150,11 +179,13 @@ func (md *model) fitGroup(cs []*component, lo, hi int, base []float64) float64 {
 	scale := math.Max(red, 1)
 	sd := func(j int) float64 { return math.Sqrt(math.Max(res.cov.At(j, j), 0) * scale) }
 	for k, c := range cs {
-		j := 2 + 4*k
-		c.x, c.h, c.w, c.eta = res.p[j], res.p[j+1], res.p[j+2], res.p[j+3]
+		j := 2 + per*k
+		c.x, c.h, c.w, c.eta, c.asym = res.p[j], res.p[j+1], res.p[j+2], res.p[j+3], res.p[j+4]
 		c.sx, c.sh = sd(j), sd(j+1)
 		c.sw, c.seta = sd(j+2), sd(j+3)
+		c.sasym = sd(j + 4)
 		c.b0, c.b1, c.xc = res.p[0], res.p[1], xc
+		c.red, c.dof = red, res.dof
 		if len(cs) > 1 {
 			c.flags |= FlagShared
 		} else {
@@ -247,10 +278,28 @@ func (md *model) baseFor(all []*component, g []*component, lo, hi int) []float64
 		}
 		// Tails matter within about 30 FWHM for a Lorentzian part.
 		x2, _ := md.companion2(c.x)
-		if c.x-30*c.w > md.x[hi-1] || x2+30*c.w < md.x[lo] {
+		if t := 30 * md.tailRatio() * c.w; c.x-t > md.x[hi-1] || x2+t < md.x[lo] {
 			continue
 		}
-		md.addProfile(base, lo, hi, c.x, c.h, c.w, c.eta)
+		md.addProfile(base, lo, hi, c)
 	}
 	return base
+}
+
+// isolated reports whether c's lines (K-alpha1 and K-alpha2) stand
+// clear of every other component of cs by 2.5 widths: then its shape,
+// asymmetry included, is its own.
+func (md *model) isolated(c *component, cs []*component) bool {
+	x2, _ := md.companion2(c.x)
+	for _, o := range cs {
+		if o == c {
+			continue
+		}
+		w := 2.5 * math.Max(c.w, o.w)
+		o2, _ := md.companion2(o.x)
+		if math.Abs(o.x-c.x) < w || math.Abs(o.x-x2) < w || math.Abs(o2-c.x) < w {
+			return false
+		}
+	}
+	return true
 }

@@ -40,6 +40,9 @@ func FuzzParseCIF(f *testing.F) {
 	f.Add("data_r\n_pd_meas_2theta_range_min 10.0\n_pd_meas_2theta_range_max 10.5\n_pd_meas_2theta_range_inc 0.02\nloop_\n_pd_proc_intensity_total\n" + strings.Repeat("5\n", 26))
 	f.Add("data_x\n_pd_block_id 'open\n")
 	f.Add("data_x\nloop_\n_pd_meas_2theta_scan\n_pd_meas_intensity_total\n1 2(\n")
+	f.Add(pdcif{angles: "corrected", intensity: "_pd_proc_intensity_net", weights: true}.text())
+	f.Add(pdcif{angles: "scan", intensity: "_pd_meas_counts_total", rangeOff: 0.3, before: "data_a\n_cell_length_a 3\n"}.text())
+	f.Add("data_tof\nloop_\n_pd_meas_time_of_flight\n_pd_meas_counts_total\n1 2\n")
 	f.Fuzz(func(t *testing.T, text string) {
 		s, err := Parse("fuzz.cif", []byte(text))
 		checkScan(t, s, err)

@@ -22,6 +22,11 @@ const (
 	FlagAdded
 	// FlagUser marks a peak the user asked for (FitAt).
 	FlagUser
+	// FlagFilterEdge marks a weak hump between a much stronger line's
+	// K-beta and K-alpha positions, where the white radiation that line
+	// scatters steps up at the K-beta filter's absorption edge: a
+	// companion, not a reflection of its own.
+	FlagFilterEdge
 )
 
 // String lists the flags as words separated by commas.
@@ -30,7 +35,7 @@ func (f Flags) String() string {
 	for _, x := range []struct {
 		f    Flags
 		name string
-	}{{FlagKBeta, "k-beta"}, {FlagShared, "overlap"}, {FlagFixedShape, "fixed-shape"}, {FlagEdge, "edge"}, {FlagAdded, "shoulder"}, {FlagUser, "user-added"}} {
+	}{{FlagKBeta, "k-beta"}, {FlagShared, "overlap"}, {FlagFixedShape, "fixed-shape"}, {FlagEdge, "edge"}, {FlagAdded, "shoulder"}, {FlagUser, "user-added"}, {FlagFilterEdge, "filter-edge-companion"}} {
 		if f&x.f != 0 {
 			w = append(w, x.name)
 		}
@@ -48,9 +53,12 @@ type Peak struct {
 	Area, AreaESD         float64 // integrated intensity, counts·degrees 2θ
 	FWHM, FWHMESD         float64 // full width at half maximum, degrees 2θ
 	Eta, EtaESD           float64 // pseudo-Voigt Lorentzian fraction, 0…1
-	Background            float64 // background under the peak, counts
-	SNR                   float64 // Height / HeightESD
-	Flags                 Flags
+	// Asymmetry is the line's asymmetry A (split pseudo-Voigt: FWHM
+	// w(1 + A) below the maximum, w(1 − A) above); zero when symmetric.
+	Asymmetry  float64
+	Background float64 // background under the peak, counts
+	SNR        float64 // Height / HeightESD
+	Flags      Flags
 	// Parent is the index (in the same list) of the peak this one is a
 	// K-beta companion of, -1 otherwise.
 	Parent int
@@ -58,4 +66,4 @@ type Peak struct {
 
 // Companion reports whether the peak is a companion line, not a
 // reflection of its own.
-func (p *Peak) Companion() bool { return p.Flags&FlagKBeta != 0 }
+func (p *Peak) Companion() bool { return p.Flags&(FlagKBeta|FlagFilterEdge) != 0 }

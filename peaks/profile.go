@@ -39,3 +39,83 @@ func pvGrad(x, x0, fwhm, eta float64) (f, dx0, dw, deta float64) {
 	deta = l - g
 	return
 }
+
+// Lines with wide wings are pseudo-Voigt curves whose Lorentzian part is
+// wider than the Gaussian part by the scan's tail ratio τ ≥ 1:
+// η L(u/τ) + (1 − η) G(u). Real lines whose crystallites have a spread of
+// sizes, or whose instrument spreads the beam, carry wings wider than one
+// Lorentzian of the core's width can follow; τ = 1 is the plain curve.
+func tailedVoigt(x, x0, fwhm, eta, tail float64) float64 {
+	u := (x - x0) / fwhm
+	v := u / tail
+	return eta/(1+4*v*v) + (1-eta)*math.Exp(-4*ln2*u*u)
+}
+
+// tailedGrad returns tailedVoigt and its derivatives with respect to x0,
+// fwhm and eta.
+func tailedGrad(x, x0, fwhm, eta, tail float64) (f, dx0, dw, deta float64) {
+	if tail == 1 {
+		return pvGrad(x, x0, fwhm, eta)
+	}
+	u := (x - x0) / fwhm
+	v := u / tail
+	l := 1 / (1 + 4*v*v)
+	g := math.Exp(-4 * ln2 * u * u)
+	f = eta*l + (1-eta)*g
+	du := eta*(-8*v*l*l)/tail + (1-eta)*(-8*ln2*u*g)
+	dx0 = -du / fwhm
+	dw = -du * u / fwhm
+	deta = l - g
+	return
+}
+
+// tailedFWHM returns the full width at half maximum of a tailed curve of
+// width parameter fwhm (equal to it when τ = 1).
+func tailedFWHM(fwhm, eta, tail float64) float64 {
+	if tail == 1 || eta == 0 {
+		return fwhm
+	}
+	lo, hi := 0.0, 0.5*tail
+	for k := 0; k < 50; k++ {
+		m := 0.5 * (lo + hi)
+		if tailedVoigt(m, 0, 1, eta, tail) > 0.5 {
+			lo = m
+		} else {
+			hi = m
+		}
+	}
+	return 2 * lo * fwhm
+}
+
+// Asymmetric lines are split pseudo-Voigt curves (Toraya, J. Appl. Cryst.
+// 23 (1990) 485): below the maximum x0 the curve is a pseudo-Voigt of FWHM
+// w(1 + A), above it one of FWHM w(1 − A), both of height 1 at x0. The
+// position is the maximum, the mean of the two half-widths is w/2 and the
+// area is that of the symmetric curve; A > 0 widens the low-angle side, as
+// the axial divergence of a Bragg–Brentano instrument does below 90° 2θ.
+const maxAsym = 0.6 // bound on |A|
+
+// lineShape returns the profile of height 1 at x for a line at x0 with
+// the scan's tail ratio.
+func lineShape(x, x0, w, eta, asym, tail float64) float64 {
+	if x < x0 {
+		return tailedVoigt(x, x0, w*(1+asym), eta, tail)
+	}
+	return tailedVoigt(x, x0, w*(1-asym), eta, tail)
+}
+
+// lineGrad returns lineShape and its derivatives with respect to x0, w,
+// eta and A.
+func lineGrad(x, x0, w, eta, asym, tail float64) (f, dx0, dw, deta, dasym float64) {
+	k := 1 - asym
+	if x < x0 {
+		k = 1 + asym
+	}
+	f, dx0, dfw, deta := tailedGrad(x, x0, w*k, eta, tail)
+	dw = dfw * k
+	dasym = dfw * w
+	if x >= x0 {
+		dasym = -dasym
+	}
+	return
+}

@@ -14,6 +14,13 @@ type Anode struct {
 	KAlpha2 float64 // K-alpha2 wavelength, Å
 	KBeta   float64 // K-beta1 wavelength, Å
 	Source  string  // where the wavelengths come from
+	// Filter is the usual K-beta filter's element and FilterEdge its K
+	// absorption edge, Å (from memory of the edge tables; the tests check
+	// them against xraylib's edge energies). The white radiation a
+	// strong reflection scatters steps up at the edge, which leaves a weak
+	// hump between a line's K-beta and K-alpha positions.
+	Filter     string
+	FilterEdge float64
 }
 
 // Sources of the wavelengths below. The values were written from memory of
@@ -26,12 +33,12 @@ const (
 
 // Anodes lists the supported tube targets.
 var Anodes = []Anode{
-	{"Cu", 1.5405929, 1.5444274, 1.3922340, srcHolzer},
-	{"Co", 1.7889961, 1.7928350, 1.6208260, srcHolzer},
-	{"Cr", 2.2897260, 2.2936510, 2.0848810, srcHolzer},
-	{"Fe", 1.9360410, 1.9399730, 1.7566040, srcHolzer},
-	{"Mo", 0.7093171, 0.7136043, 0.6323040, srcITC},
-	{"Ag", 0.5594075, 0.5638130, 0.4970650, srcITC},
+	{"Cu", 1.5405929, 1.5444274, 1.3922340, srcHolzer, "Ni", 1.4881},
+	{"Co", 1.7889961, 1.7928350, 1.6208260, srcHolzer, "Fe", 1.7433},
+	{"Cr", 2.2897260, 2.2936510, 2.0848810, srcHolzer, "V", 2.2691},
+	{"Fe", 1.9360410, 1.9399730, 1.7566040, srcHolzer, "Mn", 1.8964},
+	{"Mo", 0.7093171, 0.7136043, 0.6323040, srcITC, "Zr", 0.6889},
+	{"Ag", 0.5594075, 0.5638130, 0.4970650, srcITC, "Pd", 0.5092},
 }
 
 // DefaultKAlpha2Ratio is the intensity of K-alpha2 relative to K-alpha1
@@ -56,6 +63,9 @@ type Radiation struct {
 	Lambda2 float64 // K-alpha2 wavelength, Å; 0 for a single line
 	Ratio2  float64 // intensity of K-alpha2 relative to K-alpha1
 	KBeta   float64 // K-beta wavelength used to flag companion peaks, Å; 0 when unknown
+	// Edge is the K absorption edge of the K-beta filter, Å; 0 when the
+	// beam is monochromated or the filter unknown.
+	Edge float64
 }
 
 // Doublet reports whether the radiation has a K-alpha2 line.
@@ -66,7 +76,7 @@ func (r Radiation) Doublet() bool { return r.Lambda2 > 0 && r.Ratio2 > 0 }
 func AnodeRadiation(a Anode) Radiation {
 	return Radiation{
 		Name:    a.Symbol + " K-alpha1/K-alpha2",
-		Lambda1: a.KAlpha1, Lambda2: a.KAlpha2, Ratio2: DefaultKAlpha2Ratio, KBeta: a.KBeta,
+		Lambda1: a.KAlpha1, Lambda2: a.KAlpha2, Ratio2: DefaultKAlpha2Ratio, KBeta: a.KBeta, Edge: a.FilterEdge,
 	}
 }
 
@@ -85,8 +95,10 @@ func ParseRadiation(s string) (Radiation, error) {
 	}
 	if len(t) > 2 {
 		if a, ok := LookupAnode(t[:2]); ok && strings.EqualFold(strings.TrimSpace(t[2:]), "ka1") {
+			// K-alpha1 alone means a monochromator, which passes no
+			// K-beta line.
 			r := SingleLine(a.KAlpha1)
-			r.Name, r.KBeta = a.Symbol+" K-alpha1", a.KBeta
+			r.Name = a.Symbol + " K-alpha1"
 			return r, nil
 		}
 	}

@@ -49,6 +49,45 @@ func TestAnodesAgainstXraylib(t *testing.T) {
 	}
 }
 
+// TestFilterEdgesAgainstXraylib checks the K-beta filters' K edges
+// against the golden file made by testdata/reference/xraylib_edges.py.
+// Edge tables differ by a few eV, so the tolerance is 5e-4 relative.
+func TestFilterEdgesAgainstXraylib(t *testing.T) {
+	raw, err := os.ReadFile("../testdata/reference/xraylib_edges.tsv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	seen := 0
+	for _, line := range strings.Split(strings.TrimSpace(string(raw)), "\n") {
+		if strings.HasPrefix(line, "#") {
+			continue
+		}
+		fs := strings.Split(line, "\t")
+		if len(fs) != 4 {
+			t.Fatalf("bad golden line %q", line)
+		}
+		want, err := strconv.ParseFloat(fs[3], 64)
+		if err != nil {
+			t.Fatal(err)
+		}
+		a, ok := LookupAnode(fs[0])
+		if !ok || a.Filter != fs[1] {
+			t.Errorf("anode %s: filter %q, xraylib file %q", fs[0], a.Filter, fs[1])
+			continue
+		}
+		if rel := math.Abs(a.FilterEdge-want) / want; rel > 5e-4 {
+			t.Errorf("%s K edge %.4f Å, xraylib %.7f Å", a.Filter, a.FilterEdge, want)
+		}
+		if !(a.KBeta < a.FilterEdge && a.FilterEdge < a.KAlpha1) {
+			t.Errorf("%s filter edge %.4f Å not between K-beta and K-alpha1", a.Symbol, a.FilterEdge)
+		}
+		seen++
+	}
+	if seen != len(Anodes) {
+		t.Errorf("checked %d edges, want %d", seen, len(Anodes))
+	}
+}
+
 func TestParseRadiation(t *testing.T) {
 	for _, test := range []struct {
 		in      string

@@ -76,30 +76,36 @@ type cifValue struct {
 	line int
 }
 
-// cifBlock holds the items and loops of the first data block.
+// cifBlock holds the items and loops of one data block.
 type cifBlock struct {
+	name  string
+	line  int
 	items map[string]cifValue   // lower-case tag → single value
 	loops map[string][]cifValue // lower-case tag → looped column
 }
 
-// parseCIFBlock reads the first data_ block of a CIF file.
-func parseCIFBlock(file, text string) (*cifBlock, error) {
+// parseCIFBlocks reads every data_ block of a CIF file.
+func parseCIFBlocks(file, text string) ([]*cifBlock, error) {
 	toks, err := tokenizeCIF(file, text)
 	if err != nil {
 		return nil, err
 	}
-	b := &cifBlock{items: map[string]cifValue{}, loops: map[string][]cifValue{}}
-	started := false
+	var blocks []*cifBlock
+	var b *cifBlock
 	for i := 0; i < len(toks); {
 		t := toks[i]
 		low := strings.ToLower(t.text)
 		switch {
 		case !t.quoted && strings.HasPrefix(low, "data_"):
-			if started {
-				return b, nil // only the first block is read
-			}
-			started = true
+			b = &cifBlock{name: t.text[5:], line: t.line, items: map[string]cifValue{}, loops: map[string][]cifValue{}}
+			blocks = append(blocks, b)
 			i++
+		case b == nil:
+			if !t.quoted && (strings.HasPrefix(low, "global_") || strings.HasPrefix(low, "save_")) {
+				i++
+				continue
+			}
+			return nil, &ParseError{File: file, Line: t.line, Text: t.text, Err: fmt.Errorf("%w: %q before the first data_ block", ErrCIF, t.text)}
 		case !t.quoted && low == "loop_":
 			i++
 			var tags []string
@@ -134,10 +140,10 @@ func parseCIFBlock(file, text string) (*cifBlock, error) {
 			return nil, &ParseError{File: file, Line: t.line, Text: t.text, Err: fmt.Errorf("%w: value without a tag", ErrCIF)}
 		}
 	}
-	if !started {
+	if len(blocks) == 0 {
 		return nil, &ParseError{File: file, Err: fmt.Errorf("%w: no data_ block", ErrCIF)}
 	}
-	return b, nil
+	return blocks, nil
 }
 
 // isCIFReserved reports whether an unquoted word starts a new tag, loop or
@@ -177,92 +183,179 @@ func cifNumber(s string) (v, su float64, err error) {
 	return v, su, nil
 }
 
-// parseCIF reads a powder CIF: angles from _pd_meas_2theta_scan (or the
-// range items), intensities from the first of the count or intensity items
-// present, and _diffrn_radiation_wavelength.
-func parseCIF(file string, data []byte) (*Scan, error) {
-	b, err := parseCIFBlock(file, string(data))
+// The pdCIF items (IUCr powder dictionary) that hold a pattern's angles
+// and intensities, in order of preference.
+var (
+	cifAngleColumns = []string{"_pd_meas_2theta_scan", "_pd_proc_2theta_corrected", "_pd_meas_angle_2theta"}
+	cifAngleRanges  = []string{"_pd_meas_2theta_range", "_pd_proc_2theta_range"}
+	cifIntensities  = []string{"_pd_meas_counts_total", "_pd_meas_intensity_total", "_pd_proc_intensity_total", "_pd_proc_intensity_net"}
+	// Items of patterns that are not angle-dispersive.
+	cifOtherAxes = []string{"_pd_meas_time_of_flight", "_pd_proc_time_of_flight", "_pd_meas_2theta_fixed", "_pd_meas_detector_energy", "_pd_proc_energy_detection"}
+)
+
+// hasPattern reports whether a block holds a looped intensity and angles,
+// a column or a range.
+func (b *cifBlock) hasPattern() bool {
+	y := false
+	for _, t := range cifIntensities {
+		y = y || len(b.loops[t]) > 0
+	}
+	if !y {
+		return false
+	}
+	for _, t := range cifAngleColumns {
+		if len(b.loops[t]) > 0 {
+			return true
+		}
+	}
+	for _, r := range cifAngleRanges {
+		if _, ok := b.value(r + "_inc"); ok {
+			return true
+		}
+	}
+	return false
+}
+
+// measured reports whether a block's intensities are measured (_pd_meas)
+// rather than processed.
+func (b *cifBlock) measured() bool {
+	return len(b.loops["_pd_meas_counts_total"]) > 0 || len(b.loops["_pd_meas_intensity_total"]) > 0
+}
+
+// ReadOptions choose what a reader takes from a file.
+type ReadOptions struct {
+	// Block names the data block of a CIF file to read; empty means the
+	// first that holds a measured pattern, else the first that holds a
+	// processed one.
+	Block string
+}
+
+// parseCIF reads a powder CIF: the pattern of one data block, its
+// wavelength and what the file says of the radiation.
+func parseCIF(file string, data []byte, opt ReadOptions) (*Scan, error) {
+	blocks, err := parseCIFBlocks(file, string(data))
 	if err != nil {
 		return nil, err
 	}
-	s := &Scan{Format: "pdcif"}
-	if v, ok := b.value("_diffrn_radiation_wavelength"); ok {
-		w, _, err := cifNumber(v.text)
-		if err != nil || !(w > 0) {
-			return nil, &ParseError{File: file, Line: v.line, Text: v.text, Err: fmt.Errorf("_diffrn_radiation_wavelength: expected a wavelength in Å: %w", err)}
+	var withPattern []*cifBlock
+	for _, b := range blocks {
+		if b.hasPattern() {
+			withPattern = append(withPattern, b)
 		}
-		s.Wavelength = w
 	}
-	for _, tag := range []string{"_pd_block_id", "_diffrn_radiation_type", "_diffrn_source_target", "_pd_meas_datetime_initiated"} {
+	var b *cifBlock
+	if opt.Block != "" {
+		for _, c := range blocks {
+			if strings.EqualFold(c.name, opt.Block) {
+				b = c
+			}
+		}
+		if b == nil {
+			return nil, &ParseError{File: file, Err: fmt.Errorf("%w: no data block %q (blocks with a pattern: %s)", ErrCIFMissing, opt.Block, blockNames(withPattern))}
+		}
+	} else {
+		for _, c := range withPattern {
+			if c.measured() {
+				b = c
+				break
+			}
+		}
+		if b == nil && len(withPattern) > 0 {
+			b = withPattern[0]
+		}
+	}
+	if b == nil {
+		b = blocks[0]
+		for _, c := range blocks {
+			for _, t := range cifOtherAxes {
+				if len(c.loops[t]) > 0 || c.items[t].text != "" {
+					return nil, &ParseError{File: file, Line: c.line, Err: fmt.Errorf("%w: the pattern of block %q is not angle-dispersive (it has %s); Reticle reads intensities against 2θ at one wavelength", ErrNotAngle, c.name, t)}
+				}
+			}
+		}
+	}
+	s := &Scan{Format: "pdcif", Block: b.name}
+	for _, c := range withPattern {
+		s.Blocks = append(s.Blocks, c.name)
+	}
+	if len(withPattern) > 1 {
+		s.Warnings = append(s.Warnings, fmt.Sprintf("the file holds %d patterns (data blocks %s); block %s was read", len(withPattern), blockNames(withPattern), b.name))
+	}
+	// The radiation is stated in the pattern's block, or (files that
+	// keep the experiment and the pattern apart) in another.
+	rb := b
+	if !b.statesRadiation() {
+		for _, c := range blocks {
+			if c.statesRadiation() {
+				rb = c
+				break
+			}
+		}
+	}
+	if err := cifRadiation(file, rb, s); err != nil {
+		return nil, err
+	}
+	for _, tag := range []string{"_pd_block_id", "_diffrn_radiation_type", "_diffrn_source_target", "_diffrn_radiation_monochromator", "_pd_meas_datetime_initiated"} {
 		if v, ok := b.items[tag]; ok {
 			s.Meta = append(s.Meta, MetaItem{Line: v.line, Key: tag, Value: v.text})
 		}
 	}
 	var ycol []cifValue
 	var ytag string
-	for _, tag := range []string{"_pd_meas_counts_total", "_pd_meas_intensity_total", "_pd_proc_intensity_total"} {
+	for _, tag := range cifIntensities {
 		if l := b.loops[tag]; len(l) > 0 {
 			ycol, ytag = l, tag
 			break
 		}
 	}
 	if ycol == nil {
-		return nil, &ParseError{File: file, Err: fmt.Errorf("%w: no looped _pd_meas_counts_total, _pd_meas_intensity_total or _pd_proc_intensity_total", ErrCIFMissing)}
+		return nil, &ParseError{File: file, Line: b.line, Err: fmt.Errorf("%w: block %s has no looped intensities (%s)", ErrCIFMissing, b.name, strings.Join(cifIntensities, ", "))}
+	}
+	xs, err := cifAngles(file, b, s, ycol, ytag)
+	if err != nil {
+		return nil, err
 	}
 	var errs ErrorList
-	xs := make([]float64, len(ycol))
-	if xcol := b.loops["_pd_meas_2theta_scan"]; len(xcol) > 0 {
-		if len(xcol) != len(ycol) {
-			return nil, &ParseError{File: file, Line: xcol[0].line, Err: fmt.Errorf("%w: _pd_meas_2theta_scan has %d values, %s has %d", ErrCIF, len(xcol), ytag, len(ycol))}
-		}
-		for i, v := range xcol {
-			x, _, err := cifNumber(v.text)
-			if err != nil {
-				errs.Add(&ParseError{File: file, Line: v.line, Text: v.text, Err: fmt.Errorf("_pd_meas_2theta_scan: %w", err)})
-			}
-			xs[i] = x
-		}
-	} else {
-		var r [3]float64
-		for k, tag := range []string{"_pd_meas_2theta_range_min", "_pd_meas_2theta_range_max", "_pd_meas_2theta_range_inc"} {
-			v, ok := b.value(tag)
-			if !ok {
-				return nil, &ParseError{File: file, Err: fmt.Errorf("%w: neither _pd_meas_2theta_scan nor %s", ErrCIFMissing, tag)}
-			}
-			x, _, err := cifNumber(v.text)
-			if err != nil {
-				return nil, &ParseError{File: file, Line: v.line, Text: v.text, Err: fmt.Errorf("%s: %w", tag, err)}
-			}
-			r[k] = x
-		}
-		if !(r[2] > 0) || r[1] < r[0] {
-			return nil, &ParseError{File: file, Err: fmt.Errorf("%w: 2θ range min %g, max %g, increment %g", ErrCIF, r[0], r[1], r[2])}
-		}
-		want := int(math.Round((r[1]-r[0])/r[2])) + 1
-		if want != len(ycol) {
-			return nil, &ParseError{File: file, Line: ycol[0].line, Err: fmt.Errorf("%w: the 2θ range gives %d points, %s has %d", ErrCIF, want, ytag, len(ycol))}
-		}
-		for i := range xs {
-			xs[i] = r[0] + float64(i)*r[2]
-		}
-	}
-	pts := make([]point, len(ycol))
+	pts := make([]point, 0, len(ycol))
 	hasESD := false
+	weights := b.loops["_pd_proc_ls_weight"]
+	if len(weights) != len(ycol) {
+		weights = nil
+	}
+	dropped := 0
 	for i, v := range ycol {
 		y, su, err := cifNumber(v.text)
 		if err != nil {
 			errs.Add(&ParseError{File: file, Line: v.line, Text: v.text, Err: fmt.Errorf("%s: %w", ytag, err)})
+			if len(errs) >= 20 {
+				break
+			}
+			continue
+		}
+		if su == 0 && weights != nil {
+			w, _, err := cifNumber(weights[i].text)
+			switch {
+			case err != nil || w < 0:
+				errs.Add(&ParseError{File: file, Line: weights[i].line, Text: weights[i].text, Err: fmt.Errorf("_pd_proc_ls_weight: want a weight 1/σ² of 0 or more: %w", ErrText)})
+			case w == 0:
+				// A zero weight leaves the point out of every fit
+				// (excluded regions).
+				dropped++
+				continue
+			default:
+				su = 1 / math.Sqrt(w)
+			}
 		}
 		if su > 0 {
 			hasESD = true
 		}
-		pts[i] = point{x: xs[i], y: y, e: su, line: v.line}
-		if len(errs) >= 20 {
-			break
-		}
+		pts = append(pts, point{x: xs[i], y: y, e: su, line: v.line})
 	}
 	if err := errs.Err(); err != nil {
 		return nil, err
+	}
+	if dropped > 0 {
+		s.Warnings = append(s.Warnings, fmt.Sprintf("%d points with zero weight (_pd_proc_ls_weight) were left out", dropped))
 	}
 	if hasESD {
 		for i := range pts {
@@ -274,5 +367,176 @@ func parseCIF(file string, data []byte) (*Scan, error) {
 	if err := s.finish(file, pts, hasESD); err != nil {
 		return nil, err
 	}
+	s.checkNoise(ytag == "_pd_proc_intensity_net")
 	return s, nil
+}
+
+// blockNames lists the names of blocks.
+func blockNames(bs []*cifBlock) string {
+	var w []string
+	for _, b := range bs {
+		w = append(w, b.name)
+	}
+	if len(w) == 0 {
+		return "none"
+	}
+	return strings.Join(w, ", ")
+}
+
+// cifAngles returns the 2θ of every point: from a looped column, else
+// from range items. When both exist and disagree the column wins, with a
+// note.
+func cifAngles(file string, b *cifBlock, s *Scan, ycol []cifValue, ytag string) ([]float64, error) {
+	xs := make([]float64, len(ycol))
+	var xcol []cifValue
+	var xtag string
+	for _, t := range cifAngleColumns {
+		if l := b.loops[t]; len(l) > 0 {
+			xcol, xtag = l, t
+			break
+		}
+	}
+	var rng [3]float64
+	var rtag string
+	for _, r := range cifAngleRanges {
+		ok := true
+		for k, suffix := range []string{"_min", "_max", "_inc"} {
+			v, found := b.value(r + suffix)
+			if !found {
+				ok = false
+				break
+			}
+			x, _, err := cifNumber(v.text)
+			if err != nil {
+				if xcol != nil {
+					ok = false // the column will do
+					break
+				}
+				return nil, &ParseError{File: file, Line: v.line, Text: v.text, Err: fmt.Errorf("%s%s: %w", r, suffix, err)}
+			}
+			rng[k] = x
+		}
+		if ok {
+			rtag = r
+			break
+		}
+	}
+	if xcol != nil {
+		if len(xcol) != len(ycol) {
+			return nil, &ParseError{File: file, Line: xcol[0].line, Err: fmt.Errorf("%w: %s has %d values, %s has %d", ErrCIF, xtag, len(xcol), ytag, len(ycol))}
+		}
+		var errs ErrorList
+		for i, v := range xcol {
+			x, _, err := cifNumber(v.text)
+			if err != nil {
+				errs.Add(&ParseError{File: file, Line: v.line, Text: v.text, Err: fmt.Errorf("%s: %w", xtag, err)})
+			}
+			xs[i] = x
+		}
+		if err := errs.Err(); err != nil {
+			return nil, err
+		}
+		if rtag != "" && rng[2] > 0 {
+			want := int(math.Round((rng[1]-rng[0])/rng[2])) + 1
+			if want != len(xs) || math.Abs(xs[0]-rng[0]) > rng[2]/2 || math.Abs(xs[len(xs)-1]-rng[1]) > rng[2]/2 {
+				s.Warnings = append(s.Warnings, fmt.Sprintf("the %s items (%s to %s° in steps of %s, %d points) disagree with the %s column (%s to %s°, %d points); the column was used",
+					rtag, ftoa(rng[0]), ftoa(rng[1]), ftoa(rng[2]), want, xtag, ftoa(xs[0]), ftoa(xs[len(xs)-1]), len(xs)))
+			}
+		}
+		return xs, nil
+	}
+	if rtag == "" {
+		return nil, &ParseError{File: file, Line: b.line, Err: fmt.Errorf("%w: block %s has neither a 2θ column (%s) nor the range items (%s_min, _max, _inc)", ErrCIFMissing, b.name, strings.Join(cifAngleColumns, ", "), cifAngleRanges[0])}
+	}
+	if !(rng[2] > 0) || rng[1] < rng[0] {
+		return nil, &ParseError{File: file, Err: fmt.Errorf("%w: 2θ range min %g, max %g, increment %g", ErrCIF, rng[0], rng[1], rng[2])}
+	}
+	want := int(math.Round((rng[1]-rng[0])/rng[2])) + 1
+	if want != len(ycol) {
+		return nil, &ParseError{File: file, Line: ycol[0].line, Err: fmt.Errorf("%w: the 2θ range gives %d points, %s has %d", ErrCIF, want, ytag, len(ycol))}
+	}
+	for i := range xs {
+		xs[i] = rng[0] + float64(i)*rng[2]
+	}
+	return xs, nil
+}
+
+// statesRadiation reports whether a block gives a wavelength.
+func (b *cifBlock) statesRadiation() bool {
+	_, ok := b.value("_diffrn_radiation_wavelength")
+	_, proc := b.items["_pd_proc_wavelength"]
+	return ok || proc
+}
+
+// cifRadiation reads the wavelength (one, or a looped list with weights:
+// a K-alpha doublet) and what the block says of the radiation: K-alpha1
+// alone, or a monochromator that removes K-beta.
+func cifRadiation(file string, b *cifBlock, s *Scan) error {
+	lams := b.loops["_diffrn_radiation_wavelength"]
+	wts := b.loops["_diffrn_radiation_wavelength_wt"]
+	if len(lams) == 0 {
+		for _, tag := range []string{"_diffrn_radiation_wavelength", "_pd_proc_wavelength"} {
+			if v, ok := b.items[tag]; ok {
+				lams = []cifValue{v}
+				break
+			}
+		}
+	}
+	var ls, ws []float64
+	for i, v := range lams {
+		w, _, err := cifNumber(v.text)
+		if err != nil || !(w > 0) {
+			return &ParseError{File: file, Line: v.line, Text: v.text, Err: fmt.Errorf("_diffrn_radiation_wavelength: expected a wavelength in Å: %w", err)}
+		}
+		ls = append(ls, w)
+		wt := 1.0
+		if i < len(wts) {
+			if x, _, err := cifNumber(wts[i].text); err == nil && x > 0 {
+				wt = x
+			}
+		}
+		ws = append(ws, wt)
+	}
+	switch {
+	case len(ls) == 1:
+		s.Wavelength = ls[0]
+	case len(ls) >= 2:
+		// The strongest line is K-alpha1; the next the second line of
+		// the doublet, its weight relative to the first.
+		i1 := 0
+		for i := range ls {
+			if ws[i] > ws[i1] {
+				i1 = i
+			}
+		}
+		i2 := -1
+		for i := range ls {
+			if i != i1 && (i2 < 0 || ws[i] > ws[i2]) {
+				i2 = i
+			}
+		}
+		s.Wavelength, s.Wavelength2, s.Ratio2 = ls[i1], ls[i2], ws[i2]/ws[i1]
+	}
+	typ := strings.ToLower(b.items["_diffrn_radiation_type"].text)
+	mono := strings.ToLower(b.items["_diffrn_radiation_monochromator"].text)
+	if t := b.items["_diffrn_source_target"].text; t != "" && t != "?" {
+		s.Anode = t
+	}
+	// K-alpha1 alone: the type says so (CIF markup \a~1~, or a1 / alpha1),
+	// or a monochromator in the incident beam.
+	if strings.Contains(typ, "\\a~1~") || strings.Contains(typ, "a1") || strings.Contains(typ, "alpha1") ||
+		strings.Contains(mono, "primary") || strings.Contains(mono, "incident") || strings.Contains(mono, "johans") {
+		s.KAlpha1Only = true
+	}
+	if s.KAlpha1Only || mono != "" && mono != "?" && mono != "." && mono != "none" {
+		s.NoKBeta = true
+	}
+	if s.Anode == "" {
+		for _, a := range Anodes {
+			if strings.HasPrefix(typ, strings.ToLower(a.Symbol)) {
+				s.Anode = a.Symbol
+			}
+		}
+	}
+	return nil
 }

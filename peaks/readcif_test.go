@@ -74,8 +74,8 @@ func TestParseCIFBad(t *testing.T) {
 		want error
 		line int
 	}{
-		{"no intensities", "data_x\n_pd_meas_2theta_range_min 1\n", ErrCIFMissing, 0},
-		{"no angles", "data_x\nloop_\n_pd_meas_counts_total\n1\n2\n", ErrCIFMissing, 0},
+		{"no intensities", "data_x\n_pd_meas_2theta_range_min 1\n", ErrCIFMissing, 1},
+		{"no angles", "data_x\nloop_\n_pd_meas_counts_total\n1\n2\n", ErrCIFMissing, 1},
 		{"ragged loop", strings.Replace(base, "20.00 400(20)", "20.00", 1), ErrCIF, 9},
 		{"text count", strings.Replace(base, "20.02 401(20)", "20.02 many", 1), ErrText, 13},
 		{"unclosed quote", "data_x\n_pd_block_id 'open\n", ErrCIF, 2},

@@ -28,12 +28,22 @@ type Scan struct {
 	Intensity []float64 // counts
 	ESD       []float64 // estimated standard deviation of Intensity; nil when the file has none
 
-	// Wavelength is the wavelength in Å stated in the file, 0 when none.
-	Wavelength float64
+	// Wavelength is the wavelength in Å stated in the file, 0 when none;
+	// Wavelength2 and Ratio2 the second line of a doublet the file
+	// states (a CIF's looped wavelengths with their weights).
+	Wavelength, Wavelength2, Ratio2 float64
 	// Anode is the tube target named in the file ("Cu"), empty when none.
-	Anode    string
+	Anode string
+	// KAlpha1Only is set when the file says the incident beam was
+	// K-alpha1 alone (a primary monochromator); NoKBeta when it says a
+	// monochromator removed K-beta.
+	KAlpha1Only, NoKBeta bool
+	// Block is the CIF data block read; Blocks every block of the file
+	// that holds a pattern.
+	Block    string
+	Blocks   []string
 	Meta     []MetaItem // header lines in file order
-	Warnings []string   // problems that did not stop the read (sorted angles, negative counts, ...)
+	Warnings []string   // notes on the read: problems that did not stop it (sorted angles, negative counts, ...) and choices made
 }
 
 // Len returns the number of points.
@@ -140,16 +150,119 @@ func (s *Scan) finish(file string, pts []point, hasESD bool) error {
 
 func ftoa(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 
-// Radiation returns the radiation the scan states: its wavelength as a
-// single line, else the K-alpha doublet of the anode it names, else the
-// Cu K-alpha doublet (the commonest laboratory source).
+// Radiation returns the radiation the scan states:
+//   - a doublet the file lists (two wavelengths with their weights);
+//   - a stated wavelength equal (to 1e-4 Å) to an anode's K-alpha1 or to
+//     its weighted K-alpha mean (2λ₁ + λ₂)/3, when the file does not say
+//     K-alpha1 alone: that anode's doublet, the wavelength being the
+//     doublet's label rather than a single line (common practice);
+//   - any other stated wavelength as a single line;
+//   - else the K-alpha doublet of the anode the file names, else the Cu
+//     doublet (the commonest laboratory source).
+//
+// A file that says a monochromator removed K-beta gives no K-beta line.
 func (s *Scan) Radiation() Radiation {
+	r := s.radiation()
+	if s.NoKBeta || s.KAlpha1Only {
+		r.KBeta, r.Edge = 0, 0
+	}
+	return r
+}
+
+func (s *Scan) radiation() Radiation {
+	if s.Wavelength > 0 && s.Wavelength2 > 0 {
+		r := Radiation{Name: fmt.Sprintf("%s Å / %s Å", ftoa(s.Wavelength), ftoa(s.Wavelength2)), Lambda1: s.Wavelength, Lambda2: s.Wavelength2, Ratio2: s.Ratio2}
+		if r.Ratio2 <= 0 {
+			r.Ratio2 = DefaultKAlpha2Ratio
+		}
+		for _, a := range Anodes {
+			if math.Abs(a.KAlpha1-s.Wavelength) < 1e-4 {
+				r.KBeta, r.Edge = a.KBeta, a.FilterEdge
+			}
+		}
+		return r
+	}
 	if s.Wavelength > 0 {
+		for _, a := range Anodes {
+			mean := (2*a.KAlpha1 + a.KAlpha2) / 3
+			if math.Abs(a.KAlpha1-s.Wavelength) < 1e-4 || math.Abs(mean-s.Wavelength) < 1e-4 {
+				if s.KAlpha1Only {
+					r := SingleLine(a.KAlpha1)
+					r.Name = a.Symbol + " K-alpha1"
+					return r
+				}
+				return AnodeRadiation(a)
+			}
+		}
 		return SingleLine(s.Wavelength)
 	}
 	if a, ok := LookupAnode(s.Anode); ok {
+		if s.KAlpha1Only {
+			r := SingleLine(a.KAlpha1)
+			r.Name = a.Symbol + " K-alpha1"
+			return r
+		}
 		return AnodeRadiation(a)
 	}
 	a, _ := LookupAnode("Cu")
 	return AnodeRadiation(a)
+}
+
+// checkNoise compares the esds the file states with the point-to-point
+// scatter of the intensities, and sets esds for net intensities the file
+// gives none for. For white noise the second difference
+// r_i = y_i − (y_{i−1} + y_{i+1})/2 has variance 1.5σ²; its robust spread
+// (1.4826 × the median absolute value, which peaks barely move on a
+// scan of many points per width) measures σ. Stated esds less than a
+// third of that scatter (weights that are not 1/σ², say) would make noise
+// look like lines; they are replaced: by counting noise √I when the
+// intensities scatter as counts do, else by the constant σ of the
+// scatter; the scan says so in a note. Larger esds than the scatter are
+// kept (smoothed or processed data). Net intensities (background
+// removed) without esds get the constant σ of their scatter.
+func (s *Scan) checkNoise(net bool) {
+	n := s.Len()
+	if n < 5 {
+		return
+	}
+	// spread returns the robust spread of r_i/(σ_i √1.5).
+	spread := func(sigma func(i int) float64) float64 {
+		t := make([]float64, 0, n-2)
+		for i := 1; i < n-1; i++ {
+			if sg := sigma(i); sg > 0 {
+				r := s.Intensity[i] - (s.Intensity[i-1]+s.Intensity[i+1])/2
+				t = append(t, math.Abs(r)/(sg*math.Sqrt(1.5)))
+			}
+		}
+		if len(t) == 0 {
+			return math.NaN()
+		}
+		sort.Float64s(t)
+		return 1.4826 * t[len(t)/2]
+	}
+	counts := spread(func(i int) float64 { return math.Sqrt(math.Max(s.Intensity[i], 1)) })
+	constant := spread(func(int) float64 { return 1 })
+	plausible := func(v float64) bool { return v > 1.0/3 && v < 3 }
+	replace := func(why string) {
+		if plausible(counts) {
+			s.ESD = nil
+			s.Warnings = append(s.Warnings, why+"; counting noise √I was used, which matches the scatter")
+			return
+		}
+		s.ESD = make([]float64, n)
+		for i := range s.ESD {
+			s.ESD[i] = math.Max(constant, 1e-12)
+		}
+		s.Warnings = append(s.Warnings, fmt.Sprintf("%s; the scatter of the points, σ = %.3g, was used for every point", why, constant))
+	}
+	switch {
+	case s.ESD != nil:
+		if v := spread(func(i int) float64 { return s.ESD[i] }); v > 3 {
+			replace(fmt.Sprintf("the esds in the file are %.2g times the point-to-point scatter of the intensities", 1/v))
+		}
+	case net:
+		if !plausible(counts) {
+			replace("the file gives background-subtracted intensities without esds")
+		}
+	}
 }

@@ -46,3 +46,24 @@ func smooth(y, sigma, c []float64) (s, ss []float64) {
 	}
 	return s, ss
 }
+
+// SavitzkyGolay2 returns the coefficients of the quadratic least-squares
+// second-derivative filter over 2h+1 points (Savitzky & Golay 1964): the
+// curvature 2a₂ of the parabola a₀ + a₁k + a₂k² fitted to the points,
+// per squared step: c_k = 2(k² − m)/Σ_j(j² − m)², m = h(h+1)/3.
+func SavitzkyGolay2(h int) []float64 {
+	if h < 1 {
+		panic("peaks: Savitzky–Golay half-width must be at least 1")
+	}
+	m := float64(h*(h+1)) / 3
+	var den float64
+	for k := -h; k <= h; k++ {
+		d := float64(k*k) - m
+		den += d * d
+	}
+	c := make([]float64, 2*h+1)
+	for k := -h; k <= h; k++ {
+		c[k+h] = 2 * (float64(k*k) - m) / den
+	}
+	return c
+}

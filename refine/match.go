@@ -18,8 +18,28 @@ type Matching struct {
 }
 
 // startSlack is the extra window, degrees 2θ, of the first assignment
-// passes: a typed starting cell must predict its lines within about this.
+// passes when an internal standard of known cell is sought: the
+// instrument's offsets must be within about this.
 var startSlack = []float64{0.15, 0.08, 0.04}
+
+// startSpread is the relative d-spacing error, per first assignment pass,
+// that a typed starting cell may have (a cell from the literature for a
+// solid solution or another temperature is commonly within 1 %). It widens
+// each line's window by 2·tan θ·ε radians of 2θ, so that high-angle lines
+// are not assigned on a position the starting cell cannot predict.
+var startSpread = []float64{0.01, 0.005, 0.0025, 0.001}
+
+// A window is the extra width of an assignment pass: abs degrees 2θ plus
+// a relative d-spacing error rel.
+type window struct{ abs, rel float64 }
+
+// at returns the extra width, degrees 2θ, at 2θ = tt degrees.
+func (w window) at(tt float64) float64 {
+	return w.abs + 2*math.Tan(tt*math.Pi/360)*w.rel*180/math.Pi
+}
+
+// loose reports whether the window widens the assignment at all.
+func (w window) loose() bool { return w.abs > 0 || w.rel > 0 }
 
 // RefineLines assigns observed lines to the calculated lines of a known
 // cell (and of the internal standard, when Options.Standard is set) and
@@ -45,13 +65,34 @@ func RefineLines(ctx context.Context, c cell.Cell, lines []Observation, opt Opti
 	o := opt.withDefaults()
 	var prev []Observation
 	var res *Result
-	for pass := 0; pass < 12; pass++ {
-		slack := 0.0
-		if pass < len(startSlack) {
-			slack = startSlack[pass]
+	// The first passes assign only the lines whose widened window holds
+	// one calculated line and refine the cell alone: corrections fitted to
+	// a wrong early assignment can carry the cell to a false minimum.
+	first := opt
+	if first.Standard == nil {
+		first.Corrections = None
+	}
+	need := len(c.System.FreeNames()) + 1
+	for pass := 0; pass < 12+len(startSpread); pass++ {
+		var win window
+		if pass < len(startSpread) {
+			win.rel = startSpread[pass]
 		}
-		obs, unmatched, overlapped := assign(cur, sorted, o, v, m, slack)
-		if pass >= len(startSlack) && sameAssignment(obs, prev) {
+		obs, unmatched, overlapped := assign(cur, sorted, o, v, m, win)
+		if win.loose() {
+			if clear := unambiguous(obs); len(clear) >= need {
+				obs = clear
+			}
+			r, err := Refine(ctx, c, obs, first)
+			if err != nil {
+				// A start too poor for the strict pass: go on from the
+				// typed cell with the ordinary windows.
+				continue
+			}
+			cur, v = r.Cell, r.shifts
+			continue
+		}
+		if res != nil && sameAssignment(obs, prev) {
 			res.Unmatched, res.Overlapped = unmatched, overlapped
 			return res, nil
 		}
@@ -119,11 +160,25 @@ func nearestCalc(cl []calcLine, tt, w float64) (calcLine, float64, int) {
 	return best, bd, n
 }
 
+// unambiguous returns the assigned lines whose window held a single
+// calculated line.
+func unambiguous(obs []Observation) []Observation {
+	var out []Observation
+	for _, o := range obs {
+		if !o.ambiguous {
+			out = append(out, o)
+		}
+	}
+	return out
+}
+
 // assign matches the lines to the cell's (and the standard's) calculated
-// lines with windows widened by slack degrees. A line that two calculated
-// lines claim (of one phase, or one of each) is an unresolved blend whose
-// position is neither's: it is left out as overlapped.
-func assign(c cell.Cell, lines []Observation, o Options, v shifts, m Matching, slack float64) (obs []Observation, unmatched, overlapped []cell.Line) {
+// lines with windows widened by win. A line that two calculated lines
+// claim (of one phase, or one of each) is an unresolved blend whose
+// position is neither's: it is left out as overlapped. In a widened pass
+// such a line goes to the nearest calculated line and is marked
+// ambiguous.
+func assign(c cell.Cell, lines []Observation, o Options, v shifts, m Matching, win window) (obs []Observation, unmatched, overlapped []cell.Line) {
 	ttmax := lines[len(lines)-1].TwoTheta + 2
 	own := calcLines(c, o, v, ttmax)
 	var std []calcLine
@@ -131,19 +186,25 @@ func assign(c cell.Cell, lines []Observation, o Options, v shifts, m Matching, s
 		std = calcLines(o.Standard.Cell, o, v, ttmax)
 	}
 	for _, l := range lines {
-		w := math.Max(m.Tolerance, 3*l.ESD) + slack
+		w := math.Max(m.Tolerance, 3*l.ESD) + win.at(l.TwoTheta)
 		a, da, na := nearestCalc(own, l.TwoTheta, w)
 		b, db, nb := nearestCalc(std, l.TwoTheta, w)
 		okA, okB := da <= w, db <= w
 		switch {
-		case okA && okB, slack == 0 && na+nb > 1:
+		case okA && okB && win.loose():
+			if da <= db {
+				okB = false
+			} else {
+				okA = false
+			}
+		case okA && okB, !win.loose() && na+nb > 1:
 			overlapped = append(overlapped, l.Line)
 			continue
 		case !okA && !okB:
 			unmatched = append(unmatched, l.Line)
 			continue
 		}
-		ob := Observation{Line: l.Line, HKL: a.hkl, Excluded: l.Excluded}
+		ob := Observation{Line: l.Line, HKL: a.hkl, Excluded: l.Excluded, ambiguous: na+nb > 1}
 		if okB {
 			ob.HKL, ob.Standard = b.hkl, true
 		}
@@ -181,7 +242,7 @@ func MatchStandard(ctx context.Context, lines []cell.Line, std Standard, opt Opt
 		if pass < len(startSlack) {
 			slack = startSlack[pass]
 		}
-		found, unmatched, _ := assign(std.Cell, obs, plain, v, Matching{Tolerance: cell.MatchTolerance}, slack)
+		found, unmatched, _ := assign(std.Cell, obs, plain, v, Matching{Tolerance: cell.MatchTolerance}, window{abs: slack})
 		for i := range found {
 			found[i].Standard = true
 		}

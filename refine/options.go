@@ -71,6 +71,8 @@ type Observation struct {
 	// Excluded lines take no part in the fit; their residuals are still
 	// reported.
 	Excluded bool
+
+	ambiguous bool // a widened assignment window held several lines
 }
 
 // A Scaling is a convention for scaling the covariance by the reduced χ².

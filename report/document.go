@@ -36,8 +36,10 @@ type Document struct {
 	// filled in.
 	Settings analysis.Settings  `json:"settings"`
 	Resolved *analysis.Settings `json:"settings_used,omitempty"`
-	Lines    int                `json:"lines"` // lines indexed (companions, rejected peaks and the standard's lines left out)
-	Peaks    []Peak             `json:"peaks"`
+	// Profile is the scan-wide line shape the peaks were fitted with.
+	Profile *ProfileInfo `json:"profile,omitempty"`
+	Lines   int          `json:"lines"` // lines indexed (companions, rejected peaks and the standard's lines left out)
+	Peaks   []Peak       `json:"peaks"`
 	// StandardLines are the internal standard's lines, when one was used.
 	StandardLines []Residual `json:"standard_lines,omitempty"`
 	Solutions     []Solution `json:"solutions"`
@@ -94,6 +96,39 @@ func NewCellValues(c cell.Cell, e cell.ESD, v, ve float64) CellValues {
 		Volume: v, VolumeESD: ve, Text: cell.Format(c, e)}
 }
 
+// ProfileInfo is the scan-wide line shape the peaks were fitted with
+// (see package peaks): the width curve FWHM² = U tan²θ + V tanθ + W
+// (degrees²), the median Lorentzian fraction, the asymmetry law
+// A = c0 + c1·t + c2·t² with t = (2θ − 90°)/90° (fitted over
+// asymmetry_range, degrees 2θ), the ratio of the lines' Lorentzian to
+// Gaussian width, the K-alpha2 and K-beta intensity ratios, and the factor
+// applied to the points' esds.
+type ProfileInfo struct {
+	UVW            [3]float64 `json:"fwhm_uvw"`
+	Eta            float64    `json:"eta"`
+	Asymmetry      [3]float64 `json:"asymmetry"`
+	AsymmetryRange []float64  `json:"asymmetry_range,omitempty"`
+	TailRatio      float64    `json:"tail_ratio"`
+	Ka2Ratio       float64    `json:"ka2_ratio"`
+	KBetaRatio     float64    `json:"kbeta_ratio"`
+	NoiseScale     float64    `json:"noise_scale"`
+}
+
+// NewProfileInfo describes an extraction's line shape.
+func NewProfileInfo(r *peaks.Result) *ProfileInfo {
+	p := &ProfileInfo{
+		UVW: [3]float64{r.FWHMCurve.U, r.FWHMCurve.V, r.FWHMCurve.W}, Eta: r.Eta,
+		Asymmetry: r.Asymmetry.C, TailRatio: r.TailRatio, KBetaRatio: r.KBetaRatio, NoiseScale: r.NoiseScale,
+	}
+	if r.Asymmetry.Hi > r.Asymmetry.Lo {
+		p.AsymmetryRange = []float64{r.Asymmetry.Lo, r.Asymmetry.Hi}
+	}
+	if r.Radiation.Doublet() {
+		p.Ka2Ratio = r.Radiation.Ratio2
+	}
+	return p
+}
+
 // A Peak is one extracted peak.
 type Peak struct {
 	TwoTheta    float64 `json:"two_theta"`
@@ -107,6 +142,7 @@ type Peak struct {
 	FWHM        float64 `json:"fwhm"`
 	FWHMESD     float64 `json:"fwhm_esd"`
 	Eta         float64 `json:"eta"`
+	Asymmetry   float64 `json:"asymmetry"`
 	Background  float64 `json:"background"`
 	SNR         float64 `json:"snr"`
 	Flags       string  `json:"flags,omitempty"`
@@ -119,7 +155,7 @@ func NewPeak(p peaks.Peak, rejected bool) Peak {
 	j := Peak{
 		TwoTheta: p.TwoTheta, TwoThetaESD: p.TwoThetaESD, D: p.D, DESD: p.DESD,
 		Height: p.Height, HeightESD: p.HeightESD, Area: p.Area, AreaESD: p.AreaESD,
-		FWHM: p.FWHM, FWHMESD: p.FWHMESD, Eta: p.Eta, Background: p.Background, SNR: p.SNR,
+		FWHM: p.FWHM, FWHMESD: p.FWHMESD, Eta: p.Eta, Asymmetry: p.Asymmetry, Background: p.Background, SNR: p.SNR,
 		Flags: p.Flags.String(), Rejected: rejected,
 	}
 	if p.Parent >= 0 {
@@ -323,6 +359,9 @@ func NewDocument(a *analysis.Analysis) *Document {
 		Program: Program, Version: Version, Schema: Schema, Sample: a.Settings.Sample,
 		ScanInfo: NewScanInfo(a.Scan, a.Radiation), Settings: a.Settings, Resolved: &r,
 		Lines: len(a.Lines), Peaks: []Peak{}, Solutions: []Solution{}, Warnings: a.Warnings,
+	}
+	if a.Extraction != nil && a.Extraction.Result != nil {
+		doc.Profile = NewProfileInfo(a.Extraction.Result)
 	}
 	if a.Radiation.Doublet() {
 		doc.Wavelength2, doc.Ka2Ratio = a.Radiation.Lambda2, a.Radiation.Ratio2

@@ -124,9 +124,10 @@ func TestCIFReadByGemmi(t *testing.T) {
 					calc = rr.TwoThetaCalc
 				}
 			}
-			if !l.Indexed || strconv.Itoa(l.HKL[0][0]) != fs[1] || strconv.Itoa(l.HKL[0][1]) != fs[2] || strconv.Itoa(l.HKL[0][2]) != fs[3] ||
+			if !l.Indexed || len(l.HKL) == 0 || strconv.Itoa(l.HKL[0][0]) != fs[1] || strconv.Itoa(l.HKL[0][1]) != fs[2] || strconv.Itoa(l.HKL[0][2]) != fs[3] ||
 				math.Abs(atof(fs[6])-calc) > 5e-6 {
 				t.Errorf("reflection %v: no such line in the analysis (%+v)", fs[1:], l)
+				continue
 			}
 			h := l.HKL[0]
 			if d := ce.D(h); math.Abs(d-atof(fs[4])) > 5e-7 {

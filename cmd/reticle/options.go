@@ -83,6 +83,9 @@ var options = []option{
 			r.settings.Radiation = &rad
 			return nil
 		}},
+	{name: "block", arg: "NAME", in: scanCommands, def: "the block with the measured pattern",
+		help: "data block of a CIF file to read",
+		set:  func(r *request, v string) error { r.settings.Block = v; return nil }},
 	{name: "ka2-ratio", arg: "R", in: scanCommands, def: ftoa(peaks.DefaultKAlpha2Ratio),
 		help: "K-alpha2/K-alpha1 intensity ratio of a doublet",
 		set:  floatOpt(func(r *request) *float64 { return &r.settings.KAlpha2Ratio }, func(x float64) bool { return x > 0 && x <= 1 }, "a ratio above 0, at most 1")},

@@ -14,8 +14,9 @@ import (
 // scanJSON is the --json document of reticle peaks for one scan.
 type scanJSON struct {
 	report.ScanInfo
-	Warnings []string      `json:"warnings,omitempty"`
-	Peaks    []report.Peak `json:"peaks"`
+	Warnings []string            `json:"warnings,omitempty"`
+	Profile  *report.ProfileInfo `json:"profile"`
+	Peaks    []report.Peak       `json:"peaks"`
 }
 
 func cmdPeaksRun(args []string, stdout, stderr io.Writer) int {
@@ -36,7 +37,11 @@ func cmdPeaksRun(args []string, stdout, stderr io.Writer) int {
 			status = 1
 			continue
 		}
-		doc := scanJSON{ScanInfo: report.NewScanInfo(e.Scan, e.Result.Radiation), Warnings: e.Scan.Warnings, Peaks: []report.Peak{}}
+		doc := scanJSON{
+			ScanInfo: report.NewScanInfo(e.Scan, e.Result.Radiation),
+			Warnings: append(append([]string(nil), e.Scan.Warnings...), e.Result.Warnings...),
+			Profile:  report.NewProfileInfo(e.Result), Peaks: []report.Peak{},
+		}
 		for _, p := range e.Result.Peaks {
 			doc.Peaks = append(doc.Peaks, report.NewPeak(p, false))
 		}
@@ -70,6 +75,10 @@ func printPeaks(w io.Writer, d scanJSON) {
 	for _, m := range d.Warnings {
 		fmt.Fprintf(w, "warning: %s\n", m)
 	}
+	if p := d.Profile; p != nil {
+		fmt.Fprintf(w, "line shape: FWHM² = %.3g tan²θ %+.3g tanθ %+.3g (°²), η %.2f, asymmetry %s, tail ratio %.3g, K-alpha2 ratio %.3g, K-beta ratio %.3g\n",
+			p.UVW[0], p.UVW[1], p.UVW[2], p.Eta, asymmetryText(p), p.TailRatio, p.Ka2Ratio, p.KBetaRatio)
+	}
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "#\t2θ (°)\td (Å)\theight\tFWHM (°)\tη\tS/N\tflags\t")
 	for i, p := range d.Peaks {
@@ -79,4 +88,16 @@ func printPeaks(w io.Writer, d scanJSON) {
 	}
 	tw.Flush()
 	fmt.Fprintln(w)
+}
+
+// asymmetryText prints the asymmetry law, or "none".
+func asymmetryText(p *report.ProfileInfo) string {
+	if p.Asymmetry == [3]float64{} {
+		return "none"
+	}
+	t := fmt.Sprintf("%.3g %+.3g·t %+.3g·t² (t = (2θ − 90°)/90°)", p.Asymmetry[0], p.Asymmetry[1], p.Asymmetry[2])
+	if len(p.AsymmetryRange) == 2 {
+		t += fmt.Sprintf(" over %.1f–%.1f°", p.AsymmetryRange[0], p.AsymmetryRange[1])
+	}
+	return t
 }

@@ -9,7 +9,6 @@ import (
 	"time"
 
 	"reticle/analysis"
-	"reticle/peaks"
 	"reticle/report"
 )
 
@@ -62,7 +61,7 @@ func reportAt(args []string, stdout, stderr io.Writer, date time.Time) int {
 	}
 	status := 0
 	for _, path := range files {
-		scan, err := peaks.ReadFile(path)
+		scan, err := analysis.Read(path, settings)
 		if err != nil {
 			fmt.Fprintf(stderr, "reticle report: %v\n", err)
 			status = 1

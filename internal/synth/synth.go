@@ -1,6 +1,9 @@
 // Package synth simulates powder diffraction scans for the project's own
-// tests and demo: the lines of one or more cells, with a K-alpha doublet,
-// instrument errors, a width curve, a background and Poisson noise. The
+// tests and demo: the lines of one or more cells, with a K-alpha doublet
+// (or a single line with an optional K-alpha2 residue, as a curved
+// monochromator passes), K-beta leakage, instrument errors, a width
+// curve, the low-angle asymmetry of axial divergence, a background and
+// Poisson noise. The
 // scans are invented test data; the simulation shares with the program
 // only Bragg's law and the cell's reflection list (package cell), and
 // writes its profile formula out again so that a mistake in the fitter's
@@ -36,7 +39,9 @@ type Phase struct {
 type Instrument struct {
 	Lambda1 float64 // K-alpha1 (or single) wavelength, Å
 	Lambda2 float64 // K-alpha2, Å; zero for a single line
-	Ratio2  float64 // K-alpha2/K-alpha1 intensity; zero means 0.5 with Lambda2
+	// Ratio2 is the K-alpha2/K-alpha1 intensity; zero means 0.5 with
+	// Lambda2 (a small value is the residue a monochromator passes).
+	Ratio2 float64
 	// Zero is the zero shift, degrees 2θ; Displacement the sample
 	// displacement in mm (shift −2s·cos θ/R); Radius the goniometer
 	// radius in mm (zero means 240).
@@ -46,6 +51,18 @@ type Instrument struct {
 	U, V, W float64
 	// Eta is the pseudo-Voigt Lorentzian fraction; zero means 0.5.
 	Eta float64
+	// Axial is the axial-divergence spread, degrees 2θ at 2θ = 45°: each
+	// line is the average of copies shifted by −Axial·cot 2θ·u² for u
+	// uniform in [0, 1), the shape that rays tilted out of the
+	// diffraction plane give (a tail towards low angles below 90° 2θ,
+	// towards high angles above; the functional form as in Finger, Cox &
+	// Jephcoat, J. Appl. Cryst. 27 (1994) 892, reduced to its leading
+	// term). The line's position (Line.TwoTheta) stays the Bragg angle.
+	// Zero means symmetric lines.
+	Axial float64
+	// KBeta is the K-beta wavelength, Å, and KBetaRatio the K-beta lines'
+	// height relative to K-alpha1; zero means none.
+	KBeta, KBetaRatio float64
 }
 
 // A Spec is a scan to simulate.
@@ -118,6 +135,25 @@ func pv(x, x0, fwhm, eta float64) float64 {
 	return eta/(1+4*u*u) + (1-eta)*math.Exp(-4*math.Ln2*u*u)
 }
 
+// axialCopies is the number of shifted copies that make an asymmetric
+// line.
+const axialCopies = 24
+
+// line returns a line of unit pseudo-Voigt height at x0 (before the
+// axial spread) at x.
+func (in Instrument) line(x, x0, fwhm float64) float64 {
+	if in.Axial == 0 {
+		return pv(x, x0, fwhm, in.Eta)
+	}
+	spread := in.Axial / math.Tan(x0*deg)
+	var f float64
+	for k := 0; k < axialCopies; k++ {
+		u := (float64(k) + 0.5) / axialCopies
+		f += pv(x, x0-spread*u*u, fwhm, in.Eta)
+	}
+	return f / axialCopies
+}
+
 // shade is a fixed pseudo-random factor in [0.05, 1) from the indices.
 func shade(h cell.HKL, phase int) float64 {
 	f := fnv.New32a()
@@ -177,6 +213,9 @@ func Simulate(s Spec, rng *rand.Rand) *Scan {
 		if in.Lambda2 > 0 {
 			comps = append(comps, [2]float64{in.position(l.D, in.Lambda2), l.Height * in.Ratio2})
 		}
+		if in.KBeta > 0 && in.KBetaRatio > 0 {
+			comps = append(comps, [2]float64{in.position(l.D, in.KBeta), l.Height * in.KBetaRatio})
+		}
 		for _, c := range comps {
 			if math.IsNaN(c[0]) {
 				continue
@@ -184,7 +223,7 @@ func Simulate(s Spec, rng *rand.Rand) *Scan {
 			reach := 40 * l.FWHM
 			lo := sort.SearchFloat64s(out.TwoTheta, c[0]-reach)
 			for i := lo; i < n && out.TwoTheta[i] <= c[0]+reach; i++ {
-				out.Counts[i] += c[1] * pv(out.TwoTheta[i], c[0], l.FWHM, in.Eta)
+				out.Counts[i] += c[1] * in.line(out.TwoTheta[i], c[0], l.FWHM)
 			}
 		}
 	}
