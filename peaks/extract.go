@@ -214,6 +214,7 @@ func Extract(ctx context.Context, s *Scan, opt Options, progress func(done, tota
 	}
 	cs = prune(cs, o.Threshold)
 	cs = confirmShoulders(md, cs)
+	cs = splitBlends(md, cs, res.FWHMCurve, o)
 	// Pass 3: weights from the fitted model instead of the data.
 	if s.ESD == nil {
 		for i, m := range profileOf(md, cs) {

@@ -161,8 +161,12 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 	for r := 0; r < k; r++ {
 		dmax = math.Max(dmax, a.At(r, r))
 	}
+	// Parameters differ in scale by many orders (a position in degrees,
+	// a height in counts), so influence is judged on the matrix scaled to
+	// unit diagonal: only an exactly (to rounding) vanishing column is
+	// left out.
 	for r := 0; r < k; r++ {
-		if a.At(r, r) > 1e-14*dmax {
+		if a.At(r, r) > 1e-300 && a.At(r, r) > 1e-30*dmax {
 			keep = append(keep, r)
 		}
 	}
@@ -170,10 +174,14 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 	if kk == 0 {
 		return nil, errSingular
 	}
+	sc := make([]float64, kk)
+	for r := range sc {
+		sc[r] = 1 / math.Sqrt(a.At(keep[r], keep[r]))
+	}
 	ak := mat.NewSymDense(kk, nil)
 	for r := 0; r < kk; r++ {
 		for c := r; c < kk; c++ {
-			ak.SetSym(r, c, a.At(keep[r], keep[c]))
+			ak.SetSym(r, c, a.At(keep[r], keep[c])*sc[r]*sc[c])
 		}
 	}
 	if !chol.Factorize(ak) {
@@ -189,7 +197,7 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 	}
 	for r := 0; r < kk; r++ {
 		for c := r; c < kk; c++ {
-			cov.SetSym(idx[keep[r]], idx[keep[c]], inv.At(r, c))
+			cov.SetSym(idx[keep[r]], idx[keep[c]], inv.At(r, c)*sc[r]*sc[c])
 		}
 	}
 	return &lsqResult{p: p, cov: cov, chi2: cur, dof: n - k, iter: iter}, nil

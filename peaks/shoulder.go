@@ -2,6 +2,7 @@ package peaks
 
 import (
 	"math"
+	"sort"
 
 	"gonum.org/v1/gonum/stat/distuv"
 )
@@ -92,4 +93,72 @@ func besideStrong(c *component, g []*component) bool {
 		}
 	}
 	return false
+}
+
+// blendWidth is the width, in units of the scan's width curve, above
+// which a strong line is tried as two.
+const blendWidth = 1.2
+
+// splitBlends tries every strong free-shape line wider than blendWidth
+// times the width curve as two lines (an unresolved pair: a small
+// tetragonal splitting, two reflections of nearly equal d). The pair
+// replaces the line when its group's fit requires it: the F statistic
+// ((χ²₁ − χ²₂)/5)/(χ²₂/ν₂) (the pair adds five parameters) must exceed the
+// (1 − shoulderLevel) point of F(5, ν₂), the two must not slide onto one
+// another, and each must be significant at the threshold.
+func splitBlends(md *model, cs []*component, curve Caglioti, o Options) []*component {
+	for _, g := range md.groups(cs) {
+		for _, c := range g {
+			if c.fixedShape || c.sh <= 0 || c.h/c.sh < 2*o.FreeShapeSNR || c.w < blendWidth*curve.At(c.x) {
+				continue
+			}
+			lo, hi := md.span(g)
+			base := md.baseFor(cs, g, lo, hi)
+			chi1, _ := groupChi2(md, g, -1, lo, hi, base)
+			var trial []*component
+			var pair [2]*component
+			for _, o := range g {
+				if o != c {
+					d := *o
+					trial = append(trial, &d)
+					continue
+				}
+				w := math.Max(curve.At(c.x), 0.6*c.w)
+				for k, dx := range []float64{-0.3 * c.w, 0.3 * c.w} {
+					p := *c
+					p.x, p.anchor, p.h, p.w, p.asym = c.x+dx, c.x+dx, 0.6*c.h, w, 0
+					p.flags &^= FlagAdded
+					pair[k] = &p
+					trial = append(trial, &p)
+				}
+			}
+			red := md.fitGroup(trial, lo, hi, base)
+			nu2 := trial[0].dof
+			if nu2 <= 0 {
+				continue
+			}
+			chi2 := red * float64(nu2)
+			crit := (distuv.F{D1: 5, D2: float64(nu2)}).Quantile(1 - shoulderLevel)
+			f := (chi1 - chi2) / 5 / (chi2 / float64(nu2))
+			if !(f > crit) || collapsed(trial) {
+				continue
+			}
+			if pair[0].h/pair[0].sh < o.Threshold || pair[1].h/pair[1].sh < o.Threshold {
+				continue
+			}
+			// Adopt the pair in place of c.
+			out := make([]*component, 0, len(cs)+1)
+			for _, o := range cs {
+				if o == c {
+					out = append(out, pair[0], pair[1])
+				} else {
+					out = append(out, o)
+				}
+			}
+			cs = out
+			break
+		}
+	}
+	sort.Slice(cs, func(a, b int) bool { return cs[a].x < cs[b].x })
+	return cs
 }
