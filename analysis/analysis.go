@@ -174,7 +174,7 @@ func Analyse(ctx context.Context, e *Extraction, s Settings, progress Progress) 
 	var lines []cell.Line
 	for _, p := range a.Peaks {
 		if !p.Companion() && !p.Rejected {
-			lines = append(lines, cell.Line{TwoTheta: p.TwoTheta, ESD: p.TwoThetaESD})
+			lines = append(lines, cell.Line{TwoTheta: p.TwoTheta, ESD: pr.LineESD(p.Peak), Intensity: p.Area})
 		}
 	}
 	ro := s.refineOptions(lambda)
@@ -279,7 +279,7 @@ func RefineCell(ctx context.Context, e *Extraction, c cell.Cell, s Settings) (*r
 	var obs []refine.Observation
 	for _, p := range e.peaks() {
 		if !p.Companion() && !within(p.TwoTheta, s.Rejected) {
-			obs = append(obs, refine.Observation{Line: cell.Line{TwoTheta: p.TwoTheta, ESD: p.TwoThetaESD}, Excluded: within(p.TwoTheta, s.Excluded)})
+			obs = append(obs, refine.Observation{Line: cell.Line{TwoTheta: p.TwoTheta, ESD: e.Result.LineESD(p)}, Excluded: within(p.TwoTheta, s.Excluded)})
 		}
 	}
 	opt := s.refineOptions(e.Result.Radiation.Lambda1)

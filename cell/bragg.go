@@ -64,6 +64,9 @@ func DTwoThetaDQ(q, lambda float64) float64 {
 type Line struct {
 	TwoTheta float64 // degrees 2θ
 	ESD      float64 // degrees 2θ; zero means unknown
+	// Intensity is the line's integrated intensity on any scale; zero
+	// means unknown. Indexing weighs an unexplained line by it.
+	Intensity float64
 }
 
 // MatchTolerance is the smallest window, degrees 2θ, within which a

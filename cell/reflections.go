@@ -1,7 +1,9 @@
 package cell
 
 import (
+	"cmp"
 	"math"
+	"slices"
 	"sort"
 )
 
@@ -24,16 +26,24 @@ func Reflections(c Cell, qmax float64) []Reflection {
 		v HKL
 	}
 	var all []ref
-	// |h| = |r·a| ≤ |r||a| = √Q·a for any cell.
+	// |h| = |r·a| ≤ |r||a| = √Q·a for any cell. Every Laue group holds
+	// −1, so one of each Friedel pair (v, −v) is enumerated and counted
+	// twice.
 	lim := func(e float64) int { return int(math.Sqrt(qmax)*e) + 1 }
 	hm, km, lm := lim(c.A), lim(c.B), lim(c.C)
 	form := c.QForm()
 	fast := c.System != Monoclinic && c.System != Triclinic
-	for h := -hm; h <= hm; h++ {
+	for h := 0; h <= hm; h++ {
 		for k := -km; k <= km; k++ {
+			if h == 0 && k < 0 {
+				continue
+			}
 			for l := -lm; l <= lm; l++ {
+				if h == 0 && k == 0 && l <= 0 {
+					continue
+				}
 				v := HKL{h, k, l}
-				if h == 0 && k == 0 && l == 0 || !c.Centring.Allowed(v) {
+				if !c.Centring.Allowed(v) {
 					continue
 				}
 				var q float64
@@ -48,26 +58,41 @@ func Reflections(c Cell, qmax float64) []Reflection {
 			}
 		}
 	}
-	sort.Slice(all, func(i, j int) bool { return all[i].q < all[j].q })
+	slices.SortFunc(all, func(a, b ref) int { return cmp.Compare(a.q, b.q) })
 	var out []Reflection
+	type rep struct{ key, best HKL }
+	var reps []rep
 	for i := 0; i < len(all); {
 		j := i
 		for j < len(all) && all[j].q-all[i].q <= 1e-9*all[i].q {
 			j++
 		}
-		best := map[HKL]HKL{}
+		reps = reps[:0]
 		for _, r := range all[i:j] {
-			key := classOf(c.System, r.v)
-			if b, ok := best[key]; !ok || preferred(r.v, b) {
-				best[key] = r.v
+			// Both of the Friedel pair: the class holds either.
+			for _, v := range [2]HKL{r.v, {-r.v[0], -r.v[1], -r.v[2]}} {
+				key := classOf(c.System, v)
+				found := false
+				for x := range reps {
+					if reps[x].key == key {
+						found = true
+						if preferred(v, reps[x].best) {
+							reps[x].best = v
+						}
+						break
+					}
+				}
+				if !found {
+					reps = append(reps, rep{key, v})
+				}
 			}
 		}
-		reps := make([]HKL, 0, len(best))
-		for _, v := range best {
-			reps = append(reps, v)
+		hs := make([]HKL, len(reps))
+		for x := range reps {
+			hs[x] = reps[x].best
 		}
-		sort.Slice(reps, func(a, b int) bool { return preferred(reps[a], reps[b]) })
-		out = append(out, Reflection{Q: all[i].q, D: 1 / math.Sqrt(all[i].q), Mult: j - i, HKL: reps})
+		sort.Slice(hs, func(a, b int) bool { return preferred(hs[a], hs[b]) })
+		out = append(out, Reflection{Q: all[i].q, D: 1 / math.Sqrt(all[i].q), Mult: 2 * (j - i), HKL: hs})
 		i = j
 	}
 	return out

@@ -78,8 +78,19 @@ func centringOf(m Matrix) (Centring, bool) {
 		return 0, false
 	}
 	n := int(det)
+	if n < 1 || n > 4 {
+		return 0, false // no centring has more than four lattice points
+	}
 	// Lattice points modulo 1, in units of 1/6.
-	seen := map[[3]int]bool{}
+	var seen [][3]int
+	has1 := func(p [3]int) bool {
+		for _, q := range seen {
+			if q == p {
+				return true
+			}
+		}
+		return false
+	}
 	for a := 0; a < n; a++ {
 		for b := 0; b < n; b++ {
 			for c := 0; c < n; c++ {
@@ -88,7 +99,9 @@ func centringOf(m Matrix) (Centring, bool) {
 					x := float64(a)*inv[0][k] + float64(b)*inv[1][k] + float64(c)*inv[2][k]
 					p[k] = mod(int(math.Round(x*6)), 6)
 				}
-				seen[p] = true
+				if !has1(p) {
+					seen = append(seen, p)
+				}
 			}
 		}
 	}
@@ -97,7 +110,7 @@ func centringOf(m Matrix) (Centring, bool) {
 	}
 	has := func(p ...[3]int) bool {
 		for _, q := range p {
-			if !seen[q] {
+			if !has1(q) {
 				return false
 			}
 		}

@@ -130,13 +130,17 @@ func TestIndexDeterministicCancelProgress(t *testing.T) {
 
 func TestIndexBadInput(t *testing.T) {
 	ls := rutileLines(20)
-	if _, err := Index(context.Background(), ls[:3], Options{Wavelength: 1.54}, nil); !errors.Is(err, ErrTooFewLines) {
-		t.Errorf("3 lines: %v", err)
+	if _, err := Index(context.Background(), ls[:2], Options{Wavelength: 1.54}, nil); !errors.Is(err, ErrTooFewLines) {
+		t.Errorf("2 lines: %v", err)
+	}
+	// Three lines are enough for cubic, not for tetragonal alone.
+	if _, err := Index(context.Background(), ls[:3], Options{Wavelength: 1.54, Systems: []cell.System{cell.Tetragonal}}, nil); !errors.Is(err, ErrTooFewLines) {
+		t.Errorf("3 lines, tetragonal: %v", err)
 	}
 	if _, err := Index(context.Background(), ls, Options{}, nil); err == nil {
 		t.Error("no wavelength: no error")
 	}
-	junk := append([]cell.Line{{TwoTheta: -5}, {TwoTheta: 200}, {TwoTheta: 30}, {TwoTheta: 30}}, ls[:2]...)
+	junk := append([]cell.Line{{TwoTheta: -5}, {TwoTheta: 200}, {TwoTheta: 30}, {TwoTheta: 30}}, ls[:1]...)
 	if _, err := Index(context.Background(), junk, Options{Wavelength: 1.54}, nil); !errors.Is(err, ErrTooFewLines) {
 		t.Errorf("junk lines: %v", err)
 	}

@@ -13,6 +13,7 @@ const deg = math.Pi / 180
 type obs struct {
 	tt, esd float64 // degrees 2θ
 	tol     float64 // matching window, degrees 2θ
+	rel     float64 // intensity relative to the strongest line; −1 unknown
 }
 
 // qOf returns Q = (2 sin θ / λ)² of a line at tt degrees 2θ after
@@ -41,11 +42,19 @@ func dQ(tt, tol, lambda float64) float64 {
 // prepare sorts lines, drops impossible ones and sets their windows.
 func prepare(lines []cell.Line, o Options) []obs {
 	out := make([]obs, 0, len(lines))
+	top := 0.0
+	for _, l := range lines {
+		top = math.Max(top, l.Intensity)
+	}
 	for _, l := range lines {
 		if !(l.TwoTheta > 0 && l.TwoTheta < 180) {
 			continue
 		}
-		out = append(out, obs{tt: l.TwoTheta, esd: l.ESD, tol: math.Max(3*l.ESD, o.Tolerance)})
+		rel := -1.0
+		if top > 0 && l.Intensity > 0 {
+			rel = l.Intensity / top
+		}
+		out = append(out, obs{tt: l.TwoTheta, esd: l.ESD, tol: math.Max(3*l.ESD, o.Tolerance), rel: rel})
 	}
 	sort.Slice(out, func(i, j int) bool { return out[i].tt < out[j].tt })
 	// Lines closer than their window are one line for indexing.

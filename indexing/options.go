@@ -7,14 +7,19 @@ import "reticle/cell"
 type Options struct {
 	// Wavelength in Å of the lines' radiation. Required.
 	Wavelength float64
-	// Systems to search; nil means cubic, tetragonal, hexagonal and
-	// rhombohedral.
+	// Systems to search; nil means all seven. The lower systems
+	// (orthorhombic, monoclinic, triclinic) are searched only when no
+	// higher one explains the lines acceptably, unless ExploreLower.
 	Systems []cell.System
+	// ExploreLower searches the lower systems even when a higher one
+	// explains the lines.
+	ExploreLower bool
 	// Lines is how many of the first lines are used to search and to
 	// compute the figures of merit. Zero means 20.
 	Lines int
 	// MaxImpurities is the number of those lines that may stay
-	// unindexed. Zero means 3; negative means none.
+	// unindexed (an unindexed line also lowers a cell's score by its
+	// strength). Zero means a quarter of the lines; negative means none.
 	MaxImpurities int
 	// Tolerance is the smallest 2θ window, in degrees, within which a
 	// calculated line indexes an observed one; the window is otherwise
@@ -45,14 +50,13 @@ func (o Options) Resolved() Options { return o.withDefaults() }
 
 func (o Options) withDefaults() Options {
 	if o.Systems == nil {
-		o.Systems = []cell.System{cell.Cubic, cell.Tetragonal, cell.Hexagonal, cell.Rhombohedral}
+		o.Systems = []cell.System{cell.Cubic, cell.Tetragonal, cell.Hexagonal, cell.Rhombohedral, cell.Orthorhombic, cell.Monoclinic, cell.Triclinic}
 	}
 	setDefault(&o.Lines, 20)
 	setDefault(&o.SeedLines, 5)
 	setDefault(&o.MaxM, 16)
 	setDefault(&o.MaxL, 8)
 	setDefault(&o.MaxSolutions, 10)
-	setDefaultOrNone(&o.MaxImpurities, 3)
 	setDefault(&o.Tolerance, cell.MatchTolerance)
 	setDefault(&o.MaxEdge, 60)
 	setDefault(&o.MaxVolume, 20000)

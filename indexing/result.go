@@ -4,8 +4,6 @@ import (
 	"reticle/cell"
 
 	"fmt"
-	"math"
-	"sort"
 )
 
 // Result is the outcome of Index.
@@ -13,6 +11,24 @@ type Result struct {
 	Wavelength float64    // Å
 	LinesUsed  int        // lines that searched and scored (the first N)
 	Solutions  []Solution // best first
+	// Searched lists the systems searched, highest first, and Stop says
+	// why the search stopped where it did.
+	Searched []cell.System
+	Stop     string
+	// Bounds are the limits of the search.
+	Bounds Bounds
+	// Confidence is how clearly the first solution beats the next
+	// lattice: the ratio of their scores (+Inf when no other lattice
+	// was found).
+	Confidence float64
+	Warnings   []string
+}
+
+// Bounds are the limits within which the search is exhaustive.
+type Bounds struct {
+	MaxEdge   float64 // Å
+	MaxVolume float64 // Å³
+	ZeroRange float64 // degrees 2θ
 }
 
 // An IndexedLine is one observed line under a solution.
@@ -49,56 +65,16 @@ type Solution struct {
 	// Conditions lists reflection conditions that the indexed lines show
 	// beyond those of the centring, e.g. "00l: l = 2n".
 	Conditions []string
-}
-
-// solution builds the report of a fit over all lines.
-func solution(f0 *fit, all, first []obs, o Options) Solution {
-	// Refine once more with every line, not only the first N.
-	f := &fit{trial: f0.trial}
-	f.assignAll(all, o.Wavelength, 0)
-	if !f.refine(all, o.Wavelength, f0.zeroFree) {
-		f.trial = f0.trial
-	} else {
-		f.assignAll(all, o.Wavelength, 0)
-		if !f.refine(all, o.Wavelength, f0.zeroFree) {
-			f.trial = f0.trial
-		}
-	}
-	c := f.cell()
-	lambda := o.Wavelength
-	ttmax := all[len(all)-1].tt + 1
-	qmax := qOf(math.Min(ttmax, 179), f.zero, lambda)
-	refs := cell.Reflections(c, qmax)
-	if len(refs) > 2000 {
-		refs = refs[:2000]
-	}
-	s := Solution{
-		Cell: c, Volume: c.Volume(), Zero: f.zero,
-		M: f0.m20, FigureLines: len(first), FN: f0.fn, FNMeanDiff: f0.fnDelta, FNPossible: f0.fnPoss,
-		Calculated: refs,
-	}
-	for _, l := range all {
-		q := qOf(l.tt, f.zero, lambda)
-		w := dQ(l.tt, l.tol, lambda)
-		il := IndexedLine{TwoTheta: l.tt, ESD: l.esd}
-		if _, _, qc, ok := f.assign(q, w); ok {
-			k := sort.Search(len(refs), func(i int) bool { return refs[i].Q >= qc*(1-1e-9) })
-			if k < len(refs) {
-				il.Indexed = true
-				il.HKL = refs[k].HKL
-				il.TwoThetaCalc = ttOf(refs[k].Q, lambda) + f.zero
-				il.Delta = l.tt - il.TwoThetaCalc
-			}
-		}
-		if il.Indexed {
-			s.Indexed++
-		} else {
-			s.Unindexed++
-		}
-		s.Lines = append(s.Lines, il)
-	}
-	s.Conditions = conditions(s)
-	return s
+	// Parameters is the number of refined parameters (free cell
+	// parameters and the zero offset); ChiSquare the Σ(Δ2θ/σ)² of the
+	// first lines it indexes, with DOF degrees of freedom.
+	Parameters int
+	ChiSquare  float64
+	DOF        int
+	// Reduced is the Niggli reduced cell of the lattice, and FromReduced
+	// gives the reduced basis vectors (rows) in the basis of Cell.
+	Reduced     cell.Cell
+	FromReduced cell.Matrix
 }
 
 // conditions finds zone and row absences among the calculated lines that

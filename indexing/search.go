@@ -1,115 +1,13 @@
 package indexing
 
 import (
+	"context"
 	"reticle/cell"
 
-	"context"
-	"errors"
-	"fmt"
 	"math"
 	"slices"
 	"sort"
-	"sync"
 )
-
-// ErrTooFewLines is returned when fewer lines are given than a cell needs.
-var ErrTooFewLines = errors.New("indexing: at least 4 lines are needed")
-
-// screenExtra widens the windows, in degrees 2θ, before a candidate's zero
-// and parameters are refined: half the zero grid step plus the error a
-// seed pair passes on.
-const screenExtra = 0.035
-
-// zeroStep is the spacing of the zero-offset grid, degrees 2θ.
-const zeroStep = 0.05
-
-// keep is how many refined candidates of each system go on to the
-// centring variants and the ranking.
-const keep = 40
-
-// Index searches the lattices named in opt for cells that explain the
-// lines, and returns them ranked, best first. It can be cancelled through
-// ctx and reports progress (seed sets screened) through progress, which may
-// be nil. The same input always gives the same result.
-func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(done, total int)) (*Result, error) {
-	o := opt.withDefaults()
-	if !(o.Wavelength > 0.1 && o.Wavelength < 5) {
-		return nil, fmt.Errorf("indexing: wavelength %g Å outside 0.1–5 Å", o.Wavelength)
-	}
-	all := prepare(lines, o)
-	if len(all) < 4 {
-		return nil, fmt.Errorf("%w, got %d", ErrTooFewLines, len(all))
-	}
-	first := all[:min(len(all), o.Lines)]
-	// The impurity allowance is stated for 20 lines; fewer lines allow
-	// proportionally fewer.
-	if n := len(first); n < 20 {
-		o.MaxImpurities = min(o.MaxImpurities, int(float64(o.MaxImpurities*n)/20+0.5))
-	}
-	zeros := []float64{0}
-	for z := zeroStep; z <= o.ZeroRange+1e-9; z += zeroStep {
-		zeros = append(zeros, z, -z)
-	}
-	// Rhombohedral lattices are hexagonal-axes lattices with extra
-	// absences: they come as variants of the hexagonal search.
-	want := map[cell.System]bool{}
-	for _, s := range o.Systems {
-		want[s] = true
-	}
-	var gens []cell.System
-	for _, s := range []cell.System{cell.Cubic, cell.Tetragonal, cell.Hexagonal} {
-		if want[s] || s == cell.Hexagonal && want[cell.Rhombohedral] {
-			gens = append(gens, s)
-		}
-	}
-	total := len(gens) * len(zeros)
-	// The systems are searched at once, one goroutine each; their results
-	// are pooled in a fixed order, so the outcome does not depend on the
-	// schedule.
-	var mu sync.Mutex
-	done := 0
-	tick := func() {
-		mu.Lock()
-		defer mu.Unlock()
-		done++
-		if progress != nil {
-			progress(done, total)
-		}
-	}
-	pools := make([][]*fit, len(gens))
-	errs := make([]error, len(gens))
-	var wg sync.WaitGroup
-	for gi, s := range gens {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			pools[gi], errs[gi] = searchSystem(ctx, s, want, first, zeros, o, tick)
-		}()
-	}
-	wg.Wait()
-	var pool []*fit
-	for gi := range gens {
-		if errs[gi] != nil {
-			return nil, errs[gi]
-		}
-		pool = append(pool, pools[gi]...)
-	}
-	var kept []*fit
-	for _, f := range pool {
-		if want[f.sys] {
-			kept = append(kept, f)
-		}
-	}
-	ranked := rank(kept, first, all, o)
-	res := &Result{Wavelength: o.Wavelength, LinesUsed: len(first)}
-	for _, f := range ranked {
-		if len(res.Solutions) == o.MaxSolutions {
-			break
-		}
-		res.Solutions = append(res.Solutions, solution(f, all, first, o))
-	}
-	return res, nil
-}
 
 // searchSystem seeds, screens and settles the lattices of one system (and
 // its centring variants) over the zero offsets; tick is called after each

@@ -291,3 +291,20 @@ func residualCandidates(md *model, cs []*component, res *Result, o Options) []*c
 	}
 	return out
 }
+
+// blendExcess is the width, relative to the scan's width curve, above
+// which a line is taken for an unresolved blend of lines.
+const blendExcess = 1.2
+
+// LineESD returns the uncertainty of a peak's position as a line's
+// position, degrees 2θ: the fit's esd, or, for a peak wider than
+// blendExcess times the width curve (an unresolved blend, whose maximum
+// lies somewhere between its components), at least half its excess
+// width.
+func (r *Result) LineESD(p Peak) float64 {
+	w := r.FWHMCurve.At(p.TwoTheta)
+	if p.Flags&FlagFixedShape == 0 && w > 0 && p.FWHM > blendExcess*w {
+		return math.Max(p.TwoThetaESD, (p.FWHM-w)/2)
+	}
+	return p.TwoThetaESD
+}

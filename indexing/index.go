@@ -1,0 +1,287 @@
+package indexing
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"sync"
+
+	"gonum.org/v1/gonum/stat/distuv"
+
+	"reticle/cell"
+)
+
+// ErrTooFewLines is returned when fewer lines are given than a cell needs.
+var ErrTooFewLines = errors.New("indexing: too few lines")
+
+// screenExtra widens the windows, in degrees 2θ, before a candidate's zero
+// and parameters are refined: half the zero grid step plus the error a
+// seed pair passes on.
+const screenExtra = 0.035
+
+// zeroStep is the spacing of the zero-offset grid, degrees 2θ.
+const zeroStep = 0.05
+
+// keep is how many refined candidates of each system go on to the
+// centring variants and the ranking.
+const keep = 40
+
+// minLines is the number of lines each system needs: one more than its
+// free cell parameters and the zero offset, and three for cubic (three
+// lines in a ratio such as 3 : 4 : 8 fix a cubic lattice).
+func minLines(s cell.System) int {
+	if s == cell.Cubic {
+		return 3
+	}
+	return len(cell.Basis(s)) + 2
+}
+
+// Index searches the lattices named in opt for cells that explain the
+// lines, and returns them ranked, best first. Systems are searched from
+// the highest symmetry down: cubic, tetragonal, hexagonal and
+// rhombohedral by their own seeds; then, unless one of those explains the
+// lines acceptably (see acceptable), orthorhombic, monoclinic and
+// triclinic by the zone method. It can be cancelled through ctx and
+// reports progress (search steps done of total) through progress, which
+// may be nil. The same input always gives the same result.
+func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(done, total int)) (*Result, error) {
+	o := opt.withDefaults()
+	if !(o.Wavelength > 0.1 && o.Wavelength < 5) {
+		return nil, fmt.Errorf("indexing: wavelength %g Å outside 0.1–5 Å", o.Wavelength)
+	}
+	all := prepare(lines, o)
+	want := map[cell.System]bool{}
+	fewest := math.MaxInt
+	for _, s := range o.Systems {
+		want[s] = true
+		fewest = min(fewest, minLines(s))
+	}
+	if len(all) < fewest {
+		return nil, fmt.Errorf("%w: %d given, the systems searched need at least %d", ErrTooFewLines, len(all), fewest)
+	}
+	first := all[:min(len(all), o.Lines)]
+	n := len(first)
+	// Unindexed lines allowed among the first: MaxImpurities, or a
+	// quarter of the lines (at least one from eight lines on) by default.
+	allow := o.MaxImpurities
+	switch {
+	case allow == 0:
+		allow = n / 4
+	case allow < 0:
+		allow = 0
+	}
+	need := n - allow
+	zeros := []float64{0}
+	for z := zeroStep; z <= o.ZeroRange+1e-9; z += zeroStep {
+		zeros = append(zeros, z, -z)
+	}
+	res := &Result{Wavelength: o.Wavelength, LinesUsed: n, Bounds: Bounds{MaxEdge: o.MaxEdge, MaxVolume: o.MaxVolume, ZeroRange: o.ZeroRange}}
+	if n < 6 {
+		res.Warnings = append(res.Warnings, fmt.Sprintf("only %d lines: a cell from so few lines is a hypothesis to check against more data", n))
+	}
+
+	var high []cell.System
+	for _, s := range []cell.System{cell.Cubic, cell.Tetragonal, cell.Hexagonal} {
+		if (want[s] || s == cell.Hexagonal && want[cell.Rhombohedral]) && n >= minLines(s) {
+			high = append(high, s)
+		}
+	}
+	var low []cell.System
+	for _, s := range lowSystems {
+		if want[s] && n >= minLines(s) {
+			low = append(low, s)
+		}
+	}
+	total := (len(high) + 1) * len(zeros)
+	var mu sync.Mutex
+	done := 0
+	tick := func() {
+		mu.Lock()
+		defer mu.Unlock()
+		done++
+		if progress != nil {
+			progress(done, total)
+		}
+	}
+	// The higher systems are searched at once, one goroutine each; their
+	// results are pooled in a fixed order, so the outcome does not depend
+	// on the schedule.
+	pools := make([][]*fit, len(high))
+	errs := make([]error, len(high))
+	var wg sync.WaitGroup
+	oh := o
+	oh.MaxImpurities = allow
+	for gi, s := range high {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			pools[gi], errs[gi] = searchSystem(ctx, s, want, first, zeros, oh, tick)
+		}()
+	}
+	wg.Wait()
+	var pool []*cand
+	for gi := range high {
+		if errs[gi] != nil {
+			return nil, errs[gi]
+		}
+		for _, f := range pools[gi] {
+			if !want[f.sys] {
+				continue
+			}
+			if k := candOf(f, first, o, need); k != nil {
+				pool = append(pool, k)
+			}
+		}
+	}
+	res.Searched = append(res.Searched, searchedOf(high, want)...)
+	ranked := rankCands(pool, first, all, o)
+	if len(low) > 0 {
+		if len(ranked) > 0 && acceptable(ranked[0], o.ExploreLower) {
+			res.Stop = fmt.Sprintf("%s %s explains the lines (M%d = %.1f, every strong line indexed, positions within their esds); lower systems were not searched", ranked[0].c.System, ranked[0].c.Centring, n, ranked[0].m)
+		} else {
+			lw := map[cell.System]bool{}
+			for _, s := range low {
+				lw[s] = true
+			}
+			// The zone method also finds the higher descriptions of
+			// the lattices it finds; they join the pool.
+			for s := range want {
+				if s.LaueOrder() > cell.Orthorhombic.LaueOrder() {
+					lw[s] = true
+				}
+			}
+			ks, err := searchZones(ctx, first, o, lw, need, tick)
+			if err != nil {
+				return nil, err
+			}
+			pool = append(pool, ks...)
+			ranked = rankCands(pool, first, all, o)
+			res.Searched = append(res.Searched, low...)
+			if len(high) > 0 {
+				res.Stop = "no cell of a higher system explained the lines acceptably; every system asked for was searched"
+			} else {
+				res.Stop = "every system asked for was searched"
+			}
+		}
+	} else {
+		res.Stop = "every system asked for was searched"
+	}
+	for _, k := range ranked {
+		if len(res.Solutions) == o.MaxSolutions {
+			break
+		}
+		res.Solutions = append(res.Solutions, solutionOf(k, all, first, o))
+	}
+	if len(res.Solutions) > 0 {
+		res.Confidence = confidence(ranked)
+		if res.Confidence < clearMargin {
+			res.Warnings = append(res.Warnings, fmt.Sprintf("the first cell beats the next lattice by a factor of only %.2f in its figure of merit: check the next solutions", res.Confidence))
+		}
+		if ranked[0].strong {
+			res.Warnings = append(res.Warnings, "the first cell leaves a strong line unindexed: a second phase, or not the right cell")
+		}
+	}
+	return res, nil
+}
+
+// clearMargin is the score ratio over the next lattice below which the
+// first solution carries a warning.
+const clearMargin = 1.5
+
+// acceptLevel is the significance level at which positions are judged
+// inconsistent with a cell (a χ² test of the refined positions).
+const acceptLevel = 0.001
+
+// acceptable reports whether a cell of a higher system explains the lines
+// so well that lower systems need not be searched: M ≥ 10, no strong
+// line and at most one line in ten unindexed, no more than twice as many
+// calculated lines as observed ones (a large cell indexes lines by
+// chance), and the positions within
+// their esds (χ² below its 1 − acceptLevel point, at least 4 per degree of
+// freedom to allow for the esds of lines measured on a laboratory
+// instrument). A pseudo-symmetric lattice whose small splittings a higher
+// cell cannot follow fails the last test. Always false with explore.
+func acceptable(k *cand, explore bool) bool {
+	if explore || k.strong || k.m < 10 || k.dof <= 0 {
+		return false
+	}
+	n := len(k.ref)
+	if n-k.indexed > max(1, n/10) || k.nCalc > 2*n {
+		return false
+	}
+	lim := math.Max(4*float64(k.dof), (distuv.ChiSquared{K: float64(k.dof)}).Quantile(1-acceptLevel))
+	return k.chi2 <= lim
+}
+
+// searchedOf lists the systems a two-parameter search covered.
+func searchedOf(high []cell.System, want map[cell.System]bool) []cell.System {
+	var out []cell.System
+	for _, s := range high {
+		if want[s] {
+			out = append(out, s)
+		}
+		if s == cell.Hexagonal && want[cell.Rhombohedral] {
+			out = append(out, cell.Rhombohedral)
+		}
+	}
+	return out
+}
+
+// solutionOf builds the report of a cand over all lines.
+func solutionOf(k0 *cand, all, first []obs, o Options) Solution {
+	// Refine once more with every line, not only the first N.
+	k := &cand{c: k0.c, zero: k0.zero, zeroFree: k0.zeroFree}
+	k.assign(all, o.Wavelength, 0)
+	if !k.refine(all, o.Wavelength) {
+		k.c, k.zero = k0.c, k0.zero
+	} else {
+		k.assign(all, o.Wavelength, 0)
+		if !k.refine(all, o.Wavelength) {
+			k.c, k.zero = k0.c, k0.zero
+		}
+	}
+	c := k.c
+	lambda := o.Wavelength
+	ttmax := all[len(all)-1].tt + 1
+	qmax := qOf(math.Min(ttmax, 179), k.zero, lambda)
+	refs := cell.Reflections(c, qmax)
+	if len(refs) > 2000 {
+		refs = refs[:2000]
+	}
+	s := Solution{
+		Cell: c, Volume: c.Volume(), Zero: k.zero,
+		M: k0.m, FigureLines: len(first), FN: k0.fn, FNMeanDiff: k0.fnDelta, FNPossible: k0.nCalc,
+		Calculated: refs, Parameters: k0.nparams(),
+	}
+	if k0.dof > 0 {
+		s.ChiSquare, s.DOF = k0.chi2, k0.dof
+	}
+	k.assign(all, lambda, 0)
+	for i, l := range all {
+		il := IndexedLine{TwoTheta: l.tt, ESD: l.esd}
+		if j := k.ref[i]; j >= 0 {
+			qc := k.calc[j].q
+			r := sort.Search(len(refs), func(i int) bool { return refs[i].Q >= qc*(1-1e-9) })
+			if r < len(refs) {
+				il.Indexed = true
+				il.HKL = refs[r].HKL
+				il.TwoThetaCalc = ttOf(refs[r].Q, lambda) + k.zero
+				il.Delta = l.tt - il.TwoThetaCalc
+			}
+		}
+		if il.Indexed {
+			s.Indexed++
+		} else {
+			s.Unindexed++
+		}
+		s.Lines = append(s.Lines, il)
+	}
+	s.Conditions = conditions(s)
+	if red, err := cell.Reduce(c); err == nil {
+		s.Reduced = red.Cell
+		s.FromReduced = red.Transform
+	}
+	return s
+}

@@ -1,0 +1,219 @@
+package indexing
+
+import (
+	"math"
+	"sort"
+
+	"gonum.org/v1/gonum/stat/distuv"
+
+	"reticle/cell"
+)
+
+// parsimonyLevel is the significance level at which a cell with more
+// free parameters must fit the lines better than a cell with fewer (an
+// F-test of their χ²) to rank above it.
+const parsimonyLevel = 0.001
+
+// rankCands merges descriptions of one lattice and orders the cands:
+// cells that leave a strong line unindexed last; then by score; then a
+// cell with fewer free parameters (higher symmetry) moves above one with
+// more when it indexes as many lines and the extra parameters do not
+// improve the fit significantly (see moreParsimonious).
+func rankCands(ks []*cand, ls, all []obs, o Options) []*cand {
+	// Lines beyond the first N count too: the share of all lines
+	// indexed beyond chance, to the fourth power.
+	if len(all) > len(ls) {
+		for _, k := range ks {
+			k.later = math.Pow(beyondChance(k, all, o.Wavelength), 4)
+		}
+	}
+	ks = bestCands(ks, len(ks))
+	qmax := qOf(ls[len(ls)-1].tt, 0, o.Wavelength) * 1.001
+	calc := make([][]float64, len(ks))
+	for i, k := range ks {
+		if i < 80 {
+			calc[i] = clustersOf(k, qmax)
+		}
+	}
+	drop := make([]bool, len(ks))
+	// One lattice, two descriptions: keep the higher symmetry, or the
+	// smaller cell of equal symmetry.
+	for i := range ks {
+		for j := range ks {
+			if i == j || drop[i] || drop[j] || calc[i] == nil || calc[j] == nil || !sameSet(calc[i], calc[j]) {
+				continue
+			}
+			a, b := ks[i], ks[j]
+			if a.c.System.LaueOrder() > b.c.System.LaueOrder() || a.c.System.LaueOrder() == b.c.System.LaueOrder() && a.c.Volume() < b.c.Volume()*(1-1e-6) {
+				drop[j] = true
+			}
+		}
+	}
+	// One cell, two centrings.
+	for i := range ks {
+		for j := range ks {
+			a, b := ks[i], ks[j]
+			if i == j || drop[i] || drop[j] || a.c.Centring == b.c.Centring || family(a.c.System) != family(b.c.System) {
+				continue
+			}
+			if !sameAxes(a.c, b.c) {
+				continue
+			}
+			if preferCentringCand(a, b, ls, o.Wavelength) {
+				drop[j] = true
+			}
+		}
+	}
+	var out []*cand
+	for i, k := range ks {
+		if !drop[i] {
+			out = append(out, k)
+		}
+	}
+	sort.SliceStable(out, func(i, j int) bool {
+		if out[i].strong != out[j].strong {
+			return !out[i].strong
+		}
+		return betterCand(out[i], out[j])
+	})
+	// Parsimony: a cell with fewer parameters rises above the cells it
+	// is not significantly worse than.
+	for pass := 0; pass < len(out); pass++ {
+		moved := false
+		for i := 0; i < len(out) && !moved; i++ {
+			for j := i + 1; j < len(out); j++ {
+				if moreParsimonious(out[j], out[i]) {
+					k := out[j]
+					copy(out[i+1:j+1], out[i:j])
+					out[i] = k
+					moved = true
+					break
+				}
+			}
+		}
+		if !moved {
+			break
+		}
+	}
+	return out
+}
+
+// moreParsimonious reports whether b, with fewer free parameters than a,
+// explains the lines as well: it indexes at least as many, leaves no
+// strong line that a indexes, predicts not many more lines (at most a
+// quarter more), scores at least a tenth of a, and a's χ²
+// is not lower by more than the F-test at parsimonyLevel allows for a's
+// extra parameters.
+func moreParsimonious(b, a *cand) bool {
+	pb, pa := b.nparams(), a.nparams()
+	if pb >= pa || b.indexed < a.indexed || b.strong && !a.strong || a.dof <= 0 || b.dof <= 0 {
+		return false
+	}
+	// A cell that predicts many more lines than the other (a supercell,
+	// or a lattice that indexes by chance) is not the simpler one.
+	if float64(b.nCalc) > 1.25*float64(a.nCalc)+1 {
+		return false
+	}
+	if b.score() < 0.1*a.score() {
+		return false
+	}
+	d1, d2 := float64(pa-pb), float64(a.dof)
+	red := math.Max(a.chi2/d2, 1e-12)
+	f := (b.chi2 - a.chi2) / d1 / red
+	return f <= (distuv.F{D1: d1, D2: d2}).Quantile(1-parsimonyLevel)
+}
+
+// sameAxes reports whether two cells have the same edges and angles
+// within 2e-4.
+func sameAxes(a, b cell.Cell) bool {
+	close := func(x, y float64) bool { return math.Abs(x-y) <= 2e-4*math.Max(x, y) }
+	return close(a.A, b.A) && close(a.B, b.B) && close(a.C, b.C) && close(a.Alpha, b.Alpha) && close(a.Beta, b.Beta) && close(a.Gamma, b.Gamma)
+}
+
+// clustersOf returns the cand's calculated Q values up to qmax, values
+// closer than 2e-3 relative merged (so that a pseudo-symmetric
+// description whose lines split by less than the windows counts as the
+// same lattice); nil when there are too many.
+func clustersOf(k *cand, qmax float64) []float64 {
+	refs := cell.Reflections(k.c, qmax)
+	if len(refs) > 20000 {
+		return nil
+	}
+	var out []float64
+	for _, r := range refs {
+		if n := len(out); n > 0 && r.Q-out[n-1] <= 2e-3*r.Q {
+			continue
+		}
+		out = append(out, r.Q)
+	}
+	return out
+}
+
+// preferCentringCand decides between two centrings of one cell (see
+// preferCentring): the one with more calculated lines wins only if the
+// lines that it alone indexes are more than chance would give; otherwise
+// the better score wins.
+func preferCentringCand(a, b *cand, ls []obs, lambda float64) bool {
+	more, less := a, b
+	if a.nCalc < b.nCalc {
+		more, less = b, a
+	}
+	extraCalc := float64(more.nCalc - less.nCalc)
+	var ss float64
+	nb := 0
+	for i, l := range ls {
+		if less.ref[i] >= 0 && more.ref[i] >= 0 {
+			d := l.tt - more.zero - ttOf(more.qc[i], lambda)
+			ss += d * d
+			nb++
+		}
+	}
+	rms := precision
+	if nb > 0 {
+		rms = math.Max(rms, math.Sqrt(ss/float64(nb)))
+	}
+	var expect float64
+	k := 0
+	for i, l := range ls {
+		if less.ref[i] >= 0 {
+			continue
+		}
+		q := qOf(l.tt, more.zero, lambda)
+		rho := 1.5 * extraCalc * math.Sqrt(q) / math.Pow(more.lastQ, 1.5)
+		expect += math.Min(1, 2*dQ(l.tt, 2.5*rms, lambda)*rho)
+		if more.ref[i] >= 0 && math.Abs(l.tt-more.zero-ttOf(more.qc[i], lambda)) <= 2.5*rms {
+			k++
+		}
+	}
+	if k > 0 && poissonTail(k, expect) < 0.01 {
+		return a == more
+	}
+	return betterCand(a, b)
+}
+
+// confidence returns how clearly the first cand beats the next one that
+// describes another lattice: the ratio of their scores (+Inf when there
+// is none).
+func confidence(ks []*cand) float64 {
+	if len(ks) == 0 {
+		return 0
+	}
+	first := ks[0]
+	for _, k := range ks[1:] {
+		if cell.SameLattice(first.c, k.c, 2e-3) {
+			continue
+		}
+		if s := k.score(); s > 0 {
+			return first.score() / s
+		}
+	}
+	return math.Inf(1)
+}
+
+// beyondChance returns the chance-corrected share of all lines that a
+// cell indexes (see kappa).
+func beyondChance(k *cand, all []obs, lambda float64) float64 {
+	g := &cand{c: k.c, zero: k.zero}
+	g.assign(all, lambda, 0)
+	return g.kappa(all, lambda)
+}

@@ -1,0 +1,460 @@
+package indexing
+
+import (
+	"context"
+	"math"
+	"sort"
+
+	"reticle/cell"
+)
+
+// The lattices of every system are found by the zone method (Ito, as
+// developed by Visser, J. Appl. Cryst. 2 (1969) 89), which needs no
+// assumption about symmetry:
+//
+//  1. Zones. Any two reciprocal vectors a*, b* span a plane of the
+//     reciprocal lattice, in which Q(h, k) = h²Q_a + k²Q_b + 2hk·R. Two
+//     low lines are tried as a* and b* (or as their second orders), and
+//     every pair of observed lines Q_k, Q_l with Q_k + Q_l = 2(Q_a + Q_b)
+//     is tried as the pair (1, ±1), which gives R = (Q_l − Q_k)/4. A zone
+//     is kept when it indexes several lines.
+//  2. Lattices. Two zones that share a row (a vector of equal Q in each)
+//     give a* and two more vectors whose only unknown product is found
+//     from the lines that neither zone indexes: each such line and index
+//     triple proposes a value, and the values that many lines agree on
+//     are tried.
+//  3. Symmetry. Each lattice is Niggli reduced, and its descriptions in
+//     every system whose metric it has within the tolerance of the lines
+//     (cell.Settings) become candidate cells, centred where the setting
+//     is.
+//
+// The search is exhaustive within stated bounds: the first zoneBase lines
+// as zone axes (and their second orders), index vectors up to zoneIndex
+// in the third step, and the volume and edge limits of Options.
+
+// zoneBase is how many of the first lines are tried as zone axes.
+const zoneBase = 8
+
+// zoneKeep is how many zones go on to be combined.
+const zoneKeep = 40
+
+// zoneIndex bounds the indices tried for the third product.
+const zoneIndex = 3
+
+// A zone is a plane of the reciprocal lattice: Q(h, k) = h²qa + k²qb +
+// 2hk·r, with the number of first lines it indexes.
+type zone struct {
+	qa, qb, r float64
+	n         int
+}
+
+// q returns Q(h, k).
+func (z zone) q(h, k int) float64 {
+	x, y := float64(h), float64(k)
+	return x*x*z.qa + y*y*z.qb + 2*x*y*z.r
+}
+
+// reduce returns the zone with a Lagrange–Gauss reduced basis: qa ≤ qb,
+// 0 ≤ 2r ≤ qa.
+func (z zone) reduce() zone {
+	for it := 0; it < 50; it++ {
+		if z.qb < z.qa {
+			z.qa, z.qb = z.qb, z.qa
+		}
+		if math.Abs(2*z.r) <= z.qa*(1+1e-9) {
+			break
+		}
+		k := math.Round(z.r / z.qa)
+		z.qb, z.r = z.qb-2*k*z.r+k*k*z.qa, z.r-k*z.qa
+	}
+	z.r = math.Abs(z.r)
+	return z
+}
+
+// zoneQs lists the distinct Q of a zone up to qmax.
+func (z zone) qs(qmax float64) []float64 {
+	var out []float64
+	det := z.qa*z.qb - z.r*z.r
+	if !(det > 0) {
+		return nil
+	}
+	// |h| ≤ √(qmax·qb/det), likewise k.
+	hm := int(math.Sqrt(qmax*z.qb/det)) + 1
+	km := int(math.Sqrt(qmax*z.qa/det)) + 1
+	if hm*km > 20000 {
+		return nil
+	}
+	for h := 0; h <= hm; h++ {
+		for k := -km; k <= km; k++ {
+			if h == 0 && k <= 0 {
+				continue
+			}
+			if q := z.q(h, k); q <= qmax {
+				out = append(out, q)
+			}
+		}
+	}
+	sort.Float64s(out)
+	return out
+}
+
+// countIn returns how many of the lines (Q qs, windows ws) lie within
+// their window of a value of the sorted list cl.
+func countIn(cl, qs, ws []float64) int {
+	n := 0
+	for i, q := range qs {
+		j := sort.SearchFloat64s(cl, q-ws[i])
+		if j < len(cl) && cl[j] <= q+ws[i] {
+			n++
+		}
+	}
+	return n
+}
+
+// findZones returns the zones of the lines (Q qs, windows ws) that index
+// at least minLines of them, best first, at most zoneKeep.
+func findZones(qs, ws []float64, minLines int) []zone {
+	qmax := qs[len(qs)-1] + ws[len(ws)-1]
+	nb := min(zoneBase, len(qs))
+	var out []zone
+	seen := map[[3]int64]bool{}
+	for i := 0; i < nb; i++ {
+		for j := i; j < nb; j++ {
+			for m := 1; m <= 2; m++ {
+				for n := 1; n <= 2; n++ {
+					qa, qb := qs[i]/float64(m*m), qs[j]/float64(n*n)
+					wab := ws[i]/float64(m*m) + ws[j]/float64(n*n)
+					sum := 2 * (qa + qb)
+					for k := range qs {
+						for l := k; l < len(qs); l++ {
+							if math.Abs(qs[k]+qs[l]-sum) > ws[k]+ws[l]+2*wab {
+								continue
+							}
+							r := (qs[l] - qs[k]) / 4
+							if 2*r > math.Min(qa, qb)+wab {
+								continue
+							}
+							z := zone{qa: qa, qb: qb, r: r}.reduce()
+							key := [3]int64{int64(math.Round(math.Log(z.qa) * 2000)), int64(math.Round(math.Log(z.qb) * 2000)), int64(math.Round(z.r / z.qa * 2000))}
+							if seen[key] {
+								continue
+							}
+							seen[key] = true
+							z.n = countIn(z.qs(qmax), qs, ws)
+							if z.n >= minLines {
+								out = append(out, z)
+							}
+						}
+					}
+				}
+			}
+		}
+	}
+	sort.SliceStable(out, func(a, b int) bool {
+		if out[a].n != out[b].n {
+			return out[a].n > out[b].n
+		}
+		// Of zones indexing as many lines, the denser lattice first.
+		return out[a].qa*out[a].qb-out[a].r*out[a].r > out[b].qa*out[b].qb-out[b].r*out[b].r
+	})
+	if len(out) > zoneKeep {
+		out = out[:zoneKeep]
+	}
+	return out
+}
+
+// A row is a primitive vector of a zone with a vector that completes it
+// to a basis of the zone: Q of both and their product.
+type row struct {
+	qu, qp, up float64
+}
+
+// rows lists the primitive vectors (h, k) of a zone with |h|, |k| ≤ 2 and
+// their completions.
+func (z zone) rows() []row {
+	var out []row
+	for h := 0; h <= 2; h++ {
+		for k := -2; k <= 2; k++ {
+			if h == 0 && k <= 0 || gcd(h, abs(k)) != 1 {
+				continue
+			}
+			// (p1, p2) with h·p2 − k·p1 = 1.
+			p1, p2 := complete(h, k)
+			qu := z.q(h, k)
+			qp := z.q(p1, p2)
+			x, y := float64(h), float64(k)
+			px, py := float64(p1), float64(p2)
+			up := x*px*z.qa + y*py*z.qb + (x*py+y*px)*z.r
+			out = append(out, row{qu, qp, up})
+		}
+	}
+	return out
+}
+
+// complete returns (p1, p2) with h·p2 − k·p1 = 1 for coprime h, k.
+func complete(h, k int) (int, int) {
+	// Extended Euclid on (h, −k).
+	g, x, y := extGCD(h, -k)
+	if g < 0 {
+		x, y = -x, -y
+	}
+	// h·x + (−k)·y = 1 → p2 = x, p1 = y.
+	return y, x
+}
+
+func extGCD(a, b int) (int, int, int) {
+	if b == 0 {
+		return a, 1, 0
+	}
+	g, x, y := extGCD(b, a%b)
+	return g, y, x - (a/b)*y
+}
+
+func gcd(a, b int) int {
+	for b != 0 {
+		a, b = b, a%b
+	}
+	return a
+}
+
+func abs(a int) int {
+	if a < 0 {
+		return -a
+	}
+	return a
+}
+
+// minFormFigure is the least figure (see countForm) of a lattice worth
+// refining.
+const minFormFigure = 3
+
+// formKeep is how many lattices of the zone search, best figure first,
+// are refined.
+const formKeep = 150
+
+// A scored form is a lattice of the zone search with its figure.
+type scored struct {
+	f     cell.QForm
+	score float64
+}
+
+// zoneLattices combines pairs of zones into lattices (reciprocal forms in
+// a primitive basis) that index at least need of the lines, and returns
+// the formKeep best.
+func zoneLattices(ctx context.Context, zs []zone, qs, ws []float64, need int, o Options) ([]cell.QForm, error) {
+	qmax := qs[len(qs)-1] + ws[len(ws)-1]
+	var out []scored
+	seen := map[[6]int64]bool{}
+	minDet := 1 / (o.MaxVolume * o.MaxVolume)
+	rowsOf := make([][]row, len(zs))
+	for i, z := range zs {
+		rowsOf[i] = z.rows()
+	}
+	xs := make([]vote, 0, 4096)
+	for i := range zs {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		for j := i + 1; j < len(zs); j++ {
+			for _, u := range rowsOf[i] {
+				for _, v := range rowsOf[j] {
+					tol := 2e-3*u.qu + 1e-5
+					if math.Abs(u.qu-v.qu) > tol {
+						continue
+					}
+					qu := (u.qu + v.qu) / 2
+					// Basis (u, p, q): G* known but for X = p·q.
+					base := [6]float64{qu, u.qp, v.qp, 0, u.up, v.up}
+					xs = xs[:0]
+					lim := math.Sqrt(u.qp * v.qp)
+					for li, q := range qs {
+						for a := -zoneIndex; a <= zoneIndex; a++ {
+							for b := -zoneIndex; b <= zoneIndex; b++ {
+								if b == 0 {
+									continue
+								}
+								for c := 1; c <= zoneIndex; c++ {
+									fa, fb, fc := float64(a), float64(b), float64(c)
+									known := fa*fa*qu + fb*fb*u.qp + fc*fc*v.qp + 2*fa*fb*u.up + 2*fa*fc*v.up
+									x := (q - known) / (2 * fb * fc)
+									if math.Abs(x) > lim {
+										continue
+									}
+									xs = append(xs, vote{x, ws[li] / (2 * math.Abs(fb*fc)), li})
+								}
+							}
+						}
+					}
+					for _, x := range agreed(xs, 3) {
+						g := base
+						g[3] = x
+						// Basis order (u, p, q): A = u·u, B = p·p,
+						// C = q·q, D = 2p·q, E = 2u·q, F = 2u·p.
+						f := cell.QForm{g[0], g[1], g[2], 2 * g[3], 2 * g[5], 2 * g[4]}
+						m := f.Reciprocal()
+						det := m.Det()
+						if !(det > minDet) {
+							continue
+						}
+						key, ok := reducedKey(f)
+						if !ok || seen[key] {
+							continue
+						}
+						seen[key] = true
+						// The first lines first: few calculated lines
+						// reject most forms cheaply.
+						if m := min(10, len(qs)); m < len(qs) {
+							if n1, _ := countForm(f, qs[m-1]+ws[m-1], qs[:m], ws[:m]); n1 < m-(len(qs)-need) {
+								continue
+							}
+						}
+						if n, m := countForm(f, qmax, qs, ws); n >= need && m >= minFormFigure {
+							out = append(out, scored{f, m * math.Pow(0.84, float64(len(qs)-n))})
+						}
+					}
+				}
+			}
+		}
+	}
+	sort.SliceStable(out, func(a, b int) bool { return out[a].score > out[b].score })
+	if len(out) > formKeep {
+		out = out[:formKeep]
+	}
+	fs := make([]cell.QForm, len(out))
+	for i, x := range out {
+		fs[i] = x.f
+	}
+	return fs, nil
+}
+
+// A vote is a value of the unknown product proposed by a line.
+type vote struct {
+	x, w float64
+	line int
+}
+
+// agreed returns the values that at least min distinct lines propose
+// within their windows, one per cluster (the mean of its members).
+func agreed(vs []vote, min int) []float64 {
+	sort.Slice(vs, func(a, b int) bool { return vs[a].x < vs[b].x })
+	var out []float64
+	for i := 0; i < len(vs); {
+		lines := map[int]bool{}
+		var s, sw float64
+		j := i
+		for ; j < len(vs) && vs[j].x-vs[i].x <= vs[i].w+vs[j].w; j++ {
+			if !lines[vs[j].line] {
+				lines[vs[j].line] = true
+				s += vs[j].x
+				sw++
+			}
+		}
+		if len(lines) >= min {
+			out = append(out, s/sw)
+			i = j
+			continue
+		}
+		i++
+	}
+	return out
+}
+
+// reducedKey rounds the Niggli reduced Gruber vector of a form's lattice
+// (relative to its mean edge², in steps of 1e-3) for de-duplication.
+func reducedKey(f cell.QForm) ([6]int64, bool) {
+	c, err := f.Cell(cell.Triclinic, cell.P)
+	if err != nil {
+		return [6]int64{}, false
+	}
+	red, err := cell.Reduce(c)
+	if err != nil {
+		return [6]int64{}, false
+	}
+	g := red.G6
+	v := [6]float64{g.A, g.B, g.C, g.Xi, g.Eta, g.Zeta}
+	m := (v[0] + v[1] + v[2]) / 3
+	var k [6]int64
+	for i := range k {
+		k[i] = int64(math.Round(v[i] / m * 1000))
+	}
+	return k, true
+}
+
+// countForm counts the lines within their window of a Q of the form and
+// gives a figure of merit of de Wolff's kind (discrepancies floored at a
+// tenth of the window); it gives up (returning 0) when the form has more
+// than maxFormLines lines below qmax, too many to tell a lattice from
+// chance.
+func countForm(f cell.QForm, qmax float64, qs, ws []float64) (int, float64) {
+	g, ok := f.Reciprocal().Inverse()
+	if !ok || !(g[0][0] > 0 && g[1][1] > 0 && g[2][2] > 0) {
+		return 0, 0
+	}
+	hm := int(math.Sqrt(qmax * g[0][0]))
+	km := int(math.Sqrt(qmax * g[1][1]))
+	lm := int(math.Sqrt(qmax * g[2][2]))
+	if (hm+1)*(2*km+1)*(2*lm+1) > 8*maxFormLines {
+		return 0, 0
+	}
+	// Each calculated Q is looked up among the lines (sorted) rather
+	// than the calculated list sorted: the nearest discrepancy of every
+	// line and the number of calculated lines up to the last line.
+	best := make([]float64, len(qs))
+	for i := range best {
+		best[i] = math.Inf(1)
+	}
+	qn := qs[len(qs)-1] * (1 + 1e-9)
+	nc, total := 0, 0
+	for h := 0; h <= hm; h++ {
+		x := float64(h)
+		for k := -km; k <= km; k++ {
+			if h == 0 && k < 0 {
+				continue
+			}
+			y := float64(k)
+			base := f[0]*x*x + f[1]*y*y + f[5]*x*y
+			for l := -lm; l <= lm; l++ {
+				if h == 0 && k == 0 && l <= 0 {
+					continue
+				}
+				z := float64(l)
+				q := base + f[2]*z*z + f[3]*y*z + f[4]*x*z
+				if q > qmax || q <= 0 {
+					continue
+				}
+				total++
+				if q <= qn {
+					nc++
+				}
+				j := sort.SearchFloat64s(qs, q)
+				if j < len(qs) {
+					best[j] = math.Min(best[j], qs[j]-q)
+				}
+				if j > 0 {
+					best[j-1] = math.Min(best[j-1], q-qs[j-1])
+				}
+			}
+		}
+	}
+	if total > maxFormLines {
+		return 0, 0
+	}
+	// Lines found and a figure of de Wolff's kind: Q_N over twice the
+	// mean discrepancy and the number of calculated lines.
+	n := 0
+	var sum float64
+	for i, d := range best {
+		if d <= ws[i] {
+			n++
+			sum += math.Max(d, ws[i]/10)
+		}
+	}
+	if n == 0 {
+		return 0, 0
+	}
+	return n, qs[len(qs)-1] / (2 * sum / float64(n) * float64(max(nc, 1)))
+}
+
+// maxFormLines bounds the lines (counted with their Friedel mates once)
+// below the last observed line of a lattice worth counting.
+const maxFormLines = 4000
