@@ -43,6 +43,9 @@ type Settings struct {
 
 	// Systems are the crystal systems searched (indexing's default).
 	Systems []cell.System `json:"systems,omitempty"`
+	// SearchLower searches the lower systems even when a higher cell
+	// explains the lines.
+	SearchLower bool `json:"search_lower,omitempty"`
 	// Impurities is how many of the first 20 lines may stay unindexed
 	// (indexing's default when zero; negative: none).
 	Impurities int `json:"impurities,omitempty"`
@@ -157,7 +160,7 @@ func (s Settings) peakOptions() peaks.Options {
 
 // indexOptions are the search's options for wavelength λ (Å).
 func (s Settings) indexOptions(lambda float64) indexing.Options {
-	return indexing.Options{Wavelength: lambda, Systems: s.Systems, MaxImpurities: s.Impurities, Tolerance: s.Tolerance}
+	return indexing.Options{Wavelength: lambda, Systems: s.Systems, MaxImpurities: s.Impurities, Tolerance: s.Tolerance, ExploreLower: s.SearchLower}
 }
 
 // refineOptions are the refinement's options for wavelength λ (Å).

@@ -355,7 +355,9 @@ func (u *ui) cellsStep() fyne.CanvasObject {
 	u.autoLabel = widget.NewLabel("Cells follow every peak edit while a run takes under half a second. Select a row to show its ticks and indices.")
 	u.autoLabel.Wrapping = fyne.TextWrapWord
 	bar := container.NewBorder(nil, nil, nil, container.NewHBox(u.runBtn, u.cancelBtn), u.progBar)
-	return container.NewBorder(container.NewVBox(bar, u.autoLabel), nil, nil, nil, u.cellTable)
+	u.searchLabel = widget.NewLabel("")
+	u.searchLabel.Wrapping = fyne.TextWrapWord
+	return container.NewBorder(container.NewVBox(bar, u.autoLabel), u.searchLabel, nil, nil, u.cellTable)
 }
 
 // setCellColumns chooses the candidate table's columns for the current

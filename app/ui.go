@@ -57,6 +57,9 @@ type ui struct {
 	cancelBtn *widget.Button
 	runBtn    *widget.Button
 	autoLabel *widget.Label
+	// searchLabel says what the indexing searched and how clear its
+	// answer is.
+	searchLabel *widget.Label
 
 	zeroCheck, dispCheck *widget.Check
 	radiusEntry          *widget.Entry
@@ -367,6 +370,10 @@ func (u *ui) refreshAll() {
 		} else {
 			u.cellTable.ScrollTo(id)
 		}
+	}
+	u.searchLabel.SetText("")
+	if u.m.A != nil && u.m.A.Search != nil {
+		u.searchLabel.SetText(report.SearchText(u.m.A.Search))
 	}
 	u.resTable.Refresh()
 	u.paramsText.SetText(u.paramsSummary())

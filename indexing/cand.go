@@ -287,7 +287,7 @@ func countUpTo(cl []calcQ, q float64) int {
 
 // minDOF is the fewest degrees of freedom (indexed lines less refined
 // parameters) of a cell worth reporting.
-const minDOF = 3
+const minDOF = 1
 
 // score is M_N times (ν/n)², n the indexed first lines and ν = n − p the
 // degrees of freedom left after fitting p parameters (the mean

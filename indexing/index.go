@@ -28,6 +28,10 @@ const zeroStep = 0.05
 // centring variants and the ranking.
 const keep = 40
 
+// minZeroLines is the fewest lines from which the zero offset is refined
+// with the cell.
+const minZeroLines = 6
+
 // minLines is the number of lines each system needs: one more than its
 // free cell parameters and the zero offset, and three for cubic (three
 // lines in a ratio such as 3 : 4 : 8 fix a cubic lattice).
@@ -63,6 +67,12 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 	}
 	first := all[:min(len(all), o.Lines)]
 	n := len(first)
+	var notes []string
+	if n < minZeroLines && o.ZeroRange > 0 {
+		// So few lines cannot tell a zero offset from the cell.
+		o.ZeroRange = 0
+		notes = append(notes, fmt.Sprintf("with fewer than %d lines the zero offset is held at 0", minZeroLines))
+	}
 	// Unindexed lines allowed among the first: MaxImpurities, or a
 	// quarter of the lines (at least one from eight lines on) by default.
 	allow := o.MaxImpurities
@@ -78,9 +88,10 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 		zeros = append(zeros, z, -z)
 	}
 	res := &Result{Wavelength: o.Wavelength, LinesUsed: n, Bounds: Bounds{MaxEdge: o.MaxEdge, MaxVolume: o.MaxVolume, ZeroRange: o.ZeroRange}}
-	if n < 6 {
+	if n < minZeroLines {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("only %d lines: a cell from so few lines is a hypothesis to check against more data", n))
 	}
+	res.Warnings = append(res.Warnings, notes...)
 
 	var high []cell.System
 	for _, s := range []cell.System{cell.Cubic, cell.Tetragonal, cell.Hexagonal} {

@@ -49,6 +49,23 @@ func rankCands(ks []*cand, ls, all []obs, o Options) []*cand {
 			}
 		}
 	}
+	// A supercell (its calculated lines include all of another cell's,
+	// its volume at least 1.5 times larger) that indexes no more lines
+	// is the same answer with more unobserved lines: it goes.
+	for i := range ks {
+		for j := range ks {
+			a, b := ks[i], ks[j]
+			if i == j || drop[i] || drop[j] || calc[i] == nil || calc[j] == nil {
+				continue
+			}
+			if b.c.Volume() < 1.5*a.c.Volume() || b.indexed > a.indexed || b.later > a.later*(1+1e-9) && a.later > 0 {
+				continue
+			}
+			if covers(calc[j], calc[i]) {
+				drop[j] = true
+			}
+		}
+	}
 	// One cell, two centrings.
 	for i := range ks {
 		for j := range ks {

@@ -3,6 +3,7 @@ package report
 import (
 	"fmt"
 	"io"
+	"math"
 	"path/filepath"
 	"strings"
 	"time"
@@ -122,6 +123,20 @@ func WriteCIF(w io.Writer, a *analysis.Analysis, date time.Time) error {
 	if hi > 0 {
 		p("_cell_measurement_theta_min %.4f\n", lo/2)
 		p("_cell_measurement_theta_max %.4f\n", hi/2)
+	}
+	if r := a.Search; r != nil {
+		// The search that found the cell (items of this program's own).
+		var names []string
+		for _, s := range r.Searched {
+			names = append(names, s.String())
+		}
+		p("\n_reticle_indexing_systems_searched %s\n", cifString(strings.Join(names, " ")))
+		p("_reticle_indexing_max_volume %g\n", r.Bounds.MaxVolume)
+		p("_reticle_indexing_figure_of_merit_M %.1f\n", c.M)
+		if !math.IsInf(r.Confidence, 1) && r.Confidence > 0 {
+			p("_reticle_indexing_confidence %.2f\n", r.Confidence)
+		}
+		p("_reticle_indexing_stop %s\n", cifString(r.Stop))
 	}
 	p("\n_diffrn_radiation_wavelength %s\n", ftoa(a.Radiation.Lambda1))
 	p("_diffrn_radiation_type %s\n", cifString(a.Radiation.Name))

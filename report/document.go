@@ -46,6 +46,33 @@ type Document struct {
 	// Chosen is the rank of the solution the records report.
 	Chosen   int      `json:"chosen"`
 	Warnings []string `json:"warnings,omitempty"`
+	// Search describes the indexing search.
+	Search *SearchInfo `json:"search,omitempty"`
+}
+
+// SearchInfo describes the indexing search: the systems searched, why it
+// stopped there, its bounds (Å, Å³, degrees 2θ), how clearly the first
+// solution beats the next lattice (the ratio of their scores; absent when
+// no other lattice was found) and its warnings.
+type SearchInfo struct {
+	Systems    []cell.System `json:"systems"`
+	Stop       string        `json:"stop"`
+	MaxEdge    float64       `json:"max_edge"`
+	MaxVolume  float64       `json:"max_volume"`
+	ZeroRange  float64       `json:"zero_range"`
+	LinesUsed  int           `json:"lines_used"`
+	Confidence float64       `json:"confidence,omitempty"`
+	Warnings   []string      `json:"warnings,omitempty"`
+}
+
+// NewSearchInfo describes an indexing result.
+func NewSearchInfo(r *indexing.Result) *SearchInfo {
+	si := &SearchInfo{Systems: r.Searched, Stop: r.Stop, MaxEdge: r.Bounds.MaxEdge, MaxVolume: r.Bounds.MaxVolume,
+		ZeroRange: r.Bounds.ZeroRange, LinesUsed: r.LinesUsed, Warnings: r.Warnings}
+	if !math.IsInf(r.Confidence, 0) {
+		si.Confidence = r.Confidence
+	}
+	return si
 }
 
 // ScanInfo describes the scan a result comes from.
@@ -198,8 +225,17 @@ type Solution struct {
 	Indexed     int      `json:"indexed"`
 	Unindexed   int      `json:"unindexed"`
 	Conditions  []string `json:"conditions,omitempty"`
-	Lines       []Line   `json:"lines"`
-	Calculated  []Calc   `json:"calculated"`
+	// Parameters refined in the search (cell and zero), the χ² of the
+	// first lines' positions with its degrees of freedom, and the Niggli
+	// reduced cell of the lattice with the matrix whose rows give its
+	// vectors in the basis of the cell.
+	Parameters  int           `json:"parameters"`
+	ChiSquare   float64       `json:"chi_square"`
+	DOF         int           `json:"dof"`
+	Reduced     string        `json:"reduced_cell"`
+	FromReduced [3][3]float64 `json:"reduced_from_cell"`
+	Lines       []Line        `json:"lines"`
+	Calculated  []Calc        `json:"calculated"`
 	// The refinement of the cell against its indexed lines; absent, with
 	// RefineError saying why, when it could not be done.
 	Refined     *Refined `json:"refinement,omitempty"`
@@ -363,6 +399,9 @@ func NewDocument(a *analysis.Analysis) *Document {
 	if a.Extraction != nil && a.Extraction.Result != nil {
 		doc.Profile = NewProfileInfo(a.Extraction.Result)
 	}
+	if a.Search != nil {
+		doc.Search = NewSearchInfo(a.Search)
+	}
 	if a.Radiation.Doublet() {
 		doc.Wavelength2, doc.Ka2Ratio = a.Radiation.Lambda2, a.Radiation.Ratio2
 	}
@@ -395,6 +434,10 @@ func NewSolution(a *analysis.Analysis, c *analysis.Candidate) Solution {
 		Rank: c.Rank, CellValues: NewCellValues(c.Cell(), c.Covariance().ESD(), v, ve), Zero: s.Zero,
 		M: s.M, FigureLines: s.FigureLines, FN: s.FN, FNMeanDiff: s.FNMeanDiff, FNPossible: s.FNPossible,
 		Indexed: s.Indexed, Unindexed: s.Unindexed, Conditions: s.Conditions, Lines: []Line{}, Calculated: []Calc{},
+		Parameters: s.Parameters, ChiSquare: s.ChiSquare, DOF: s.DOF, FromReduced: s.FromReduced,
+	}
+	if s.Reduced.Volume() > 0 {
+		j.Reduced = cell.Format(s.Reduced, cell.ESD{})
 	}
 	for _, l := range s.Lines {
 		jl := Line{TwoTheta: l.TwoTheta, ESD: l.ESD, Indexed: l.Indexed, HKL: l.HKL, TwoThetaCalc: l.TwoThetaCalc, Delta: l.Delta}

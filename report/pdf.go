@@ -4,7 +4,9 @@ import (
 	"bytes"
 	"fmt"
 	"io"
+	"math"
 	"path/filepath"
+	"reticle/indexing"
 	"strings"
 	"time"
 
@@ -381,6 +383,31 @@ func (x *pdfWriter) candidates(a *analysis.Analysis) {
 	x.table(cols, rows)
 	x.pdf.SetFont(fontSans, "I", 7.5)
 	x.pdf.MultiCell(0, 3.6, fmt.Sprintf("M_N after de Wolff (1968) and F_N after Smith & Snyder (1979), over the first %d lines; a Z marked ? is not whole for the measured density.", a.Candidates[0].FigureLines), "", "L", false)
+	if r := a.Search; r != nil {
+		x.pdf.MultiCell(0, 3.6, SearchText(r), "", "L", false)
+	}
+}
+
+// SearchText describes an indexing search in one paragraph: the systems
+// searched, the bounds, why it stopped, the confidence and the warnings.
+func SearchText(r *indexing.Result) string {
+	var names []string
+	for _, s := range r.Searched {
+		names = append(names, s.String())
+	}
+	t := fmt.Sprintf("Searched %s (first %d lines; edges up to %g Å, volumes up to %g Å³, zero offset up to %g°): %s.",
+		strings.Join(names, ", "), r.LinesUsed, r.Bounds.MaxEdge, r.Bounds.MaxVolume, r.Bounds.ZeroRange, r.Stop)
+	if len(r.Solutions) > 0 {
+		if math.IsInf(r.Confidence, 1) {
+			t += " No other lattice explains the lines."
+		} else {
+			t += fmt.Sprintf(" The first cell's score is %.2f times the next lattice's.", r.Confidence)
+		}
+	}
+	for _, w := range r.Warnings {
+		t += " Warning: " + w + "."
+	}
+	return t
 }
 
 func (x *pdfWriter) lines(a *analysis.Analysis) {

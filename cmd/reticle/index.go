@@ -51,6 +51,9 @@ func printCandidates(w io.Writer, a *analysis.Analysis) {
 	for _, m := range a.Warnings {
 		fmt.Fprintf(w, "warning: %s\n", m)
 	}
+	if r := a.Search; r != nil {
+		fmt.Fprintln(w, report.SearchText(r))
+	}
 	if len(a.Candidates) == 0 {
 		fmt.Fprintln(w, "no cell explains the lines within the search bounds")
 		fmt.Fprintln(w)

@@ -95,8 +95,8 @@ var options = []option{
 	{name: "background-width", arg: "D", in: scanCommands, def: ftoa(peaks.DefaultBackgroundWidth),
 		help: "window of the background estimate, degrees 2θ",
 		set:  floatOpt(func(r *request) *float64 { return &r.settings.BackgroundWidth }, positive, "a positive window in degrees")},
-	{name: "systems", arg: "LIST", in: cmdIndex | cmdReport, def: "cubic,tetragonal,hexagonal,rhombohedral",
-		help: "crystal systems to search, comma-separated",
+	{name: "systems", arg: "LIST", in: cmdIndex | cmdReport, def: "all seven",
+		help: "crystal systems to search, comma-separated; the lower ones (orthorhombic, monoclinic, triclinic) only when no higher cell explains the lines, unless --search-lower",
 		set: func(r *request, v string) error {
 			r.settings.Systems = nil
 			for _, name := range strings.Split(v, ",") {
@@ -108,8 +108,11 @@ var options = []option{
 			}
 			return nil
 		}},
-	{name: "impurities", arg: "N", in: cmdIndex | cmdReport, def: "3",
-		help: "lines among the first 20 that may stay unindexed",
+	{name: "search-lower", in: cmdIndex | cmdReport,
+		help: "search the lower systems even when a higher cell explains the lines",
+		set:  func(r *request, _ string) error { r.settings.SearchLower = true; return nil }},
+	{name: "impurities", arg: "N", in: cmdIndex | cmdReport, def: "a quarter of the lines",
+		help: "lines among the first 20 that may stay unindexed (each also costs its cell by its strength)",
 		set: func(r *request, v string) error {
 			n, err := strconv.Atoi(v)
 			if err != nil || n < 0 {

@@ -1,0 +1,129 @@
+package indexing
+
+import (
+	"context"
+	"math"
+	"math/rand/v2"
+	"strings"
+	"testing"
+
+	"reticle/cell"
+)
+
+// Wavelengths of Hölzer et al., Phys. Rev. A 56 (1997) 4554 (from memory).
+const (
+	cuKa1 = 1.5405929
+	coKa1 = 1.7889961
+)
+
+// modelLines returns the lines of a cell up to ttmax degrees 2θ for the
+// wavelength, less those absent(h) removes, with a zero error, a sample
+// displacement (mm, goniometer radius 240 mm: shift −2s·cos θ/R),
+// uniform noise of ±0.005° and esds of 0.005°. Intensities are the
+// multiplicity times the Lorentz–polarisation factor (1 + cos² 2θ)/
+// (sin² θ cos θ): unit structure factors, a model pattern (common
+// practice), enough to tell strong lines from weak.
+func modelLines(c cell.Cell, lambda, ttmax float64, absent func(cell.HKL) bool, zero, disp float64, seed uint64) []cell.Line {
+	rng := rand.New(rand.NewPCG(seed, 17))
+	var ls []cell.Line
+	for _, r := range cell.Reflections(c, qOf(ttmax, 0, lambda)) {
+		mult := 0
+		for _, h := range allHKL(c, r.Q) {
+			if absent == nil || !absent(h) {
+				mult++
+			}
+		}
+		if mult == 0 {
+			continue
+		}
+		tt := ttOf(r.Q, lambda)
+		th := tt / 2 * deg
+		lp := (1 + math.Pow(math.Cos(2*th), 2)) / (math.Pow(math.Sin(th), 2) * math.Cos(th))
+		shift := zero - 2*disp*math.Cos(th)/240/deg
+		ls = append(ls, cell.Line{TwoTheta: tt + shift + (2*rng.Float64()-1)*0.005, ESD: 0.005, Intensity: float64(mult) * lp})
+	}
+	return ls
+}
+
+// first indexes the lines and checks the first solution's lattice,
+// centring and a (and c) to 0.05 %.
+func first(t *testing.T, name string, ls []cell.Line, lambda float64, want cell.Cell) *Result {
+	t.Helper()
+	res, err := Index(context.Background(), ls, Options{Wavelength: lambda}, nil)
+	if err != nil {
+		t.Fatalf("%s: %v", name, err)
+	}
+	if len(res.Solutions) == 0 {
+		t.Fatalf("%s: no solution", name)
+	}
+	s := res.Solutions[0]
+	c := s.Cell
+	if c.System != want.System || c.Centring != want.Centring || math.Abs(c.A-want.A) > 5e-4*want.A || math.Abs(c.C-want.C) > 5e-4*want.C {
+		t.Errorf("%s (%d lines): first %v, want %v", name, len(ls), s, want)
+		for i, o := range res.Solutions[1:min(len(res.Solutions), 4)] {
+			t.Logf("  %d: %v", i+2, o)
+		}
+	} else {
+		t.Logf("%s (%d lines): %v, confidence %.2f", name, len(ls), s, res.Confidence)
+	}
+	return res
+}
+
+// TestThreeLineCubic: copper (face-centred cubic, a = 3.6149 Å, handbook
+// value from memory) with Co K-alpha1 below 100° 2θ has three lines,
+// (111), (200), (220), in the ratio 3 : 4 : 8 of Q, which fix the cell;
+// the answer carries a warning that it rests on few lines.
+func TestThreeLineCubic(t *testing.T) {
+	want := cell.Must(cell.Cubic, cell.F, 3.6149)
+	ls := modelLines(want, coKa1, 100, nil, 0.02, 0, 1)
+	if len(ls) != 3 {
+		t.Fatalf("%d lines, want 3", len(ls))
+	}
+	res := first(t, "copper, Co radiation", ls, coKa1, want)
+	warned := false
+	for _, w := range res.Warnings {
+		warned = warned || strings.Contains(w, "lines")
+	}
+	if !warned {
+		t.Errorf("no warning about the few lines: %q", res.Warnings)
+	}
+}
+
+// TestSixLineFCCWithErrors: aluminium (face-centred cubic, a = 4.0495 Å,
+// handbook value from memory), its six lines below 100° 2θ with Cu
+// K-alpha1, a zero error of +0.05° and a sample displacement of 0.15 mm:
+// a hexagonal cell's extra parameter fits such errors about as well, and
+// the cubic cell must win by parsimony.
+func TestSixLineFCCWithErrors(t *testing.T) {
+	want := cell.Must(cell.Cubic, cell.F, 4.0495)
+	ls := modelLines(want, cuKa1, 100, nil, 0.05, 0.15, 2)
+	if len(ls) != 6 {
+		t.Fatalf("%d lines, want 6", len(ls))
+	}
+	first(t, "aluminium with zero and displacement errors", ls, cuKa1, want)
+}
+
+// TestHematiteAllLines: hematite α-Fe2O3 (R-3c, a = 5.0356, c = 13.7489 Å
+// on hexagonal axes, handbook values from memory), all its lines to 90°
+// 2θ with Cu K-alpha1; the c-glide removes h −h 0 l with l odd and 000l
+// with l ≠ 6n (International Tables Vol. A). A cell of half c indexes
+// most lines better but leaves strong ones unindexed; the true cell must
+// win.
+func TestHematiteAllLines(t *testing.T) {
+	want := cell.Must(cell.Rhombohedral, cell.R, 5.0356, 13.7489)
+	absent := func(v cell.HKL) bool {
+		return v[0] == -v[1] && v[2]%2 != 0 || v[0] == 0 && v[1] == 0 && mod(v[2], 6) != 0
+	}
+	ls := modelLines(want, cuKa1, 90, absent, -0.03, 0, 3)
+	first(t, "hematite", ls, cuKa1, want)
+}
+
+// TestAntifluorite: lithium oxide Li2O (antifluorite, Fm-3m, a = 4.6114
+// Å, handbook value from memory), all lines to 120° 2θ with Cu K-alpha1;
+// a cell √2 larger (tetragonal, or cubic with more calculated lines)
+// indexes them too and must lose to the true face-centred cell.
+func TestAntifluorite(t *testing.T) {
+	want := cell.Must(cell.Cubic, cell.F, 4.6114)
+	ls := modelLines(want, cuKa1, 120, nil, 0.04, 0.05, 4)
+	first(t, "lithium oxide", ls, cuKa1, want)
+}
