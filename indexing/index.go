@@ -73,12 +73,12 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 		o.ZeroRange = 0
 		notes = append(notes, fmt.Sprintf("with fewer than %d lines the zero offset is held at 0", minZeroLines))
 	}
-	// Unindexed lines allowed among the first: MaxImpurities, or a
-	// quarter of the lines (at least one from eight lines on) by default.
+	// Unindexed lines allowed among the first: MaxImpurities, or
+	// DefaultImpurityShare of them (rounded down) by default.
 	allow := o.MaxImpurities
 	switch {
 	case allow == 0:
-		allow = n / 4
+		allow = int(DefaultImpurityShare * float64(n))
 	case allow < 0:
 		allow = 0
 	}

@@ -37,13 +37,18 @@ func rankCands(ks []*cand, ls, all []obs, o Options) []*cand {
 	}
 	drop := make([]bool, len(ks))
 	// One lattice, two descriptions: keep the higher symmetry, or the
-	// smaller cell of equal symmetry.
+	// smaller cell of equal symmetry, when it indexes as many lines (a
+	// lattice that is only nearly of higher symmetry has lines the
+	// higher description misses).
 	for i := range ks {
 		for j := range ks {
 			if i == j || drop[i] || drop[j] || calc[i] == nil || calc[j] == nil || !sameSet(calc[i], calc[j]) {
 				continue
 			}
 			a, b := ks[i], ks[j]
+			if a.indexed < b.indexed {
+				continue
+			}
 			if a.c.System.LaueOrder() > b.c.System.LaueOrder() || a.c.System.LaueOrder() == b.c.System.LaueOrder() && a.c.Volume() < b.c.Volume()*(1-1e-6) {
 				drop[j] = true
 			}

@@ -18,7 +18,10 @@ func searchSystem(ctx context.Context, s cell.System, want map[cell.System]bool,
 		cen = cell.R
 	}
 	var fits []*fit
-	settled := map[[2]int64]bool{}
+	// The fits kept, by lattice: the same lattice settled from another
+	// seed or zero offset replaces the kept one when its figure is better
+	// (a seed at a poor zero offset can settle into a poorer minimum).
+	settled := map[[2]int64]int{}
 	tried := map[[3]int64]bool{}
 	for _, z := range zeros {
 		if err := ctx.Err(); err != nil {
@@ -45,11 +48,13 @@ func searchSystem(ctx context.Context, s cell.System, want map[cell.System]bool,
 			tried[ck] = true
 			if f := settle(t, first, o); f != nil {
 				k := [2]int64{int64(math.Round(math.Log(f.pa) * 5000)), int64(math.Round(math.Log(f.pc+1e-300) * 5000))}
-				if !settled[k] {
-					settled[k] = true
-					f.figures(first, o.Wavelength)
-					if f.m20 > 0 {
+				f.figures(first, o.Wavelength)
+				if f.m20 > 0 {
+					if i, ok := settled[k]; !ok {
+						settled[k] = len(fits)
 						fits = append(fits, f)
+					} else if f.m20 > fits[i].m20 {
+						fits[i] = f
 					}
 				}
 			}

@@ -111,7 +111,7 @@ var options = []option{
 	{name: "search-lower", in: cmdIndex | cmdReport,
 		help: "search the lower systems even when a higher cell explains the lines",
 		set:  func(r *request, _ string) error { r.settings.SearchLower = true; return nil }},
-	{name: "impurities", arg: "N", in: cmdIndex | cmdReport, def: "a quarter of the lines",
+	{name: "impurities", arg: "N", in: cmdIndex | cmdReport, def: "35 % of the lines",
 		help: "lines among the first 20 that may stay unindexed (each also costs its cell by its strength)",
 		set: func(r *request, v string) error {
 			n, err := strconv.Atoi(v)
