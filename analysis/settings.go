@@ -54,7 +54,7 @@ type Settings struct {
 	Tolerance float64 `json:"tolerance,omitempty"`
 
 	// Corrections are the instrument corrections refined with each cell;
-	// nil means a zero shift.
+	// nil means refine.DefaultCorrections (chosen from the data).
 	Corrections *refine.Corrections `json:"corrections,omitempty"`
 	// Radius is the goniometer radius in mm (refine.DefaultRadius).
 	Radius float64 `json:"radius_mm,omitempty"`
@@ -165,7 +165,7 @@ func (s Settings) indexOptions(lambda float64) indexing.Options {
 
 // refineOptions are the refinement's options for wavelength λ (Å).
 func (s Settings) refineOptions(lambda float64) refine.Options {
-	o := refine.Options{Wavelength: lambda, Corrections: refine.Zero, Radius: s.Radius, FlagLimit: s.FlagLimit, Scaling: s.Scaling, Standard: s.Standard}
+	o := refine.Options{Wavelength: lambda, Corrections: refine.DefaultCorrections, Radius: s.Radius, FlagLimit: s.FlagLimit, Scaling: s.Scaling, Standard: s.Standard}
 	if s.Corrections != nil {
 		o.Corrections = *s.Corrections
 	}

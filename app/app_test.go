@@ -147,11 +147,19 @@ func TestWorkflow(t *testing.T) {
 	if u.m.Selected != 0 {
 		t.Fatalf("selecting row 1: selected %d", u.m.Selected)
 	}
-	// Refine the displacement too.
+	// The data chose the corrections, and the summary says which and why.
+	if sum := u.paramsSummary(); !u.autoCheck.Checked || !strings.Contains(sum, "chosen from the data") || !u.zeroCheck.Disabled() {
+		t.Fatalf("corrections not chosen from the data: auto %v, summary %q", u.autoCheck.Checked, sum)
+	}
+	// Fix the model: zero shift and displacement.
+	u.autoCheck.SetChecked(false)
+	u.wait()
+	u.zeroCheck.SetChecked(true)
+	u.wait()
 	u.dispCheck.SetChecked(true)
 	u.wait()
 	sum := u.paramsSummary()
-	if !strings.Contains(sum, "displacement") || !strings.Contains(sum, "cubic F") {
+	if !strings.Contains(sum, "zero+displacement, fixed by the user") || !strings.Contains(sum, "cubic F") {
 		t.Fatalf("refinement summary %q", sum)
 	}
 	a := u.m.Solution().Cell().A

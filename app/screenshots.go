@@ -92,6 +92,8 @@ func (u *ui) takeScreenshots(dir, name string) {
 		u.wait()
 		fyne.DoAndWait(func() {
 			u.tabs.SelectIndex(3)
+			u.autoCheck.SetChecked(false)
+			u.zeroCheck.SetChecked(true)
 			u.dispCheck.SetChecked(true)
 		})
 		u.wait()

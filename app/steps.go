@@ -418,6 +418,23 @@ func (u *ui) refineStep() fyne.CanvasObject {
 	}
 	u.zeroCheck = widget.NewCheck("zero shift", setCorr)
 	u.dispCheck = widget.NewCheck("sample displacement", setCorr)
+	// Automatic: the data choose the model; unticked, the model the
+	// data chose last becomes the fixed starting point.
+	u.autoCheck = widget.NewCheck("chosen from the data", func(on bool) {
+		if u.refreshing {
+			return
+		}
+		c := refine.DefaultCorrections
+		if !on {
+			c = refine.Zero
+			if sol := u.m.Solution(); sol != nil && sol.Refined != nil {
+				c = sol.Refined.Corrections
+			}
+		}
+		u.m.Change(func(s *analysis.Settings) { s.Corrections = &c })
+		u.syncFields()
+		u.edited()
+	})
 	u.radiusEntry = widget.NewEntry()
 	u.radiusEntry.OnSubmitted = func(t string) {
 		r, err := strconv.ParseFloat(strings.TrimSpace(t), 64)
@@ -482,7 +499,7 @@ func (u *ui) refineStep() fyne.CanvasObject {
 		u.resTable.SetColumnWidth(i, w)
 	}
 	form := widget.NewForm(
-		widget.NewFormItem("Refine", container.NewHBox(u.zeroCheck, u.dispCheck)),
+		widget.NewFormItem("Corrections", container.NewHBox(u.autoCheck, u.zeroCheck, u.dispCheck)),
 		widget.NewFormItem("Goniometer radius (mm)", u.radiusEntry),
 		widget.NewFormItem("Scale esds by χ²_red", u.scalingSel),
 		widget.NewFormItem("Internal standard", u.standardEntry),

@@ -62,6 +62,7 @@ type ui struct {
 	searchLabel *widget.Label
 
 	zeroCheck, dispCheck *widget.Check
+	autoCheck            *widget.Check
 	radiusEntry          *widget.Entry
 	standardEntry        *widget.Entry
 	scalingSel           *widget.Select
@@ -378,7 +379,23 @@ func (u *ui) refreshAll() {
 	u.resTable.Refresh()
 	u.paramsText.SetText(u.paramsSummary())
 	u.contentsText.SetText(u.contentsSummary())
+	u.showChosenCorrections()
 	u.updateButtons()
+}
+
+// showChosenCorrections ticks, while the data choose the corrections, the
+// boxes of the model they chose for the selected cell. The caller holds
+// u.refreshing.
+func (u *ui) showChosenCorrections() {
+	if !u.autoCheck.Checked {
+		return
+	}
+	var c refine.Corrections
+	if sol := u.m.Solution(); sol != nil && sol.Refined != nil {
+		c = sol.Refined.Corrections
+	}
+	u.zeroCheck.SetChecked(c.Has(refine.Zero))
+	u.dispCheck.SetChecked(c.Has(refine.Displacement))
 }
 
 // syncFields sets the entry fields from the settings (after undo).
@@ -386,12 +403,22 @@ func (u *ui) syncFields() {
 	u.refreshing = true
 	defer func() { u.refreshing = false }()
 	s := u.m.Settings.Resolved(u.m.Scan())
-	c := refine.Zero
+	c := refine.DefaultCorrections
 	if s.Corrections != nil {
 		c = *s.Corrections
 	}
-	u.zeroCheck.SetChecked(c.Has(refine.Zero))
-	u.dispCheck.SetChecked(c.Has(refine.Displacement))
+	auto := c.Has(refine.Auto)
+	u.autoCheck.SetChecked(auto)
+	if auto {
+		u.zeroCheck.Disable()
+		u.dispCheck.Disable()
+		u.showChosenCorrections()
+	} else {
+		u.zeroCheck.Enable()
+		u.dispCheck.Enable()
+		u.zeroCheck.SetChecked(c.Has(refine.Zero))
+		u.dispCheck.SetChecked(c.Has(refine.Displacement))
+	}
 	u.radiusEntry.SetText(strconv.FormatFloat(s.Radius, 'g', -1, 64))
 	u.scalingSel.SetSelected(s.Scaling.String())
 	u.standardEntry.SetText("")

@@ -29,6 +29,12 @@ const (
 // None is the empty set of corrections.
 const None Corrections = 0
 
+// Auto asks for the corrections to be chosen from the data (see
+// Options.Corrections and Selection): the models of none, zero shift,
+// displacement and both are compared, and with Transparency in the set
+// also each of them with transparency added.
+const Auto Corrections = 1 << 7
+
 // corrNames lists the corrections in parameter order.
 var corrNames = []struct {
 	c          Corrections
@@ -56,6 +62,9 @@ func (s Corrections) Count() int {
 // or "none".
 func (s Corrections) String() string {
 	var w []string
+	if s.Has(Auto) {
+		w = append(w, "auto")
+	}
 	for _, x := range corrNames {
 		if s.Has(x.c) {
 			w = append(w, x.name)
@@ -68,10 +77,15 @@ func (s Corrections) String() string {
 }
 
 // ParseCorrections reads corrections named as String prints them, joined
-// by "+" or ",": zero, displacement, transparency, or none.
+// by "+" or ",": zero, displacement, transparency, none, or auto (chosen
+// from the data; "auto+transparency" lets the choice add transparency).
 func ParseCorrections(text string) (Corrections, error) {
 	var s Corrections
 	for _, w := range strings.FieldsFunc(strings.ToLower(text), func(r rune) bool { return r == '+' || r == ',' || r == ' ' }) {
+		if w == "auto" {
+			s |= Auto
+			continue
+		}
 		found := false
 		for _, x := range corrNames {
 			if w == x.name {
@@ -80,7 +94,7 @@ func ParseCorrections(text string) (Corrections, error) {
 			}
 		}
 		if !found && w != "none" {
-			return 0, fmt.Errorf("unknown correction %q (want zero, displacement, transparency or none, joined by +)", w)
+			return 0, fmt.Errorf("unknown correction %q (want auto, zero, displacement, transparency or none, joined by +)", w)
 		}
 	}
 	return s, nil

@@ -18,6 +18,10 @@ const DefaultRadius = 240.0
 // practice).
 const DefaultFlagLimit = 3.0
 
+// DefaultCorrections are the corrections of a refinement when the user
+// names none: chosen from the data (see Selection).
+const DefaultCorrections = Auto
+
 // Options control a refinement. The zero value of every field means its
 // documented default.
 type Options struct {
@@ -26,7 +30,9 @@ type Options struct {
 	Wavelength float64
 	// Corrections are the instrument corrections refined with the cell
 	// (or, with a Standard, fixed by the standard's lines). The zero
-	// value refines none.
+	// value refines none; Auto chooses them from the data (see
+	// Selection), and with a Standard means zero shift and
+	// displacement.
 	Corrections Corrections
 	// Radius is the goniometer radius R in mm. Zero means DefaultRadius.
 	Radius float64

@@ -17,6 +17,9 @@ import (
 // context cancels the work.
 func Refine(ctx context.Context, c cell.Cell, obs []Observation, opt Options) (*Result, error) {
 	opt = opt.withDefaults()
+	if opt.Corrections.Has(Auto) {
+		return refineAuto(ctx, c, obs, opt)
+	}
 	if !(opt.Wavelength > 0) || math.IsInf(opt.Wavelength, 0) {
 		return nil, fmt.Errorf("refine: %w: wavelength %g Å", ErrOptions, opt.Wavelength)
 	}
@@ -236,6 +239,14 @@ func corrIndex(name string) int {
 	return -1
 }
 
+// inseparable is the |ρ| between a cell parameter and a correction above
+// which the data are said not to separate them (common practice).
+const inseparable = 0.99
+
+// zeroDisplacementNote starts the warning that the zero shift and the
+// displacement cannot be told apart.
+const zeroDisplacementNote = "zero shift and displacement correlate strongly"
+
 // correlationWarnings names pairs of parameters that correlate strongly.
 func correlationWarnings(res *Result) []string {
 	var out []string
@@ -247,7 +258,11 @@ func correlationWarnings(res *Result) []string {
 			}
 			a, b := res.Params[i].Name, res.Params[j].Name
 			if a == "zero" && b == "displacement" {
-				out = append(out, fmt.Sprintf("zero shift and displacement correlate strongly (ρ = %.3f): the lines span too little of cos θ to tell them apart; refine one of them, or add an internal standard", rho))
+				out = append(out, fmt.Sprintf(zeroDisplacementNote+" (ρ = %.3f): the lines span too little of cos θ to tell them apart; refine one of them, or add an internal standard", rho))
+				continue
+			}
+			if math.Abs(rho) > inseparable && corrIndex(a) < 0 && corrIndex(b) >= 0 {
+				out = append(out, fmt.Sprintf("the data cannot separate the cell from the %s correction (ρ(%s, %s) = %.3f): the esds are large for that reason; an internal standard (for example silicon) mixed into the sample fixes the corrections independently", b, a, b, rho))
 				continue
 			}
 			out = append(out, fmt.Sprintf("%s and %s correlate strongly (ρ = %.3f)", a, b, rho))

@@ -65,6 +65,10 @@ type Result struct {
 	Residuals []Residual // every line of the unknown phase, excluded ones too
 	Flagged   int        // fitted lines with |Δ/σ| above the limit
 
+	// Selection says how the corrections were chosen, when Options asked
+	// for them to be chosen from the data (Auto); nil otherwise.
+	Selection *Selection
+
 	// StandardFit describes the internal standard's fit, when one was
 	// used.
 	StandardFit *StandardFit

@@ -71,7 +71,7 @@ func fitStandard(ctx context.Context, opt Options, obs []Observation, idx []int)
 			fitted = append(fitted, i)
 		}
 	}
-	set := opt.Corrections
+	set := opt.Corrections.forStandard()
 	if len(fitted) < set.Count() {
 		return nil, shifts{}, nil, fmt.Errorf("refine: standard %s: %d lines for %d corrections (%s): %w", st.Name, len(fitted), set.Count(), set, ErrTooFew)
 	}

@@ -292,7 +292,42 @@ type Refined struct {
 	Residuals       []Residual         `json:"residuals"`
 	Flagged         int                `json:"flagged"`
 	Standard        string             `json:"standard,omitempty"`
-	Warnings        []string           `json:"warnings,omitempty"`
+	// Selection says how the corrections were chosen from the data;
+	// absent when the user fixed them.
+	Selection *Selection `json:"correction_choice,omitempty"`
+	Warnings  []string   `json:"warnings,omitempty"`
+}
+
+// Selection is the choice of the correction model.
+type Selection struct {
+	Criterion string     `json:"criterion"`
+	Chosen    string     `json:"chosen"`
+	Reason    string     `json:"reason"`
+	Widening  float64    `json:"esd_widening"`
+	Models    []ModelFit `json:"models"`
+}
+
+// ModelFit is one correction model compared.
+type ModelFit struct {
+	Corrections string  `json:"corrections"`
+	Params      int     `json:"parameters,omitempty"`
+	Chi2        float64 `json:"chi2,omitempty"`
+	DOF         int     `json:"degrees_of_freedom,omitempty"`
+	BIC         float64 `json:"bic,omitempty"`
+	Weight      float64 `json:"weight"`
+	Error       string  `json:"error,omitempty"`
+}
+
+// NewSelection converts a correction-model choice.
+func NewSelection(s *refine.Selection) *Selection {
+	if s == nil {
+		return nil
+	}
+	j := &Selection{Criterion: s.Criterion, Chosen: s.Chosen.String(), Reason: s.Reason(), Widening: s.Widening}
+	for _, m := range s.Models {
+		j.Models = append(j.Models, ModelFit{Corrections: m.Corrections.String(), Params: m.Params, Chi2: m.Chi2, DOF: m.DOF, BIC: m.BIC, Weight: m.Weight, Error: m.Err})
+	}
+	return j
 }
 
 // NewRefined converts a refinement result.
@@ -300,7 +335,7 @@ func NewRefined(r *refine.Result) Refined {
 	j := Refined{
 		Corrections: r.Corrections, Radius: r.Radius, Chi2Reduced: r.Chi2Reduced, Fitted: r.Fitted, DOF: r.DOF,
 		Scaled: r.Scaled, Scaling: r.Scaling, Correlation: r.Correlation, Flagged: r.Flagged, Warnings: r.Warnings,
-		Params: []Param{}, Residuals: []Residual{},
+		Params: []Param{}, Residuals: []Residual{}, Selection: NewSelection(r.Selection),
 	}
 	_, j.ZeroESD = r.Zero()
 	if r.Corrections.Has(refine.Displacement) {

@@ -215,6 +215,11 @@ func correctionsText(a *analysis.Analysis) string {
 	if r.StandardFit != nil {
 		s += fmt.Sprintf(", fixed by the internal standard %s (%d lines)", r.StandardFit.Standard.Name, r.StandardFit.Fitted)
 	}
+	if r.Selection != nil {
+		s += "; " + r.Selection.Reason()
+	} else if r.StandardFit == nil {
+		s += "; fixed by the user"
+	}
 	return s
 }
 

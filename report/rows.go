@@ -85,6 +85,21 @@ func RefinementRows(r *refine.Result) []Row {
 		scaled = "esds multiplied by χ²_red"
 	}
 	rows = append(rows, Row{"fit", fmt.Sprintf("%d lines, %d degrees of freedom, χ²_red = %.3f (%s; convention: %s)", r.Fitted, r.DOF, r.Chi2Reduced, scaled, r.Scaling)})
+	switch {
+	case r.Selection != nil:
+		rows = append(rows, Row{"corrections", r.Selection.Reason()})
+		var ms []string
+		for _, m := range r.Selection.Models {
+			if m.Err != "" {
+				ms = append(ms, fmt.Sprintf("%s not refined", m.Corrections))
+				continue
+			}
+			ms = append(ms, fmt.Sprintf("%s %.1f (weight %.2f)", m.Corrections, m.BIC, m.Weight))
+		}
+		rows = append(rows, Row{"models, " + r.Selection.Criterion, strings.Join(ms, "; ")})
+	case r.StandardFit == nil:
+		rows = append(rows, Row{"corrections", r.Corrections.String() + ", fixed by the user"})
+	}
 	if r.Corrections.Has(refine.Displacement) || r.Corrections.Has(refine.Transparency) {
 		rows = append(rows, Row{"radius", ftoa(r.Radius) + " mm (goniometer)"})
 	}

@@ -127,8 +127,8 @@ var options = []option{
 	{name: "tolerance", arg: "D", in: analysisCommands, def: ftoa(cell.MatchTolerance),
 		help: "smallest window within which a calculated line indexes an observed one, degrees 2θ",
 		set:  floatOpt(func(r *request) *float64 { return &r.settings.Tolerance }, positive, "a positive window in degrees")},
-	{name: "corrections", arg: "LIST", in: analysisCommands, def: "zero",
-		help: "instrument corrections refined with the cell: zero, displacement, transparency or none, joined by +",
+	{name: "corrections", arg: "LIST", in: analysisCommands, def: refine.DefaultCorrections.String(),
+		help: "instrument corrections refined with the cell: auto (the model of lowest BIC among none, zero, displacement and zero+displacement, the esds widened by the uncertainty of that choice; auto+transparency adds transparency to the models), or a fixed set of zero, displacement, transparency or none, joined by +",
 		set: func(r *request, v string) error {
 			c, err := refine.ParseCorrections(v)
 			if err != nil {

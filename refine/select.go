@@ -1,0 +1,274 @@
+package refine
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"strings"
+
+	"reticle/cell"
+)
+
+// A ModelFit is one correction model compared by a Selection.
+type ModelFit struct {
+	Corrections Corrections
+	Params      int     // refined parameters: free cell parameters and corrections
+	Chi2        float64 // Σ (Δ/σ)² with the lines' own esds
+	DOF         int
+	// BIC is Schwarz's criterion for a least-squares fit with known
+	// weights, χ² + k·ln n (n lines, k parameters); lower is better.
+	BIC float64
+	// Weight is the model's share exp(−ΔBIC/2), normalised over the
+	// models compared: the approximate probability that it is the best
+	// of them.
+	Weight float64
+	Err    string // why the model could not be refined; empty when it was
+}
+
+// A Selection records how the corrections were chosen from the data.
+//
+// Every model is refined by least squares; the one of lowest BIC
+// (Schwarz, Ann. Stat. 6 (1978) 461) is chosen. The choice itself is
+// uncertain when several models are close in BIC, and the cell of the
+// chosen model alone would then claim too small an esd: the covariance of
+// the cell is widened by the spread of the models' cells about the chosen
+// one, Σ wᵢ [Cᵢ + (pᵢ − p)(pᵢ − p)ᵀ], with wᵢ the BIC weights — the
+// unconditional variance of model averaging (Buckland, Burnham &
+// Augustin, Biometrics 53 (1997) 603; from memory). When one model
+// dominates, as with strong data, the widening vanishes.
+type Selection struct {
+	Criterion string // "BIC"
+	Models    []ModelFit
+	Chosen    Corrections
+	// Widening is the factor by which the model choice multiplied the
+	// largest esd of the cell's parameters (1: none).
+	Widening float64
+}
+
+// Reason says in one sentence which model was chosen and why.
+func (s *Selection) Reason() string {
+	var chosen, next *ModelFit
+	for i := range s.Models {
+		m := &s.Models[i]
+		if m.Err != "" {
+			continue
+		}
+		if m.Corrections == s.Chosen {
+			chosen = m
+		} else if next == nil || m.BIC < next.BIC {
+			next = m
+		}
+	}
+	if chosen == nil {
+		return "no correction model could be refined"
+	}
+	txt := fmt.Sprintf("%s, chosen from the data: lowest %s of %d models", s.Chosen, s.Criterion, s.refined())
+	if next != nil {
+		txt += fmt.Sprintf(" (%.1f below %s; weight %.2f)", next.BIC-chosen.BIC, next.Corrections, chosen.Weight)
+	}
+	if s.Widening > 1.005 {
+		txt += fmt.Sprintf("; the esds include the uncertainty of the choice (×%.2f)", s.Widening)
+	}
+	return txt
+}
+
+// Table lists the models compared, one per line.
+func (s *Selection) Table() []string {
+	var out []string
+	for _, m := range s.Models {
+		if m.Err != "" {
+			out = append(out, fmt.Sprintf("%-26s not refined: %s", m.Corrections, m.Err))
+			continue
+		}
+		mark := ""
+		if m.Corrections == s.Chosen {
+			mark = "  ← chosen"
+		}
+		out = append(out, fmt.Sprintf("%-26s χ² %9.2f  ν %3d  %s %9.2f  weight %.3f%s", m.Corrections, m.Chi2, m.DOF, s.Criterion, m.BIC, m.Weight, mark))
+	}
+	return out
+}
+
+func (s *Selection) refined() int {
+	n := 0
+	for _, m := range s.Models {
+		if m.Err == "" {
+			n++
+		}
+	}
+	return n
+}
+
+// models returns the correction models compared for the set asked for:
+// none, zero, displacement and both, each also with transparency when the
+// set holds it.
+func (s Corrections) models() []Corrections {
+	base := []Corrections{None, Zero, Displacement, Zero | Displacement}
+	if !s.Has(Transparency) {
+		return base
+	}
+	out := base
+	for _, b := range base {
+		out = append(out, b|Transparency)
+	}
+	return out
+}
+
+// forStandard returns the corrections an internal standard fixes: the set
+// itself, or for Auto the set a standard measures best (zero shift and
+// displacement, common practice) with transparency when asked for.
+func (s Corrections) forStandard() Corrections {
+	if !s.Has(Auto) {
+		return s
+	}
+	return Zero | Displacement | s&Transparency
+}
+
+// refineAuto refines the cell under every model of opt.Corrections (which
+// holds Auto) and returns the chosen one, its covariance widened as
+// Selection says.
+func refineAuto(ctx context.Context, c cell.Cell, obs []Observation, opt Options) (*Result, error) {
+	if opt.Standard != nil {
+		// The standard's lines fix the corrections; the set is the
+		// one that an internal standard measures best (common
+		// practice: zero shift and displacement).
+		opt.Corrections = opt.Corrections.forStandard()
+		return Refine(ctx, c, obs, opt)
+	}
+	sel := &Selection{Criterion: "BIC"}
+	var fits []*Result
+	var firstErr error
+	best := -1
+	for _, m := range opt.Corrections.models() {
+		o := opt
+		o.Corrections = m
+		r, err := Refine(ctx, c, obs, o)
+		mf := ModelFit{Corrections: m}
+		if err == nil && r.DOF < 1 {
+			err = fmt.Errorf("%d lines leave no degree of freedom", r.Fitted)
+		}
+		if err != nil {
+			if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
+				return nil, err
+			}
+			if firstErr == nil {
+				firstErr = err
+			}
+			mf.Err = err.Error()
+			sel.Models = append(sel.Models, mf)
+			fits = append(fits, nil)
+			continue
+		}
+		mf.Params, mf.Chi2, mf.DOF = len(r.Params), r.Chi2, r.DOF
+		mf.BIC = r.Chi2 + float64(mf.Params)*math.Log(float64(r.Fitted))
+		sel.Models = append(sel.Models, mf)
+		fits = append(fits, r)
+		if best < 0 || mf.BIC < sel.Models[best].BIC {
+			best = len(fits) - 1
+		}
+	}
+	if best < 0 {
+		return nil, firstErr
+	}
+	total := 0.0
+	for i := range sel.Models {
+		if fits[i] != nil {
+			sel.Models[i].Weight = math.Exp(-(sel.Models[i].BIC - sel.Models[best].BIC) / 2)
+			total += sel.Models[i].Weight
+		}
+	}
+	for i := range sel.Models {
+		sel.Models[i].Weight /= total
+	}
+	res := fits[best]
+	sel.Chosen = res.Corrections
+	sel.Widening = widen(res, fits, sel.Models)
+	res.Selection = sel
+	// The chosen model's correlation warnings stand, except the advice to
+	// refine only one of zero shift and displacement: the choice has
+	// weighed that already, and its esds include it.
+	kept := res.Warnings[:0]
+	for _, w := range res.Warnings {
+		if !strings.HasPrefix(w, zeroDisplacementNote) {
+			kept = append(kept, w)
+		}
+	}
+	res.Warnings = kept
+	return res, nil
+}
+
+// widen replaces the covariance of res (the chosen fit) by the weighted
+// average over the fits of their covariance plus the outer product of
+// their parameters' distance from res, in the union of all parameters,
+// and returns the factor by which the largest cell esd grew.
+func widen(res *Result, fits []*Result, models []ModelFit) float64 {
+	// Union coordinates: the chosen fit's parameter names, in order.
+	names := make([]string, len(res.Params))
+	for i, p := range res.Params {
+		names[i] = p.Name
+	}
+	np := len(names)
+	pc := make([][]float64, np)
+	for i := range pc {
+		pc[i] = make([]float64, np)
+	}
+	var c6 cell.Covariance
+	p6 := res.Cell.Params()
+	for k, f := range fits {
+		w := models[k].Weight
+		if f == nil || w == 0 {
+			continue
+		}
+		// Values and covariance of f in the chosen fit's parameters; a
+		// correction f does not refine is held at 0 with no variance.
+		val := make([]float64, np)
+		at := make([]int, np)
+		for i, n := range names {
+			at[i] = -1
+			for j, q := range f.Params {
+				if q.Name == n {
+					val[i], at[i] = q.Value, j
+				}
+			}
+		}
+		for i := 0; i < np; i++ {
+			for j := 0; j < np; j++ {
+				var cij float64
+				if at[i] >= 0 && at[j] >= 0 {
+					cij = f.ParamCovariance[at[i]][at[j]]
+				}
+				pc[i][j] += w * (cij + (val[i]-res.Params[i].Value)*(val[j]-res.Params[j].Value))
+			}
+		}
+		q6 := f.Cell.Params()
+		for i := 0; i < 6; i++ {
+			for j := 0; j < 6; j++ {
+				c6[i][j] += w * (f.Covariance[i][j] + (q6[i]-p6[i])*(q6[j]-p6[j]))
+			}
+		}
+	}
+	before := maxESD(res.ESD)
+	res.Covariance = c6
+	res.ESD = c6.ESD()
+	res.VolumeESD = res.Cell.VolumeESD(c6)
+	res.ParamCovariance = pc
+	for i := range res.Params {
+		res.Params[i].ESD = math.Sqrt(pc[i][i])
+		for j := range res.Params {
+			res.Correlation[i][j] = pc[i][j] / math.Sqrt(pc[i][i]*pc[j][j])
+		}
+		if ci := corrIndex(names[i]); ci >= 0 {
+			res.shiftESDs[ci] = res.Params[i].ESD
+		}
+	}
+	if before == 0 {
+		return 1
+	}
+	return maxESD(res.ESD) / before
+}
+
+// maxESD is the largest esd of the cell's edges, Å.
+func maxESD(e cell.ESD) float64 {
+	return math.Max(e.A, math.Max(e.B, e.C))
+}
