@@ -2,8 +2,10 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"time"
@@ -29,6 +31,19 @@ func reportAt(args []string, stdout, stderr io.Writer, date time.Time) int {
 	pp, err := report.ParsePaper(r.paper)
 	if err != nil {
 		fmt.Fprintf(stderr, "reticle report: --paper: %v\n", err)
+		return 2
+	}
+	if fi, err := os.Stat(r.out); errors.Is(err, fs.ErrNotExist) {
+		if err := os.MkdirAll(r.out, 0o755); err != nil {
+			fmt.Fprintf(stderr, "reticle report: --out %s: cannot create the folder: %v; name a folder you can write to\n", r.out, err)
+			return 1
+		}
+		fmt.Fprintf(stderr, "reticle report: created the folder %s\n", r.out)
+	} else if err != nil {
+		fmt.Fprintf(stderr, "reticle report: --out %s: %v; name a folder you can write to\n", r.out, err)
+		return 1
+	} else if !fi.IsDir() {
+		fmt.Fprintf(stderr, "reticle report: --out %s is a file, not a folder; name a folder for the four records\n", r.out)
 		return 2
 	}
 	settings := r.settings

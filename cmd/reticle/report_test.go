@@ -75,3 +75,26 @@ func TestReportCommand(t *testing.T) {
 		}
 	}
 }
+
+// TestReportMakesFolder: --out naming a folder that does not exist
+// creates it (and says so); naming a file is refused with a clear
+// message.
+func TestReportMakesFolder(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "new", "folder")
+	code, _, errs := runCmd("report", "--out", dir, demo)
+	if code != 0 || !strings.Contains(errs, "created the folder") {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	for _, ext := range []string{".pdf", ".cif", ".csv", ".json"} {
+		if _, err := os.Stat(filepath.Join(dir, "kiln-trial-07"+ext)); err != nil {
+			t.Error(err)
+		}
+	}
+	file := filepath.Join(t.TempDir(), "plain")
+	if err := os.WriteFile(file, nil, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if code, _, errs := runCmd("report", "--out", file, demo); code == 0 || !strings.Contains(errs, "is a file, not a folder") {
+		t.Fatalf("--out a file: exit %d: %s", code, errs)
+	}
+}
