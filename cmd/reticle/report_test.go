@@ -65,7 +65,7 @@ func TestReportCommand(t *testing.T) {
 		{[]string{"report", "--out", dir}, 2, "no scan file"},
 		{[]string{"report", "--out", dir, "--session", jsonPath, demo}, 2, "not both"},
 		{[]string{"report", "--out", dir, "--session", demo}, 1, "not JSON"},
-		{[]string{"report", "--out", filepath.Join(dir, "missing"), "--force", demo}, 1, "no such file"},
+		{[]string{"report", "--out", filepath.Join(dir, "kiln-07.json"), "--force", demo}, 2, "is a file, not a folder"},
 		{[]string{"report", "--out", dir2, "--force", "--solution", "99", demo}, 1, "no candidate cell 99"},
 		{[]string{"report", "--out", dir2, "--solution", "-1", demo}, 2, "--solution"},
 	} {
