@@ -75,6 +75,10 @@ func refLines(md *model, cs, refs []*component) []refLine {
 // previous trial (the trials move in small steps), and returns each
 // line's χ² and degrees of freedom.
 func refChi2(md *model, refs []refLine) ([]float64, []int) {
+	// The trials' χ² are compared against a critical value of about 11
+	// (calLevel): 0.01 is precision enough.
+	md.chiTol = 0.01
+	defer func() { md.chiTol = 0 }()
 	chi := make([]float64, len(refs))
 	dof := make([]int, len(refs))
 	for k, r := range refs {

@@ -26,6 +26,9 @@ type model struct {
 	x, y, w, bg []float64 // data, weights 1/σ², background
 	rad         Radiation
 	tail        float64 // ratio of the Lorentzian to the Gaussian width (see tailedVoigt); 0 means 1
+	// chiTol, when set, ends a fit once χ² falls by less (see
+	// lsqProblem); the calibration's trial fits compare χ² to about 0.01.
+	chiTol float64
 }
 
 // tailRatio returns the model's tail ratio τ (1 unless set).
@@ -190,7 +193,7 @@ func (md *model) fitGroup(cs []*component, lo, hi int, base []float64) float64 {
 			}
 		}
 	}
-	prob := &lsqProblem{y: y, w: wts, eval: eval, lo: lob, hi: hib, free: free}
+	prob := &lsqProblem{y: y, w: wts, eval: eval, lo: lob, hi: hib, free: free, chiTol: md.chiTol}
 	res, err := levenbergMarquardt(prob, p0, 40)
 	if err != nil {
 		for _, c := range cs {

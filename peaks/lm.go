@@ -15,6 +15,9 @@ type lsqProblem struct {
 	eval   func(p, m, jac []float64)
 	lo, hi []float64 // bounds of each parameter (±Inf when free)
 	free   []bool    // parameters to vary
+	// chiTol is the decrease of χ² below which the search ends; zero
+	// means 1e-4, which moves no parameter by more than 1 % of its esd.
+	chiTol float64
 }
 
 // lsqResult holds the solution and its covariance.
@@ -97,33 +100,39 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 	cur := chi2(p, m)
 	lambda := 1e-3
 	a := mat.NewSymDense(k, nil)
-	damped := mat.NewSymDense(k, nil)
+	damped := make([]float64, k*k)
+	chol := make([]float64, k*k)
 	g := mat.NewVecDense(k, nil)
 	trial := make([]float64, np)
 	mt := make([]float64, n)
-	var chol mat.Cholesky
 	delta := mat.NewVecDense(k, nil)
+	tol := prob.chiTol
+	if tol == 0 {
+		tol = 1e-4
+	}
 	iter := 0
 	for done := false; iter < maxIter && !done; iter++ {
 		prob.eval(p, m, jac)
 		normal(prob, idx, np, m, jac, a, g)
 		improved := false
 		for tries := 0; tries < 10; tries++ {
-			damped.CopySym(a)
 			for r := 0; r < k; r++ {
+				for c := 0; c < k; c++ {
+					damped[r*k+c] = a.At(r, c)
+				}
 				d := a.At(r, r)
 				if d == 0 {
 					d = 1
 				}
-				damped.SetSym(r, r, d*(1+lambda))
+				damped[r*k+r] = d * (1 + lambda)
 			}
-			if !chol.Factorize(damped) || chol.SolveVecTo(delta, g) != nil {
+			if !cholSolve(damped, k, g.RawVector().Data, delta.RawVector().Data, chol) {
 				lambda *= 10
 				continue
 			}
 			// Predicted decrease of χ² for this step (δ·g to first order);
 			// at the minimum it is negligible and the search ends.
-			if pred := mat.Dot(delta, g); pred < 1e-6 {
+			if pred := mat.Dot(delta, g); pred < tol*1e-2 {
 				done = true
 				improved = true
 				break
@@ -142,7 +151,7 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 				improved = true
 				// Δχ² of 1e-4 moves no parameter by more than 1 % of
 				// its esd.
-				done = rel < 1e-12 || dec < 1e-4 || smallStep(delta, a)
+				done = rel < 1e-12 || dec < tol || smallStep(delta, a)
 				break
 			}
 			lambda *= 10
@@ -184,11 +193,12 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 			ak.SetSym(r, c, a.At(keep[r], keep[c])*sc[r]*sc[c])
 		}
 	}
-	if !chol.Factorize(ak) {
+	var fac mat.Cholesky
+	if !fac.Factorize(ak) {
 		return nil, errSingular
 	}
 	var inv mat.SymDense
-	if err := chol.InverseTo(&inv); err != nil {
+	if err := fac.InverseTo(&inv); err != nil {
 		return nil, errSingular
 	}
 	cov := mat.NewSymDense(np, nil)
@@ -208,6 +218,51 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 func smallStep(delta *mat.VecDense, a *mat.SymDense) bool {
 	for r := 0; r < delta.Len(); r++ {
 		if math.Abs(delta.AtVec(r))*math.Sqrt(a.At(r, r)) > 1e-3 {
+			return false
+		}
+	}
+	return true
+}
+
+// cholSolve solves A·x = b for the symmetric positive-definite k×k matrix
+// A (row-major in a) by its Cholesky factor, made in l (k·k scratch). It
+// reports false when A is not numerically positive definite. The damped
+// normal matrices of the line fits are small and well scaled; this
+// avoids the condition estimate that a general factorisation makes.
+func cholSolve(a []float64, k int, b, x, l []float64) bool {
+	for i := 0; i < k; i++ {
+		for j := 0; j <= i; j++ {
+			s := a[i*k+j]
+			for q := 0; q < j; q++ {
+				s -= l[i*k+q] * l[j*k+q]
+			}
+			if i == j {
+				if !(s > 1e-300*math.Abs(a[i*k+i])) || !(s > 0) {
+					return false
+				}
+				l[i*k+i] = math.Sqrt(s)
+			} else {
+				l[i*k+j] = s / l[j*k+j]
+			}
+		}
+	}
+	// L·y = b, then Lᵀ·x = y.
+	for i := 0; i < k; i++ {
+		s := b[i]
+		for q := 0; q < i; q++ {
+			s -= l[i*k+q] * x[q]
+		}
+		x[i] = s / l[i*k+i]
+	}
+	for i := k - 1; i >= 0; i-- {
+		s := x[i]
+		for q := i + 1; q < k; q++ {
+			s -= l[q*k+i] * x[q]
+		}
+		x[i] = s / l[i*k+i]
+	}
+	for _, v := range x[:k] {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
 			return false
 		}
 	}
