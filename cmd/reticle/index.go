@@ -22,12 +22,18 @@ func cmdIndexRun(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintln(stderr, "reticle index: no scan file given")
 		return 2
 	}
+	files = expandInputs(files)
+	as := make([]*analysis.Analysis, len(files))
+	rows := make([]report.SummaryRow, len(files))
+	forEach(len(files), r.jobs, stderr, "indexing", func(i int) {
+		a, sha, err := analyse(files[i], r.settings)
+		as[i], rows[i] = a, report.NewSummaryRow(files[i], sha, a, err)
+	})
 	var docs []*report.Document
 	status := 0
-	for _, path := range files {
-		a, err := analysis.Open(context.Background(), path, r.settings, nil)
-		if err != nil {
-			fmt.Fprintf(stderr, "reticle index: %v\n", err)
+	for i, a := range as {
+		if a == nil {
+			fmt.Fprintf(stderr, "reticle index: %s\n", rows[i].Error)
 			status = 1
 			continue
 		}
@@ -43,7 +49,45 @@ func cmdIndexRun(args []string, stdout, stderr io.Writer) int {
 			return 1
 		}
 	}
+	if r.summary != "" {
+		written, err := writeSummary(r.summary, rows, r.force)
+		if err != nil {
+			fmt.Fprintf(stderr, "reticle index: %v\n", err)
+			return 1
+		}
+		for _, f := range written {
+			fmt.Fprintf(stderr, "reticle index: summary written to %s\n", f)
+		}
+	}
+	if status != 0 && len(files) > 1 {
+		fmt.Fprintf(stderr, "reticle index: %s\n", failedCount(rows))
+	}
 	return status
+}
+
+// analyse reads and analyses one scan; sha is the scan's SHA-256 when it
+// could be read.
+func analyse(path string, s analysis.Settings) (a *analysis.Analysis, sha string, err error) {
+	scan, err := analysis.Read(path, s)
+	if err != nil {
+		return nil, "", err
+	}
+	a, err = analysis.Run(context.Background(), scan, s, nil)
+	if err != nil {
+		return nil, scan.SHA256, err
+	}
+	return a, scan.SHA256, nil
+}
+
+// failedCount says how many scans of a batch failed.
+func failedCount(rows []report.SummaryRow) string {
+	n := 0
+	for _, r := range rows {
+		if r.Status == report.StatusFailed {
+			n++
+		}
+	}
+	return fmt.Sprintf("%d of %d scans failed", n, len(rows))
 }
 
 func printCandidates(w io.Writer, a *analysis.Analysis) {

@@ -4,6 +4,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"runtime"
 	"strconv"
 	"strings"
 
@@ -40,6 +41,8 @@ type request struct {
 	force    bool
 	session  string
 	solution int
+	jobs     int    // scans analysed at once
+	summary  string // base path of the batch summary table
 }
 
 // An option is one command-line option: its name, the placeholder of its
@@ -235,8 +238,21 @@ var options = []option{
 	{name: "session", arg: "FILE", in: cmdReport, def: "none",
 		help: "regenerate from a session file of the desktop program or an earlier report's JSON",
 		set:  func(r *request, v string) error { r.session = v; return nil }},
-	{name: "force", in: cmdReport,
-		help: "replace report files that exist (otherwise nothing is written)",
+	{name: "jobs", arg: "N", in: cmdIndex | cmdReport, def: "every core (" + strconv.Itoa(runtime.NumCPU()) + " here)",
+		help: "scans analysed at once",
+		set: func(r *request, v string) error {
+			n, err := strconv.Atoi(v)
+			if err != nil || n < 1 {
+				return fmt.Errorf("want a number of scans at once, 1 or more, got %q", v)
+			}
+			r.jobs = n
+			return nil
+		}},
+	{name: "summary", arg: "BASE", in: cmdIndex | cmdReport, def: "none for index; DIR/summary for report with several scans",
+		help: "write a table of every scan (file, SHA-256, status, cell with esds, figures of merit, corrections, warnings) as BASE.csv and BASE.json",
+		set:  func(r *request, v string) error { r.summary = v; return nil }},
+	{name: "force", in: cmdIndex | cmdReport,
+		help: "replace report or summary files that exist (otherwise nothing is written)",
 		set:  func(r *request, _ string) error { r.force = true; return nil }},
 	{name: "json", in: cmdPeaks | cmdIndex | cmdRefine | cmdContents,
 		help: "print a JSON document instead of text",
@@ -247,7 +263,7 @@ func ftoa(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 
 // parse reads the options of command c; errors name the option.
 func parse(c command, args []string, stderr io.Writer) (*request, []string, error) {
-	r := &request{}
+	r := &request{jobs: runtime.NumCPU()}
 	fs := flag.NewFlagSet(commandNames[c], flag.ContinueOnError)
 	fs.SetOutput(io.Discard)
 	for _, o := range options {

@@ -74,41 +74,72 @@ func reportAt(args []string, stdout, stderr io.Writer, date time.Time) int {
 		fmt.Fprintln(stderr, "reticle report: no scan file given")
 		return 2
 	}
-	status := 0
-	for _, path := range files {
+	files = expandInputs(files)
+	type outcome struct {
+		written report.Files
+		note    string // a warning printed before the files
+		err     error
+	}
+	outs := make([]outcome, len(files))
+	rows := make([]report.SummaryRow, len(files))
+	forEach(len(files), r.jobs, stderr, "reporting", func(i int) {
+		path := files[i]
+		o := &outs[i]
 		scan, err := analysis.Read(path, settings)
 		if err != nil {
-			fmt.Fprintf(stderr, "reticle report: %v\n", err)
-			status = 1
-			continue
+			o.err, rows[i] = err, report.NewSummaryRow(path, "", nil, err)
+			return
 		}
 		if wantSHA != "" && scan.SHA256 != wantSHA {
-			fmt.Fprintf(stderr, "reticle report: warning: %s has changed since the session was saved (SHA-256 %s, session %s)\n", path, scan.SHA256, wantSHA)
+			o.note = fmt.Sprintf("warning: %s has changed since the session was saved (SHA-256 %s, session %s)", path, scan.SHA256, wantSHA)
 		}
 		a, err := analysis.Run(context.Background(), scan, settings, nil)
-		if err != nil {
-			fmt.Fprintf(stderr, "reticle report: %v\n", err)
-			status = 1
-			continue
-		}
-		if chosen > 0 {
-			if err := a.Choose(chosen - 1); err != nil {
-				fmt.Fprintf(stderr, "reticle report: %s: %v\n", path, err)
-				status = 1
-				continue
+		if err == nil && chosen > 0 {
+			if err = a.Choose(chosen - 1); err != nil {
+				err = fmt.Errorf("%s: %w", path, err)
 			}
 		}
-		written, err := report.WriteAll(r.out, a, pp, date, r.force)
+		if err == nil {
+			o.written, err = report.WriteAll(r.out, a, pp, date, r.force)
+		}
 		if err != nil {
-			fmt.Fprintf(stderr, "reticle report: %v\n", err)
+			o.err, rows[i] = err, report.NewSummaryRow(path, scan.SHA256, nil, err)
+			return
+		}
+		rows[i] = report.NewSummaryRow(path, scan.SHA256, a, nil)
+	})
+	status := 0
+	for _, o := range outs {
+		if o.note != "" {
+			fmt.Fprintf(stderr, "reticle report: %s\n", o.note)
+		}
+		if o.err != nil {
+			fmt.Fprintf(stderr, "reticle report: %v\n", o.err)
 			status = 1
 			continue
 		}
-		for _, f := range []string{written.PDF, written.CIF, written.CSV, written.JSON} {
+		for _, f := range []string{o.written.PDF, o.written.CIF, o.written.CSV, o.written.JSON} {
 			if f != "" {
 				fmt.Fprintln(stdout, f)
 			}
 		}
+	}
+	base := r.summary
+	if base == "" && len(files) > 1 {
+		base = filepath.Join(r.out, "summary")
+	}
+	if base != "" {
+		written, err := writeSummary(base, rows, r.force)
+		if err != nil {
+			fmt.Fprintf(stderr, "reticle report: %v\n", err)
+			return 1
+		}
+		for _, f := range written {
+			fmt.Fprintf(stderr, "reticle report: summary written to %s\n", f)
+		}
+	}
+	if status != 0 && len(files) > 1 {
+		fmt.Fprintf(stderr, "reticle report: %s\n", failedCount(rows))
 	}
 	return status
 }

@@ -1,0 +1,117 @@
+package main
+
+import (
+	"bytes"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"sort"
+	"strings"
+	"sync"
+
+	"github.com/schollz/progressbar/v3"
+
+	"reticle/report"
+)
+
+// expandInputs turns the command line's inputs into scan files, in the
+// order given: a folder stands for the files in it (sorted by name, hidden
+// files and subfolders left out), a pattern with *, ? or [ for the files
+// it matches (sorted). An input that names nothing is kept, so that its
+// error is reported in its place.
+func expandInputs(args []string) []string {
+	var out []string
+	for _, a := range args {
+		if fi, err := os.Stat(a); err == nil && fi.IsDir() {
+			ents, err := os.ReadDir(a)
+			if err != nil {
+				out = append(out, a)
+				continue
+			}
+			for _, e := range ents {
+				if e.Type().IsRegular() && !strings.HasPrefix(e.Name(), ".") {
+					out = append(out, filepath.Join(a, e.Name()))
+				}
+			}
+			continue
+		} else if err == nil {
+			out = append(out, a)
+			continue
+		}
+		if strings.ContainsAny(a, "*?[") {
+			if ms, err := filepath.Glob(a); err == nil && len(ms) > 0 {
+				sort.Strings(ms)
+				out = append(out, ms...)
+				continue
+			}
+		}
+		out = append(out, a)
+	}
+	return out
+}
+
+// forEach calls work(i) for i in [0, n) on jobs goroutines and, when
+// stderr is a terminal and there is more than one item, shows a progress
+// bar there. Each work(i) writes only its own results, so the caller
+// prints them in input order afterwards.
+func forEach(n, jobs int, stderr io.Writer, label string, work func(i int)) {
+	jobs = max(1, min(jobs, n))
+	var bar *progressbar.ProgressBar
+	if f, ok := stderr.(*os.File); ok && n > 1 && isTerminal(f) {
+		bar = progressbar.NewOptions(n, progressbar.OptionSetWriter(f), progressbar.OptionSetDescription(label),
+			progressbar.OptionShowCount(), progressbar.OptionClearOnFinish())
+	}
+	next := make(chan int)
+	var wg sync.WaitGroup
+	for w := 0; w < jobs; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range next {
+				work(i)
+				if bar != nil {
+					bar.Add(1)
+				}
+			}
+		}()
+	}
+	for i := 0; i < n; i++ {
+		next <- i
+	}
+	close(next)
+	wg.Wait()
+	if bar != nil {
+		bar.Finish()
+	}
+}
+
+// isTerminal reports whether f is a character device (a terminal).
+func isTerminal(f *os.File) bool {
+	fi, err := f.Stat()
+	return err == nil && fi.Mode()&os.ModeCharDevice != 0
+}
+
+// writeSummary writes the summary table of a batch as base.csv and
+// base.json, replacing existing files only with force. It returns the
+// paths written.
+func writeSummary(base string, rows []report.SummaryRow, force bool) ([]string, error) {
+	var csvb, jsonb bytes.Buffer
+	if err := report.WriteSummaryCSV(&csvb, rows); err != nil {
+		return nil, err
+	}
+	if err := report.WriteSummaryJSON(&jsonb, rows); err != nil {
+		return nil, err
+	}
+	var written []string
+	for _, f := range []struct {
+		path string
+		data []byte
+	}{{base + ".csv", csvb.Bytes()}, {base + ".json", jsonb.Bytes()}} {
+		if err := report.SafeWrite(f.path, f.data, force); err != nil {
+			return written, fmt.Errorf("summary %s: %w", f.path, err)
+		}
+		written = append(written, f.path)
+	}
+	return written, nil
+}

@@ -1,0 +1,90 @@
+package main
+
+import (
+	"encoding/csv"
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// TestBatch: a folder of scans with one unreadable file, analysed two at
+// a time, is reported in input order whatever the scheduling; the bad
+// file is listed with its error, the exit status is 1, and the summary
+// table (CSV and JSON) holds every scan.
+func TestBatch(t *testing.T) {
+	in := t.TempDir()
+	demoData, err := os.ReadFile(demo)
+	if err != nil {
+		t.Fatal(err)
+	}
+	names := []string{"a-first.xy", "b-second.xy", "c-broken.xy", "d-fourth.xy"}
+	for _, n := range names {
+		data := demoData
+		if strings.Contains(n, "broken") {
+			data = []byte("not a scan\n")
+		}
+		if err := os.WriteFile(filepath.Join(in, n), data, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	out := filepath.Join(t.TempDir(), "reports")
+	code, stdout, errs := runCmd("report", "--jobs", "2", "--out", out, in)
+	if code != 1 || !strings.Contains(errs, "c-broken.xy") || !strings.Contains(errs, "1 of 4 scans failed") {
+		t.Fatalf("exit %d, stderr %q", code, errs)
+	}
+	// Records of the good scans, in input order.
+	var order []string
+	for _, l := range strings.Fields(stdout) {
+		if strings.HasSuffix(l, ".json") {
+			order = append(order, filepath.Base(l))
+		}
+	}
+	if strings.Join(order, " ") != "a-first.json b-second.json d-fourth.json" {
+		t.Errorf("records %v", order)
+	}
+	f, err := os.Open(filepath.Join(out, "summary.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	rows, err := csv.NewReader(f).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rows) != 5 || rows[0][0] != "file" {
+		t.Fatalf("summary rows %d: %v", len(rows), rows)
+	}
+	for i, n := range names {
+		r := rows[i+1]
+		want := "ok"
+		if strings.Contains(n, "broken") {
+			want = "failed"
+		}
+		if filepath.Base(r[0]) != n || r[2] != want {
+			t.Errorf("row %d: %v", i+1, r[:4])
+		}
+		if want == "ok" && !strings.HasPrefix(r[6], "cubic F a=8.08") {
+			t.Errorf("row %d cell %q", i+1, r[6])
+		}
+	}
+	raw, err := os.ReadFile(filepath.Join(out, "summary.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Scans []struct{ File, Status, Error string }
+	}
+	if err := json.Unmarshal(raw, &doc); err != nil || len(doc.Scans) != 4 || doc.Scans[2].Error == "" {
+		t.Errorf("summary JSON: %v %+v", err, doc)
+	}
+	// index takes the same inputs and writes the summary where asked.
+	base := filepath.Join(t.TempDir(), "day")
+	if code, _, errs := runCmd("index", "--jobs", "2", "--summary", base, filepath.Join(in, "*.xy")); code != 1 || !strings.Contains(errs, "summary written") {
+		t.Fatalf("index: exit %d, %q", code, errs)
+	}
+	if _, err := os.Stat(base + ".csv"); err != nil {
+		t.Error(err)
+	}
+}
