@@ -3,6 +3,7 @@ package peaks
 import (
 	"context"
 	"fmt"
+	"math"
 	"math/rand/v2"
 	"testing"
 )
@@ -42,16 +43,61 @@ func benchReadExtract(b *testing.B, n int) {
 
 // BenchmarkReadExtract times reading and extracting a whole scan.
 func BenchmarkReadExtract(b *testing.B) {
-	for _, n := range []int{10_000, 1_000_000} {
+	for _, n := range []int{5_000, 100_000, 1_000_000} {
 		b.Run(fmt.Sprintf("n=%d", n), func(b *testing.B) { benchReadExtract(b, n) })
 	}
 }
 
+// BenchmarkExtract times the extraction alone, on scans already read,
+// with allocations: the normal scan and one whose features are broad
+// compared with the step (100 + 50·sin(i/3000) counts, humps about 1°
+// wide on a 0.0001° step), whose cost must not grow with the points under
+// a feature.
+func BenchmarkExtract(b *testing.B) {
+	for _, n := range []int{5_000, 100_000, 1_000_000} {
+		s, err := Parse("bench.xy", benchScan(n))
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.Run(fmt.Sprintf("n=%d", n), func(b *testing.B) {
+			b.ReportAllocs()
+			for i := 0; i < b.N; i++ {
+				if _, err := Extract(context.Background(), s, Options{Radiation: cu}, nil); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+	s, err := Parse("humps.xy", humpScan(1_000_000))
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.Run("humps n=1000000", func(b *testing.B) {
+		b.ReportAllocs()
+		for i := 0; i < b.N; i++ {
+			if _, err := Extract(context.Background(), s, Options{Radiation: cu}, nil); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
+}
+
+// humpScan is n points from 10° in steps of 0.0001° with counts
+// 100 + ⌊50·sin(i/3000)⌋.
+func humpScan(n int) []byte {
+	var buf []byte
+	for i := 0; i < n; i++ {
+		buf = fmt.Appendf(buf, "%.5f %d\n", 10+float64(i)*1e-4, 100+int(50*math.Sin(float64(i)/3000)))
+	}
+	return buf
+}
+
 // BenchmarkRead times the text reader alone.
 func BenchmarkRead(b *testing.B) {
-	for _, n := range []int{10_000, 1_000_000} {
+	for _, n := range []int{5_000, 100_000, 1_000_000} {
 		data := benchScan(n)
 		b.Run(fmt.Sprintf("n=%d", n), func(b *testing.B) {
+			b.ReportAllocs()
 			b.SetBytes(int64(len(data)))
 			for i := 0; i < b.N; i++ {
 				if _, err := Parse("bench.xy", data); err != nil {

@@ -21,7 +21,8 @@ const (
 // metadata lines, then a block of rows with 2θ, intensity and an optional esd.
 func parseText(file string, data []byte) (*Scan, error) {
 	s := &Scan{Format: "text"}
-	var pts []point
+	// One point per line at most: sized once, the rows never move.
+	pts := make([]point, 0, bytes.Count(data, []byte{'\n'})+1)
 	var errs ErrorList
 	inData := false
 	var sep separator
