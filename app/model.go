@@ -49,9 +49,15 @@ func (m *Model) Open(ctx context.Context, path string, s analysis.Settings) erro
 	if err != nil {
 		return err
 	}
+	m.Opened(path, ext, s)
+	return nil
+}
+
+// Opened makes a scan read and extracted elsewhere (on a worker) the open
+// one, with its settings; the history is cleared.
+func (m *Model) Opened(path string, ext *analysis.Extraction, s analysis.Settings) {
 	m.Path, m.Ext, m.Settings = path, ext, s
 	m.A, m.Selected, m.undo, m.redo = nil, 0, nil, nil
-	return nil
 }
 
 // Scan returns the open scan, or nil.

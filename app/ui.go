@@ -198,12 +198,53 @@ func (u *ui) open(path string) {
 
 // openWith opens a scan with given settings; solution is the rank to
 // select after the analysis (0: the best).
+//
+// Reading and extraction run on a worker, with the progress bar and the
+// Stop button, so that a scan of a million points does not hold the
+// window; the scan open so far stays until the new one is ready.
 func (u *ui) openWith(path string, s analysis.Settings, solution int) {
-	u.setStatus("reading %s…", path)
-	if err := u.m.Open(context.Background(), path, s); err != nil {
-		u.showError("The scan could not be opened", err, "Check that the file is a two- or three-column export (2θ, counts, optional esd) or a powder CIF; the message names the line at fault.")
-		return
+	u.mu.Lock()
+	if u.cancel != nil {
+		u.cancel()
 	}
+	ctx, cancel := context.WithCancel(context.Background())
+	u.cancel = cancel
+	u.gen++
+	gen := u.gen
+	u.mu.Unlock()
+	u.setStatus("reading %s…", path)
+	u.progress.Set(0)
+	u.cancelBtn.Enable()
+	u.running.Add(1)
+	go func() {
+		defer u.running.Done()
+		ext, err := analysis.ReadExtract(ctx, path, s, func(stage analysis.Stage, done, total int) {
+			u.progress.Set(analysis.Fraction(stage, done, total))
+		})
+		fyne.DoAndWait(func() {
+			u.mu.Lock()
+			current := gen == u.gen
+			u.mu.Unlock()
+			if !current {
+				return
+			}
+			u.cancelBtn.Disable()
+			if err != nil {
+				if errors.Is(err, context.Canceled) {
+					u.setStatus("stopped reading %s; the scan shown is the one open before", path)
+					return
+				}
+				u.showError("The scan could not be opened", err, "Check that the file is a two- or three-column export (2θ, counts, optional esd) or a powder CIF; the message names the line at fault.")
+				return
+			}
+			u.m.Opened(path, ext, s)
+			u.opened(path, solution)
+		})
+	}()
+}
+
+// opened shows a scan just read and starts its analysis.
+func (u *ui) opened(path string, solution int) {
 	u.win.SetTitle("Reticle — " + filepath.Base(path))
 	u.addRecent(path)
 	u.plot.opt.XMin, u.plot.opt.XMax = 0, 0
