@@ -68,6 +68,12 @@ type Contents struct {
 	// allowed Z: evidence against the cell (or the formula, or the
 	// measurement).
 	Whole bool
+	// Plausible, when neither Z nor a measured density was given, lists
+	// every allowed Z whose volume per atom is physically possible (see
+	// PlausibleZ), with its X-ray density; Z is then the most plausible
+	// one (ZGuessed set), which only a measured density can confirm.
+	Plausible []PlausibleZ
+	ZGuessed  bool
 
 	Density, DensityESD float64 // X-ray density at Z, g/cm³
 	// Sigmas is (ρ_measured − ρ_X-ray)/σ, σ combining both
@@ -119,7 +125,16 @@ func Compute(in Input) (*Contents, error) {
 		c.Z = in.Z
 	}
 	if c.Z <= 0 {
-		return nil, fmt.Errorf("%w: give Z or a measured density", ErrInput)
+		c.Plausible = plausible(in.Formula, v, in.VolumeESD, m, um, c.LatticePoints)
+		if len(c.Plausible) == 0 {
+			return nil, fmt.Errorf("%w: no Z gives at least %g Å³ per atom in %.4g Å³ (the formula may be too large for the cell); give Z or a measured density", ErrInput, MinAtomVolume, v)
+		}
+		c.Z, c.ZGuessed = c.Plausible[0].Z, true
+		for _, p := range c.Plausible {
+			if p.Likeliest {
+				c.Z = p.Z
+			}
+		}
 	}
 	z := float64(c.Z)
 	c.Density, c.DensityESD = XRayDensity(z, m, um, v, in.VolumeESD)
@@ -193,4 +208,103 @@ func (m *Measured) UnmarshalText(b []byte) error {
 	}
 	*m = v
 	return nil
+}
+
+// MinAtomVolume is the smallest volume per atom, Å³, that a Z may give:
+// below the densest packing of atoms in a solid at ambient pressure
+// (diamond, 5.67 Å³ per atom; beryllium oxide and boron carbide are near
+// 6; values recalled from memory).
+const MinAtomVolume = 5.0
+
+// An atomVolumes is the typical volume per atom, Å³, of a kind of solid:
+// a range and its most typical value.
+type atomVolumes struct {
+	kind           string
+	lo, mid, hi    float64
+	perNonHydrogen bool // counted per non-hydrogen atom
+}
+
+// The kinds of solid told apart by their formula, with volumes per atom
+// that handbook cells give (values computed from cells recalled from
+// memory; common practice): organic molecular crystals about 18 Å³ per
+// non-hydrogen atom (the "18 Å³ rule", Kempster & Lipson, Acta Cryst.
+// B28 (1972) 3674, from memory); oxides, fluorides and nitrides 7–16,
+// most near 10 (corundum 8.5, periclase 9.3, spinel 9.4, rutile 10.4,
+// quartz 12.6, fluorite 13.6); chlorides, bromides, iodides and
+// chalcogenides 15–40, near 25 (sphalerite 19.7, rock salt 22.4, galena
+// 26.6, sylvite 31); elements and alloys 10–45, near 17 (copper 11.8,
+// tungsten 15.9, aluminium 16.6, silicon 20.0, magnesium 23.2, sodium
+// 39).
+var (
+	organicVolumes    = atomVolumes{"organic", 14.4, 18, 21.6, true}
+	lightAnionVolumes = atomVolumes{"oxide, fluoride or nitride", 7, 10, 16, false}
+	heavyAnionVolumes = atomVolumes{"halide or chalcogenide", 15, 25, 40, false}
+	metalVolumes      = atomVolumes{"element or alloy", 10, 17, 45, false}
+)
+
+// volumesOf returns the kind of solid a formula describes.
+func volumesOf(f Formula) atomVolumes {
+	has := func(els ...string) bool {
+		for _, e := range els {
+			if f.Counts[e] > 0 {
+				return true
+			}
+		}
+		return false
+	}
+	switch {
+	case has("C") && has("H", "D"):
+		return organicVolumes
+	case has("Cl", "Br", "I", "S", "Se", "Te"):
+		return heavyAnionVolumes
+	case has("O", "F", "N"):
+		return lightAnionVolumes
+	}
+	return metalVolumes
+}
+
+// A PlausibleZ is a number of formula units per cell that the cell can
+// hold, with the X-ray density it implies.
+type PlausibleZ struct {
+	Z                   int
+	AtomVolume          float64 // cell volume per atom, Å³ (per non-hydrogen atom for organic formulas)
+	Density, DensityESD float64 // g/cm³
+	// Kind is the kind of solid the formula was taken for; Typical is
+	// set when AtomVolume lies in that kind's typical range, and
+	// Likeliest marks the one nearest its most typical value.
+	Kind               string
+	Typical, Likeliest bool
+}
+
+// plausible lists the multiples of the lattice points lp that give at
+// least MinAtomVolume per atom, smallest Z first, marking the typical
+// ones and the likeliest.
+func plausible(f Formula, v, uv, m, um float64, lp int) []PlausibleZ {
+	kind := volumesOf(f)
+	atoms := f.Atoms()
+	per := atoms // the atoms the volume is counted per
+	if kind.perNonHydrogen {
+		per = atoms - f.Counts["H"] - f.Counts["D"]
+	}
+	if !(atoms > 0) || !(per > 0) {
+		return nil
+	}
+	var out []PlausibleZ
+	best, bestDist := -1, math.Inf(1)
+	for z := lp; ; z += lp {
+		if v/(float64(z)*atoms) < MinAtomVolume || len(out) == 64 {
+			break
+		}
+		p := PlausibleZ{Z: z, AtomVolume: v / (float64(z) * per), Kind: kind.kind}
+		p.Density, p.DensityESD = XRayDensity(float64(z), m, um, v, uv)
+		p.Typical = p.AtomVolume >= kind.lo && p.AtomVolume <= kind.hi
+		if d := math.Abs(math.Log(p.AtomVolume / kind.mid)); p.Typical && d < bestDist {
+			best, bestDist = len(out), d
+		}
+		out = append(out, p)
+	}
+	if best >= 0 {
+		out[best].Likeliest = true
+	}
+	return out
 }

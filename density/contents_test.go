@@ -160,12 +160,69 @@ func TestComputeErrors(t *testing.T) {
 	nacl := cell.Must(cell.Cubic, cell.F, 5.64)
 	for _, in := range []Input{
 		{Cell: nacl},
-		{Cell: nacl, Formula: f},
+		{Cell: cell.Must(cell.Cubic, cell.P, 1.5), Formula: f}, // no Z leaves 5 Å³ per atom
 		{Cell: cell.Cell{}, Formula: f, Z: 4},
 		{Cell: nacl, Formula: f, Measured: &Measured{-1, 0.1}},
 	} {
 		if _, err := Compute(in); err == nil {
 			t.Errorf("%+v accepted", in)
+		}
+	}
+}
+
+// TestPlausibleZ: with a formula and no Z or measured density, the Z of
+// known solids (handbook cells and Z, recalled from memory; common
+// practice) is the one marked most plausible for twelve of fourteen, and
+// listed as typical for the other two (quartz, an open framework, and
+// magnesium, a large-atom metal), whose guess is said to be one.
+func TestPlausibleZ(t *testing.T) {
+	for _, test := range []struct {
+		cell    string
+		formula string
+		z       int
+		exact   bool // the true Z is the one marked most plausible
+	}{
+		{"rhombohedral R a=4.759 c=12.992", "Al2O3", 6, true},
+		{"cubic F a=5.6402", "NaCl", 4, true},
+		{"cubic F a=8.083", "MgAl2O4", 8, true},
+		{"tetragonal P a=4.5937 c=2.9587", "TiO2", 2, true},
+		{"cubic F a=5.4311", "Si", 8, true},
+		{"cubic F a=3.615", "Cu", 4, true},
+		{"cubic I a=3.165", "W", 2, true},
+		{"cubic F a=5.463", "CaF2", 4, true},
+		{"cubic F a=4.212", "MgO", 4, true},
+		{"cubic F a=5.409", "ZnS", 4, true},
+		{"cubic F a=6.293", "KCl", 4, true},
+		{"cubic F a=5.936", "PbS", 4, true},
+		{"hexagonal P a=4.913 c=5.405", "SiO2", 3, false},
+		{"hexagonal P a=3.209 c=5.211", "Mg", 2, false},
+	} {
+		c, _, err := cell.Parse(test.cell)
+		if err != nil {
+			t.Fatal(err)
+		}
+		f, err := ParseFormula(test.formula)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got, err := Compute(Input{Cell: c, Formula: f})
+		if err != nil {
+			t.Fatalf("%s: %v", test.formula, err)
+		}
+		if !got.ZGuessed || len(got.Plausible) == 0 {
+			t.Fatalf("%s: no plausible Z: %+v", test.formula, got)
+		}
+		listed := false
+		for _, p := range got.Plausible {
+			if p.Z == test.z && p.Typical {
+				listed = true
+			}
+			if v := c.Volume() / (float64(p.Z) * f.Atoms()); v < MinAtomVolume {
+				t.Errorf("%s: Z = %d leaves %.2f Å³ per atom", test.formula, p.Z, v)
+			}
+		}
+		if test.exact && got.Z != test.z || !listed {
+			t.Errorf("%s: most plausible Z %d, true %d (listed as typical: %v)", test.formula, got.Z, test.z, listed)
 		}
 	}
 }

@@ -384,6 +384,21 @@ type Contents struct {
 	UnitsPerLattice   float64      `json:"formula_units_per_lattice_point"`
 	AvogadroConstant  float64      `json:"avogadro_constant"`
 	AtomicWeightTable string       `json:"atomic_weights"`
+	// ZGuessed: Z is the most plausible of Plausible, without a measured
+	// density.
+	ZGuessed  bool         `json:"z_guessed,omitempty"`
+	Plausible []PlausibleZ `json:"z_plausible,omitempty"`
+}
+
+// A PlausibleZ is a Z the cell can hold, with its X-ray density.
+type PlausibleZ struct {
+	Z          int     `json:"z"`
+	AtomVolume float64 `json:"volume_per_atom"`
+	Density    float64 `json:"density_xray"`
+	DensityESD float64 `json:"density_xray_esd"`
+	Kind       string  `json:"kind"`
+	Typical    bool    `json:"typical"`
+	Likeliest  bool    `json:"most_plausible"`
 }
 
 // A ZCandidate is an allowed Z with its distance from the estimate.
@@ -402,7 +417,10 @@ func NewContents(c *density.Contents, f density.Formula, m *density.Measured) Co
 		Volume: c.Volume, VolumeESD: c.VolumeESD, LatticePoints: c.LatticePoints, Z: c.Z, ZFromDensity: c.ZInferred,
 		Density: c.Density, DensityESD: c.DensityESD,
 		AtomsPerCell: c.AtomsPerCell, CellMass: c.CellMass, CellMassESD: c.CellMassESD, UnitsPerLattice: c.FormulaUnitsPerLattice,
-		AvogadroConstant: density.Avogadro, AtomicWeightTable: AtomicWeights,
+		AvogadroConstant: density.Avogadro, AtomicWeightTable: AtomicWeights, ZGuessed: c.ZGuessed,
+	}
+	for _, p := range c.Plausible {
+		j.Plausible = append(j.Plausible, PlausibleZ{p.Z, p.AtomVolume, p.Density, p.DensityESD, p.Kind, p.Typical, p.Likeliest})
 	}
 	if m != nil {
 		ze, zu, w, d := c.ZEst, c.ZEstESD, c.Whole, c.Sigmas

@@ -35,8 +35,11 @@ func Text(rows []Row) string {
 // distance from it, atoms and formula mass per cell, all with their esds.
 func ContentsRows(c *density.Contents, f density.Formula, m *density.Measured) []Row {
 	how := "given"
-	if c.ZInferred {
+	switch {
+	case c.ZInferred:
 		how = "the allowed value nearest to the estimate from the measured density"
+	case c.ZGuessed:
+		how = "the most plausible from typical volumes per atom; a measured density decides"
 	}
 	rows := []Row{
 		{"formula", fmt.Sprintf("%s, M = %s g/mol (%s)", f.Text, esd.Format(c.MolarMass, c.MolarMassESD), AtomicWeights)},
@@ -54,6 +57,21 @@ func ContentsRows(c *density.Contents, f density.Formula, m *density.Measured) [
 		rows = append(rows, Row{"Z from density", v})
 	}
 	rows = append(rows, Row{"X-ray density", esd.Format(c.Density, c.DensityESD) + " g/cm³ (ρ = Z·M/(N_A·V), N_A = 6.02214076×10²³ per mol)"})
+	if len(c.Plausible) > 0 {
+		var ps []string
+		for _, p := range c.Plausible {
+			t := fmt.Sprintf("Z = %d: %s g/cm³, %.1f Å³ per atom", p.Z, esd.Format(p.Density, p.DensityESD), p.AtomVolume)
+			switch {
+			case p.Likeliest:
+				t += " (most plausible)"
+			case p.Typical:
+				t += " (typical)"
+			}
+			ps = append(ps, t)
+		}
+		rows = append(rows, Row{"plausible Z", strings.Join(ps, "; ")},
+			Row{"note", fmt.Sprintf("without a measured density Z is a guess: every multiple of the lattice points that leaves at least %g Å³ per atom is listed, and the most plausible is the one nearest the typical volume per atom of the kind of solid (taken as %s); a measured density decides", density.MinAtomVolume, c.Plausible[0].Kind)})
+	}
 	if m != nil {
 		rows = append(rows, Row{"measured density", fmt.Sprintf("%s g/cm³, %+.1fσ from the X-ray density", esd.Format(m.Density, m.ESD), c.Sigmas)})
 	}

@@ -24,10 +24,6 @@ func cmdContentsRun(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintln(stderr, "reticle contents: --cell and --formula are required, e.g. --cell 'cubic F a=5.6402(3)' --formula NaCl --z 4")
 		return 2
 	}
-	if s.Z == 0 && s.Density == nil {
-		fmt.Fprintln(stderr, "reticle contents: give --z N or a measured --density")
-		return 2
-	}
 	_, e, _ := cell.Parse(r.cellText)
 	cov := cell.IndependentCovariance(r.cell.System, e)
 	c, err := analysis.Contents(*r.cell, cov, s)

@@ -191,7 +191,7 @@ func TestContentsCommand(t *testing.T) {
 	}{
 		{[]string{"contents", "--formula", "NaCl", "--z", "4"}, 2, "--cell and --formula are required"},
 		{[]string{"contents", "--cell", "cubic F a=5.64", "--formula", "NaCL", "--z", "4"}, 2, "character 4"},
-		{[]string{"contents", "--cell", "cubic F a=5.64", "--formula", "NaCl"}, 2, "give --z N or a measured --density"},
+		{[]string{"contents", "--cell", "cubic P a=1.5", "--formula", "NaCl"}, 1, "no Z gives at least 5 Å³ per atom"},
 		{[]string{"contents", "--cell", "cubic F a=5.64", "--formula", "NaCl", "--density", "heavy"}, 2, "density"},
 		{[]string{"contents", "--cell", "cubic F a=5.64", "--formula", "NaCl", "--z", "4", demo}, 2, "unexpected argument"},
 
@@ -335,5 +335,23 @@ func TestPublicLowRefine(t *testing.T) {
 	}
 	if n == 0 {
 		t.Error("no orthorhombic or monoclinic scan in the benchmark")
+	}
+}
+
+// TestContentsPlausibleZ: a formula without a measured density or Z gives
+// the X-ray density of every plausible Z, the most plausible marked.
+func TestContentsPlausibleZ(t *testing.T) {
+	code, out, errs := runCmd("contents", "--cell", "rhombohedral R a=4.759 c=12.992", "--formula", "Al2O3", "--json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var doc report.Contents
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	// Corundum: Z = 6 on hexagonal axes, 3.99 g/cm³ (handbook values
+	// recalled from memory).
+	if !doc.ZGuessed || doc.Z != 6 || len(doc.Plausible) < 2 || math.Abs(doc.Density-3.99) > 0.01 {
+		t.Errorf("Z %d (guessed %v), density %.3f, plausible %+v", doc.Z, doc.ZGuessed, doc.Density, doc.Plausible)
 	}
 }
