@@ -75,6 +75,11 @@ func formulaSum(text string) string {
 	return b.String()
 }
 
+// LocalPrefix starts the names of this program's own CIF items: the
+// IUCr reserves names beginning "_[local]_" for local use, so that they
+// can never clash with a registered dictionary's.
+const LocalPrefix = "_[local]_reticle"
+
 // WriteCIF writes the chosen cell of an analysis as a CIF data block
 // (IUCr core and powder dictionaries): the cell with its esds, crystal
 // system, wavelength, Z and X-ray density when known, and a loop of the
@@ -130,13 +135,13 @@ func WriteCIF(w io.Writer, a *analysis.Analysis, date time.Time) error {
 		for _, s := range r.Searched {
 			names = append(names, s.String())
 		}
-		p("\n_reticle_indexing_systems_searched %s\n", cifString(strings.Join(names, " ")))
-		p("_reticle_indexing_max_volume %g\n", r.Bounds.MaxVolume)
-		p("_reticle_indexing_figure_of_merit_M %.1f\n", c.M)
+		p("\n%s_indexing_systems_searched %s\n", LocalPrefix, cifString(strings.Join(names, " ")))
+		p("%s_indexing_max_volume %g\n", LocalPrefix, r.Bounds.MaxVolume)
+		p("%s_indexing_figure_of_merit_M %.1f\n", LocalPrefix, c.M)
 		if !math.IsInf(r.Confidence, 1) && r.Confidence > 0 {
-			p("_reticle_indexing_confidence %.2f\n", r.Confidence)
+			p("%s_indexing_confidence %.2f\n", LocalPrefix, r.Confidence)
 		}
-		p("_reticle_indexing_stop %s\n", cifString(r.Stop))
+		p("%s_indexing_stop %s\n", LocalPrefix, cifString(r.Stop))
 	}
 	p("\n_diffrn_radiation_wavelength %s\n", ftoa(a.Radiation.Lambda1))
 	p("_diffrn_radiation_type %s\n", cifString(a.Radiation.Name))
@@ -149,17 +154,26 @@ func WriteCIF(w io.Writer, a *analysis.Analysis, date time.Time) error {
 			p("_exptl_crystal_density_meas %s\n", esd.Format(m.Density, m.ESD))
 		}
 	}
-	p("\nloop_\n_refln_index_h\n_refln_index_k\n_refln_index_l\n_refln_d_spacing\n_pd_peak_2theta_centroid\n_reticle_refln_2theta_calc\n")
-	for _, l := range c.Lines {
+	// The observed lines (PD_PEAK), then the reflections that index
+	// them (REFLN, with PD_REFLN's link to the peak): two categories, two
+	// loops, joined by the peak's identifier as the powder dictionary
+	// defines.
+	p("\nloop_\n_pd_peak_id\n_pd_peak_2theta_centroid\n_pd_peak_d_spacing\n")
+	for i, l := range c.Lines {
+		p("%d %.5f %.6f\n", i+1, l.TwoTheta, cell.DSpacing(l.TwoTheta, a.Radiation.Lambda1))
+	}
+	p("\nloop_\n_refln_index_h\n_refln_index_k\n_refln_index_l\n_refln_d_spacing\n_pd_refln_peak_id\n%s_refln_2theta_calc\n", LocalPrefix)
+	for i, l := range c.Lines {
 		if !l.Indexed {
 			continue
 		}
-		h := l.HKL[0]
 		calc := l.TwoThetaCalc
 		if _, rr, ok := c.Line(l.TwoTheta); ok && rr != nil {
 			calc = rr.TwoThetaCalc
 		}
-		p("%d %d %d %.6f %.5f %.5f\n", h[0], h[1], h[2], ce.D(h), l.TwoTheta, calc)
+		for _, h := range l.HKL {
+			p("%d %d %d %.6f %d %.5f\n", h[0], h[1], h[2], ce.D(h), i+1, calc)
+		}
 	}
 	_, err := io.WriteString(w, b.String())
 	return err

@@ -8,7 +8,8 @@ repository root after `go test ./report -run CIFRead -regen`:
         > testdata/reference/kiln-trial-07.cif.gemmi.tsv
 
 Lines: "value<TAB>tag<TAB>number<TAB>decimals printed", "system<TAB>name",
-and "refln<TAB>h<TAB>k<TAB>l<TAB>d<TAB>2theta obs<TAB>2theta calc".
+and "refln<TAB>h<TAB>k<TAB>l<TAB>d<TAB>2theta obs<TAB>2theta calc" (the observed
+angle found through the reflection's peak id in the peak loop).
 """
 import sys
 import gemmi
@@ -28,7 +29,10 @@ for tag in ["_cell_length_a", "_cell_length_b", "_cell_length_c",
 print("system\t%s" % gemmi.cif.as_string(block.find_value("_space_group_crystal_system")))
 small = gemmi.make_small_structure_from_block(block)
 print("# gemmi cell:", small.cell.parameters)
+# The peaks and the reflections are two loops joined by the peak's id.
+peaks = {row[0]: row[1] for row in block.find("_pd_peak_", ["id", "2theta_centroid"])}
 table = block.find("_", ["refln_index_h", "refln_index_k", "refln_index_l", "refln_d_spacing",
-                         "pd_peak_2theta_centroid", "reticle_refln_2theta_calc"])
+                         "pd_refln_peak_id", "[local]_reticle_refln_2theta_calc"])
 for row in table:
-    print("refln\t" + "\t".join(row))
+    h, k, l, d, pid, calc = list(row)
+    print("refln\t" + "\t".join([h, k, l, d, peaks[pid], calc]))
