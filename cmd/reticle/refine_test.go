@@ -355,3 +355,36 @@ func TestContentsPlausibleZ(t *testing.T) {
 		t.Errorf("Z %d (guessed %v), density %.3f, plausible %+v", doc.Z, doc.ZGuessed, doc.Density, doc.Plausible)
 	}
 }
+
+// TestCellTextRoundTrip: the first cell text that index prints, given
+// back to refine --cell, refines without error (the demo, and the lab
+// scans of the public benchmark when it lies beside the repository).
+func TestCellTextRoundTrip(t *testing.T) {
+	type scan struct{ path, wl string }
+	scans := []scan{{demo, "Cu"}}
+	if raw, err := os.ReadFile("../../../shared/bench/public/truth.json"); err == nil {
+		var truth []struct{ File, Tier, Tube string }
+		if err := json.Unmarshal(raw, &truth); err != nil {
+			t.Fatal(err)
+		}
+		for _, tr := range truth {
+			if tr.Tier == "lab" {
+				scans = append(scans, scan{"../../../shared/bench/public/" + tr.File, tr.Tube})
+			}
+		}
+	}
+	for _, s := range scans {
+		code, out, errs := runCmd("index", "--json", "--wavelength", s.wl, s.path)
+		if code != 0 {
+			t.Fatalf("%s: %s", s.path, errs)
+		}
+		var doc struct{ Solutions []struct{ Cell string } }
+		if err := json.Unmarshal([]byte(out), &doc); err != nil || len(doc.Solutions) == 0 {
+			t.Fatalf("%s: %v", s.path, err)
+		}
+		text := doc.Solutions[0].Cell
+		if code, _, errs := runCmd("refine", "--cell", text, "--wavelength", s.wl, s.path); code != 0 {
+			t.Errorf("%s: refine --cell %q: %s", s.path, text, errs)
+		}
+	}
+}
