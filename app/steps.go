@@ -369,7 +369,7 @@ func (u *ui) setCellColumns() {
 	}
 }
 
-var resColumns = []string{"use", "hkl", "2θ obs (°)", "2θ calc (°)", "Δ2θ (°)", "Δ/σ", ""}
+var resColumns = []string{"in fit", "hkl", "2θ obs (°)", "2θ calc (°)", "Δ2θ (°)", "Δ/σ", ""}
 
 func (u *ui) resCell(row, col int) (string, bool) {
 	c := u.m.Solution()
@@ -445,7 +445,7 @@ func (u *ui) refineStep() fyne.CanvasObject {
 		u.m.Change(func(s *analysis.Settings) { s.Radius = r })
 		u.edited()
 	}
-	u.scalingSel = widget.NewSelect([]string{"significant", "above-one", "always", "never"}, func(v string) {
+	u.scalingSel = widget.NewSelect([]string{refine.ScaleSignificant.String(), refine.ScaleAboveOne.String(), refine.ScaleAlways.String(), refine.ScaleNever.String()}, func(v string) {
 		if u.refreshing || u.m.Scan() == nil {
 			return
 		}

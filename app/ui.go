@@ -98,7 +98,7 @@ func (u *ui) build() {
 	u.hover = widget.NewLabel("")
 	u.hover.TextStyle = fyne.TextStyle{Monospace: true}
 	u.hover.Truncation = fyne.TextTruncateEllipsis
-	u.status = widget.NewLabel("Open a scan to begin: File ▸ Open, drop a file on the window, or pick a recent one on the Scan step.")
+	u.status = widget.NewLabel("Open a scan to begin: press Open scan… (Ctrl+O), drop a file on the window, or pick a recent one on the Scan step.")
 	u.status.Truncation = fyne.TextTruncateEllipsis
 	u.scaleSel = widget.NewSelect([]string{"linear", "square root", "logarithmic"}, func(s string) {
 		u.plot.opt.Scale = map[string]report.Scale{"linear": report.Linear, "square root": report.SquareRoot, "logarithmic": report.Logarithmic}[s]

@@ -105,7 +105,7 @@ const (
 	ScaleNever
 )
 
-var scalingNames = [...]string{"significant", "above-one", "always", "never"}
+var scalingNames = [...]string{"chi2-test", "above-one", "always", "never"}
 
 func (s Scaling) String() string {
 	if s >= 0 && int(s) < len(scalingNames) {
@@ -116,12 +116,16 @@ func (s Scaling) String() string {
 
 // ParseScaling reads a scaling name as String prints it.
 func ParseScaling(name string) (Scaling, error) {
+	if name == "significant" {
+		// The name of sessions written before version 0.4.
+		return ScaleSignificant, nil
+	}
 	for i, n := range scalingNames {
 		if n == name {
 			return Scaling(i), nil
 		}
 	}
-	return 0, fmt.Errorf("unknown scaling %q (want significant, above-one, always or never)", name)
+	return 0, fmt.Errorf("unknown scaling %q (want chi2-test, above-one, always or never)", name)
 }
 
 // MarshalText writes the scaling's name.

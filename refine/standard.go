@@ -73,7 +73,7 @@ func fitStandard(ctx context.Context, opt Options, obs []Observation, idx []int)
 	}
 	set := opt.Corrections.forStandard()
 	if len(fitted) < set.Count() {
-		return nil, shifts{}, nil, fmt.Errorf("refine: standard %s: %d lines for %d corrections (%s): %w", st.Name, len(fitted), set.Count(), set, ErrTooFew)
+		return nil, shifts{}, nil, fmt.Errorf("refine: internal standard %s: %d of its lines found among the peaks, and fixing the corrections %s needs at least %d: check that the standard is in the sample, its name, and the wavelength: %w", st.Name, len(fitted), set, set.Count(), ErrTooFew)
 	}
 	m := newModel(st.Cell.System, opt.Wavelength, opt.Radius)
 	r := start(st.Cell)

@@ -23,7 +23,7 @@ var cifCategories = map[string]string{
 	"_diffrn_radiation_type": "diffrn_radiation", "_chemical_formula_sum": "chemical_formula",
 	"_chemical_formula_weight": "chemical_formula", "_exptl_crystal_density_diffrn": "exptl_crystal",
 	"_exptl_crystal_density_meas": "exptl_crystal",
-	"_pd_peak_id": "pd_peak", "_pd_peak_2theta_centroid": "pd_peak", "_pd_peak_d_spacing": "pd_peak",
+	"_pd_peak_id":                 "pd_peak", "_pd_peak_2theta_centroid": "pd_peak", "_pd_peak_d_spacing": "pd_peak",
 	"_refln_index_h": "refln", "_refln_index_k": "refln", "_refln_index_l": "refln",
 	"_refln_d_spacing": "refln", "_pd_refln_peak_id": "refln",
 }

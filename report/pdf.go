@@ -22,6 +22,7 @@ import (
 	"reticle/analysis"
 	"reticle/cell"
 	"reticle/esd"
+	"reticle/peaks"
 	"reticle/refine"
 )
 
@@ -370,7 +371,7 @@ func (x *pdfWriter) candidates(a *analysis.Analysis) {
 		if c.Contents != nil {
 			z = fmt.Sprint(c.Contents.Z)
 			if !c.Contents.Whole {
-				z += "?"
+				z += " (not whole)"
 			}
 		}
 		mark := ""
@@ -387,7 +388,7 @@ func (x *pdfWriter) candidates(a *analysis.Analysis) {
 	}
 	x.table(cols, rows)
 	x.pdf.SetFont(fontSans, "I", 7.5)
-	x.pdf.MultiCell(0, 3.6, fmt.Sprintf("M_N after de Wolff (1968) and F_N after Smith & Snyder (1979), over the first %d lines; a Z marked ? is not whole for the measured density.", a.Candidates[0].FigureLines), "", "L", false)
+	x.pdf.MultiCell(0, 3.6, fmt.Sprintf("M_N after de Wolff (1968) and F_N after Smith & Snyder (1979), over the first %d lines; a Z marked (not whole) does not fit the measured density.", a.Candidates[0].FigureLines), "", "L", false)
 	if r := a.Search; r != nil {
 		x.pdf.MultiCell(0, 3.6, SearchText(r), "", "L", false)
 	}
@@ -427,7 +428,7 @@ func (x *pdfWriter) lines(a *analysis.Analysis) {
 		case r.Rejected:
 			note = "rejected"
 		case r.CompanionOf != nil:
-			note = fmt.Sprintf("Kβ of %d", *r.CompanionOf+1)
+			note = fmt.Sprintf("K-beta of %d", *r.CompanionOf+1)
 		case !r.Indexed && c != nil:
 			note = "unindexed"
 		}
@@ -453,47 +454,66 @@ func (x *pdfWriter) lines(a *analysis.Analysis) {
 func (x *pdfWriter) settings(a *analysis.Analysis) {
 	x.heading("Settings used")
 	s := a.Settings.Resolved(a.Scan)
-	z := "from the density"
-	if s.Z > 0 {
-		z = fmt.Sprint(s.Z)
+	var rows []Row
+	for _, o := range CommandOptions(a.Settings, a.Scan) {
+		rows = append(rows, Row{o[0], o[1]})
 	}
+	rows = append(rows,
+		Row{"rejected peaks", angles(s.Rejected)},
+		Row{"added peaks", angles(s.Added)})
+	x.keyValues(rows, 38)
+	x.pdf.SetFont(fontSans, "I", 7.5)
+	x.pdf.MultiCell(0, 3.6, "These options, given to reticle report with the scan, rebuild the analysis; the peaks rejected or added in the window travel in this report's JSON, and reticle report --session with that JSON rebuilds the report exactly.", "", "L", false)
+}
+
+// CommandOptions returns the settings of an analysis as the options of
+// reticle report that rebuild it (every setting, defaults resolved), in
+// the order of its help: each an option and its value.
+func CommandOptions(set analysis.Settings, scan *peaks.Scan) [][2]string {
+	s := set.Resolved(scan)
 	var systems []string
 	for _, sys := range s.Systems {
 		systems = append(systems, sys.String())
 	}
-	formula, dens, std := "none", "none", "none"
+	var out [][2]string
+	if s.Radiation != nil {
+		out = append(out, [2]string{"--wavelength", s.Radiation.Setting()})
+	}
+	out = append(out, [][2]string{
+		{"--ka2-ratio", ftoa(s.KAlpha2Ratio)},
+		{"--threshold", ftoa(s.Threshold)},
+		{"--background-width", ftoa(s.BackgroundWidth)},
+		{"--systems", strings.Join(systems, ",")},
+		{"--impurities", fmt.Sprint(s.Impurities)},
+		{"--tolerance", ftoa(s.Tolerance)},
+		{"--corrections", s.Corrections.String()},
+		{"--radius", ftoa(s.Radius)},
+		{"--flag-limit", ftoa(s.FlagLimit)},
+		{"--scaling", s.Scaling.String()},
+	}...)
+	if s.Standard != nil {
+		out = append(out, [2]string{"--standard", s.Standard.Name})
+	}
 	if s.Formula != nil {
-		formula = s.Formula.Text
+		out = append(out, [2]string{"--formula", s.Formula.Text})
 	}
 	if s.Density != nil {
-		dens = s.Density.String() + " g/cm³"
+		out = append(out, [2]string{"--density", s.Density.String()})
 	}
-	if s.Standard != nil {
-		std = s.Standard.Name
+	if s.Z > 0 {
+		out = append(out, [2]string{"--z", fmt.Sprint(s.Z)})
 	}
-	rows := []Row{
-		{"radiation", s.Radiation.Setting()},
-		{"ka2_ratio", ftoa(s.KAlpha2Ratio)},
-		{"threshold", ftoa(s.Threshold) + " esd of the fitted height"},
-		{"background_width", ftoa(s.BackgroundWidth) + "° 2θ (SNIP window)"},
-		{"systems", strings.Join(systems, ", ")},
-		{"impurities", fmt.Sprintf("%d among the first 20 lines", s.Impurities)},
-		{"tolerance", ftoa(s.Tolerance) + "° 2θ (smallest matching window)"},
-		{"corrections", s.Corrections.String()},
-		{"radius_mm", ftoa(s.Radius)},
-		{"flag_limit", ftoa(s.FlagLimit) + " esd"},
-		{"scaling", s.Scaling.String()},
-		{"standard", std},
-		{"formula", formula},
-		{"density", dens},
-		{"z", z},
-		{"rejected_peaks", angles(s.Rejected)},
-		{"added_peaks", angles(s.Added)},
-		{"excluded_lines", angles(s.Excluded)},
+	if len(s.Excluded) > 0 {
+		var v []string
+		for _, x := range s.Excluded {
+			v = append(v, fmt.Sprintf("%.4f", x))
+		}
+		out = append(out, [2]string{"--exclude", strings.Join(v, ",")})
 	}
-	x.keyValues(rows, 38)
-	x.pdf.SetFont(fontSans, "I", 7.5)
-	x.pdf.MultiCell(0, 3.6, "The same settings, given to reticle report (or read back from this report's JSON with --session), regenerate this report.", "", "L", false)
+	if s.Sample != "" {
+		out = append(out, [2]string{"--sample", s.Sample})
+	}
+	return out
 }
 
 func angles(v []float64) string {

@@ -96,7 +96,7 @@ var options = []option{
 		help: "significance a peak must reach, in esds of its height",
 		set:  floatOpt(func(r *request) *float64 { return &r.settings.Threshold }, positive, "a positive number of esds")},
 	{name: "background-width", arg: "D", in: scanCommands, def: ftoa(peaks.DefaultBackgroundWidth),
-		help: "window of the background estimate, degrees 2θ",
+		help: "background window (SNIP) of the background estimate, degrees 2θ",
 		set:  floatOpt(func(r *request) *float64 { return &r.settings.BackgroundWidth }, positive, "a positive window in degrees")},
 	{name: "systems", arg: "LIST", in: cmdIndex | cmdReport, def: "all seven",
 		help: "crystal systems to search, comma-separated; the lower ones (orthorhombic, monoclinic, triclinic) only when no higher cell explains the lines, unless --search-lower",
@@ -147,7 +147,7 @@ var options = []option{
 		help: "flag lines whose |Δ/σ| exceeds K",
 		set:  floatOpt(func(r *request) *float64 { return &r.settings.FlagLimit }, positive, "a positive number of esds")},
 	{name: "scaling", arg: "S", in: analysisCommands, def: refine.ScaleSignificant.String(),
-		help: "when esds are multiplied by χ²_red: significant (χ² beyond its 95 % point), above-one, always or never",
+		help: "when esds are multiplied by χ²_red: chi2-test (when χ² lies beyond its 95 % point), above-one, always or never",
 		set: func(r *request, v string) error {
 			s, err := refine.ParseScaling(v)
 			r.settings.Scaling = s
@@ -225,8 +225,8 @@ var options = []option{
 	{name: "paper", arg: "P", in: cmdReport, def: "A4",
 		help: "page size of the PDF: A4 or Letter",
 		set:  func(r *request, v string) error { r.paper = v; return nil }},
-	{name: "solution", arg: "N", in: cmdReport, def: "the session's, else 1",
-		help: "rank of the cell to report",
+	{name: "candidate", arg: "N", in: cmdReport, def: "the session's, else 1",
+		help: "rank of the candidate cell to report",
 		set: func(r *request, v string) error {
 			n, err := strconv.Atoi(v)
 			if err != nil || n < 1 {

@@ -66,8 +66,8 @@ func TestReportCommand(t *testing.T) {
 		{[]string{"report", "--out", dir, "--session", jsonPath, demo}, 2, "not both"},
 		{[]string{"report", "--out", dir, "--session", demo}, 1, "not JSON"},
 		{[]string{"report", "--out", filepath.Join(dir, "kiln-07.json"), "--force", demo}, 2, "is a file, not a folder"},
-		{[]string{"report", "--out", dir2, "--force", "--solution", "99", demo}, 1, "no candidate cell 99"},
-		{[]string{"report", "--out", dir2, "--solution", "-1", demo}, 2, "--solution"},
+		{[]string{"report", "--out", dir2, "--force", "--candidate", "99", demo}, 1, "no candidate cell 99"},
+		{[]string{"report", "--out", dir2, "--candidate", "-1", demo}, 2, "--candidate"},
 	} {
 		code, _, errs := runCmd(test.args...)
 		if code != test.code || !strings.Contains(errs, test.msg) {
