@@ -139,10 +139,9 @@ func (s Settings) Resolved(scan *peaks.Scan) Settings {
 		s.Radiation = &po.Radiation
 	}
 	io := s.indexOptions(0).Resolved()
-	s.Systems, s.Impurities, s.Tolerance = io.Systems, io.MaxImpurities, io.Tolerance
-	if s.Impurities == 0 {
-		s.Impurities = -1
-	}
+	// Impurities stays 0 (indexing's default, a share of the lines
+	// searched, known only with the lines) or as set.
+	s.Systems, s.Tolerance = io.Systems, io.Tolerance
 	ro := s.refineOptions(0).Resolved()
 	c := ro.Corrections
 	s.Corrections, s.Radius, s.FlagLimit = &c, ro.Radius, ro.FlagLimit

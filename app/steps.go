@@ -495,7 +495,7 @@ func (u *ui) refineStep() fyne.CanvasObject {
 			u.m.ToggleExcluded(u.m.Solution().Refined.Residuals[row-1].TwoTheta)
 			u.edited()
 		})
-	for i, w := range []float32{44, 130, 120, 100, 90, 60, 110} {
+	for i, w := range []float32{64, 120, 120, 100, 90, 60, 110} {
 		u.resTable.SetColumnWidth(i, w)
 	}
 	form := widget.NewForm(
@@ -562,7 +562,7 @@ func (u *ui) applyContents() {
 	if zt != "" {
 		v, err := strconv.Atoi(zt)
 		if err != nil || v < 1 {
-			u.showError("Z is not usable", fmt.Errorf("%q", zt), "Type a whole number of formula units per cell, or leave Z empty and give a measured density.")
+			u.showError("Z is not usable", fmt.Errorf("%q", zt), "Type a whole number of formula units per cell, or leave Z empty (a measured density then decides it, or the plausible values are listed).")
 			return
 		}
 		z = v
@@ -607,7 +607,7 @@ func (u *ui) contentsSummary() string {
 		if cand.ContentsErr != nil {
 			return fmt.Sprintf("No contents: %v", cand.ContentsErr)
 		}
-		return "Type a formula and a measured density (or Z) to see formula units, X-ray density and atoms per cell."
+		return "Type a formula to see the X-ray density for each plausible Z; add a measured density (or Z) to fix the formula units per cell."
 	}
 	ce := cand.Cell()
 	return fmt.Sprintf("%s %s cell\n", ce.System, ce.Centring) + report.Text(report.ContentsRows(cand.Contents, *u.m.Settings.Formula, u.m.Settings.Density))

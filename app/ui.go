@@ -115,7 +115,11 @@ func (u *ui) build() {
 	u.redoBtn = widget.NewButtonWithIcon("Redo", theme.ContentRedoIcon(), u.redo)
 	open := widget.NewButtonWithIcon("Open scan…", theme.FolderOpenIcon(), u.openDialog)
 	themeSel := widget.NewSelect([]string{"light", "dark"}, nil)
-	themeSel.SetSelected(u.app.Preferences().StringWithFallback("theme", "light"))
+	th := u.app.Preferences().StringWithFallback("theme", "light")
+	if th != "dark" {
+		th = "light" // also when the preferences could not be read
+	}
+	themeSel.SetSelected(th)
 	themeSel.OnChanged = func(s string) {
 		u.applyTheme(s)
 		u.app.Preferences().SetString("theme", s)

@@ -363,7 +363,7 @@ func (x *pdfWriter) candidates(a *analysis.Analysis) {
 		}
 	}
 	cols = append(cols, column{"V (Å³)", 17, "R"}, column{fmt.Sprintf("M%d", a.Candidates[0].FigureLines), 12, "R"},
-		column{"F_N", 12, "R"}, column{"indexed", 13, "R"}, column{"Z", 10, "R"}, column{"", 13, "L"})
+		column{fmt.Sprintf("F%d", a.Candidates[0].FigureLines), 12, "R"}, column{"indexed", 13, "R"}, column{"Z", 10, "R"}, column{"", 13, "L"})
 	var rows [][]string
 	for i, c := range a.Candidates {
 		ce := c.Cell()
@@ -484,13 +484,18 @@ func CommandOptions(set analysis.Settings, scan *peaks.Scan) [][2]string {
 		{"--threshold", ftoa(s.Threshold)},
 		{"--background-width", ftoa(s.BackgroundWidth)},
 		{"--systems", strings.Join(systems, ",")},
-		{"--impurities", fmt.Sprint(s.Impurities)},
 		{"--tolerance", ftoa(s.Tolerance)},
 		{"--corrections", s.Corrections.String()},
 		{"--radius", ftoa(s.Radius)},
 		{"--flag-limit", ftoa(s.FlagLimit)},
 		{"--scaling", s.Scaling.String()},
 	}...)
+	switch {
+	case s.Impurities > 0:
+		out = append(out, [2]string{"--impurities", fmt.Sprint(s.Impurities)})
+	case s.Impurities < 0:
+		out = append(out, [2]string{"--impurities", "0"}) // none
+	}
 	if s.Standard != nil {
 		out = append(out, [2]string{"--standard", s.Standard.Name})
 	}
