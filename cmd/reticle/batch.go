@@ -54,8 +54,10 @@ func expandInputs(args []string) []string {
 // forEach calls work(i) for i in [0, n) on jobs goroutines and, when
 // stderr is a terminal and there is more than one item, shows a progress
 // bar there. Each work(i) writes only its own results, so the caller
-// prints them in input order afterwards.
-func forEach(n, jobs int, stderr io.Writer, label string, work func(i int)) {
+// prints them in input order afterwards. order, when not nil, is the
+// order in which to start the items (the largest first keeps every core
+// busy to the end).
+func forEach(n, jobs int, stderr io.Writer, label string, order []int, work func(i int)) {
 	jobs = max(1, min(jobs, n))
 	var bar *progressbar.ProgressBar
 	if f, ok := stderr.(*os.File); ok && n > 1 && isTerminal(f) {
@@ -76,8 +78,12 @@ func forEach(n, jobs int, stderr io.Writer, label string, work func(i int)) {
 			}
 		}()
 	}
-	for i := 0; i < n; i++ {
-		next <- i
+	for k := 0; k < n; k++ {
+		if order != nil {
+			next <- order[k]
+		} else {
+			next <- k
+		}
 	}
 	close(next)
 	wg.Wait()
@@ -114,4 +120,20 @@ func writeSummary(base string, rows []report.SummaryRow, force bool) ([]string, 
 		written = append(written, f.path)
 	}
 	return written, nil
+}
+
+// largestFirst returns the indices of files, the largest file first (a
+// proxy for the time its analysis takes); files that cannot be read go
+// last.
+func largestFirst(files []string) []int {
+	size := make([]int64, len(files))
+	idx := make([]int, len(files))
+	for i, f := range files {
+		idx[i] = i
+		if fi, err := os.Stat(f); err == nil {
+			size[i] = fi.Size()
+		}
+	}
+	sort.SliceStable(idx, func(a, b int) bool { return size[idx[a]] > size[idx[b]] })
+	return idx
 }

@@ -25,7 +25,7 @@ func cmdIndexRun(args []string, stdout, stderr io.Writer) int {
 	files = expandInputs(files)
 	as := make([]*analysis.Analysis, len(files))
 	rows := make([]report.SummaryRow, len(files))
-	forEach(len(files), r.jobs, stderr, "indexing", func(i int) {
+	forEach(len(files), r.jobs, stderr, "indexing", largestFirst(files), func(i int) {
 		a, sha, err := analyse(files[i], r.settings)
 		as[i], rows[i] = a, report.NewSummaryRow(files[i], sha, a, err)
 	})

@@ -82,7 +82,7 @@ func reportAt(args []string, stdout, stderr io.Writer, date time.Time) int {
 	}
 	outs := make([]outcome, len(files))
 	rows := make([]report.SummaryRow, len(files))
-	forEach(len(files), r.jobs, stderr, "reporting", func(i int) {
+	forEach(len(files), r.jobs, stderr, "reporting", largestFirst(files), func(i int) {
 		path := files[i]
 		o := &outs[i]
 		scan, err := analysis.Read(path, settings)
