@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"path/filepath"
 	"slices"
@@ -498,7 +499,11 @@ func (u *ui) refineStep() fyne.CanvasObject {
 	for i, w := range []float32{64, 120, 120, 100, 90, 60, 110} {
 		u.resTable.SetColumnWidth(i, w)
 	}
+	u.cellEntry = widget.NewEntry()
+	u.cellEntry.SetPlaceHolder("refine a cell you know, e.g. cubic F a=8.08 (Enter)")
+	u.cellEntry.OnSubmitted = u.refineTyped
 	form := widget.NewForm(
+		widget.NewFormItem("Typed cell", u.cellEntry),
 		widget.NewFormItem("Corrections", container.NewHBox(u.autoCheck, u.zeroCheck, u.dispCheck)),
 		widget.NewFormItem("Goniometer radius (mm)", u.radiusEntry),
 		widget.NewFormItem("Scale esds by χ²_red", u.scalingSel),
@@ -508,6 +513,34 @@ func (u *ui) refineStep() fyne.CanvasObject {
 	split := container.NewHSplit(left, u.resTable)
 	split.Offset = 0.42
 	return split
+}
+
+// refineTyped refines a cell typed in the cell text form (the form every
+// cell the program prints takes) against the scan's lines, with the
+// current settings, and shows the result beside the candidates'.
+func (u *ui) refineTyped(text string) {
+	text = strings.TrimSpace(text)
+	if text == "" || u.m.Ext == nil {
+		return
+	}
+	c, _, err := cell.Parse(text)
+	if err != nil {
+		u.showError("The cell is not usable", err, "Type the system, the centring and the free parameters, e.g. tetragonal I a=3.98 c=9.55 or monoclinic C a=9.41 b=5.38 c=6.12 beta=102.4; every cell the program shows can be pasted here.")
+		return
+	}
+	r, err := analysis.RefineCell(context.Background(), u.m.Ext, c, u.m.Settings)
+	if err != nil {
+		u.showError("The typed cell could not be refined", err, "Check that the cell is close to the lines (within about 1 % in d) and that the wavelength on the Scan step is right.")
+		return
+	}
+	var b strings.Builder
+	fmt.Fprintf(&b, "typed cell %s\n", text)
+	b.WriteString(report.Text(report.RefinementRows(r)))
+	for _, w := range r.Warnings {
+		fmt.Fprintf(&b, "note: %s\n", w)
+	}
+	u.paramsText.SetText(b.String())
+	u.setStatus("typed cell refined: %s", cell.Format(r.Cell, r.ESD))
 }
 
 // paramsSummary describes the chosen candidate's refinement.

@@ -63,6 +63,7 @@ type ui struct {
 
 	zeroCheck, dispCheck *widget.Check
 	autoCheck            *widget.Check
+	cellEntry            *widget.Entry
 	radiusEntry          *widget.Entry
 	standardEntry        *widget.Entry
 	scalingSel           *widget.Select

@@ -84,3 +84,15 @@ func TestWindowVocabulary(t *testing.T) {
 		t.Errorf("only %d names found: the walk missed part of the window", len(names))
 	}
 }
+
+// TestTypedCell: the cell text that Copy the cell puts on the clipboard
+// is accepted by the window's cell entry and refined.
+func TestTypedCell(t *testing.T) {
+	u := demoUI(t, "")
+	text := u.cellText()
+	u.cellEntry.SetText(text)
+	u.cellEntry.OnSubmitted(text)
+	if got := u.paramsText.Text; !strings.Contains(got, "typed cell "+text) || !strings.Contains(got, "cubic F") {
+		t.Fatalf("typed %q: %q (status %q)", text, got, u.status.Text)
+	}
+}
