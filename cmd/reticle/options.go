@@ -115,7 +115,7 @@ var options = []option{
 		help: "search the lower systems even when a higher cell explains the lines",
 		set:  func(r *request, _ string) error { r.settings.SearchLower = true; return nil }},
 	{name: "impurities", arg: "N", in: cmdIndex | cmdReport, def: "35 % of the lines",
-		help: "lines among the first 20 that may stay unindexed (each also costs its cell by its strength)",
+		help: "lines among the first 20 that may stay unindexed, 0 for none (each also costs its cell by its strength)",
 		set: func(r *request, v string) error {
 			n, err := strconv.Atoi(v)
 			if err != nil || n < 0 {
@@ -206,7 +206,7 @@ var options = []option{
 			r.settings.Density = &m
 			return nil
 		}},
-	{name: "z", arg: "N", in: cmdIndex | cmdContents | cmdReport, def: "from the density",
+	{name: "z", arg: "N", in: cmdIndex | cmdContents | cmdReport, def: "from the density; without one, the most plausible",
 		help: "formula units per cell",
 		set: func(r *request, v string) error {
 			n, err := strconv.Atoi(v)
