@@ -1,8 +1,10 @@
 package indexing
 
 import (
+	"cmp"
 	"context"
 	"math"
+	"slices"
 	"sort"
 
 	"reticle/cell"
@@ -336,15 +338,25 @@ type vote struct {
 // agreed returns the values that at least min distinct lines propose
 // within their windows, one per cluster (the mean of its members).
 func agreed(vs []vote, min int) []float64 {
-	sort.Slice(vs, func(a, b int) bool { return vs[a].x < vs[b].x })
+	slices.SortFunc(vs, func(a, b vote) int {
+		// A total order, so that the outcome is the same whatever the sort.
+		if c := cmp.Compare(a.x, b.x); c != 0 {
+			return c
+		}
+		if c := cmp.Compare(a.line, b.line); c != 0 {
+			return c
+		}
+		return cmp.Compare(a.w, b.w)
+	})
 	var out []float64
+	var lines []int // the distinct lines of a cluster (few)
 	for i := 0; i < len(vs); {
-		lines := map[int]bool{}
+		lines = lines[:0]
 		var s, sw float64
 		j := i
 		for ; j < len(vs) && vs[j].x-vs[i].x <= vs[i].w+vs[j].w; j++ {
-			if !lines[vs[j].line] {
-				lines[vs[j].line] = true
+			if !slices.Contains(lines, vs[j].line) {
+				lines = append(lines, vs[j].line)
 				s += vs[j].x
 				sw++
 			}
@@ -413,12 +425,23 @@ func countForm(f cell.QForm, qmax float64, qs, ws []float64) (int, float64) {
 			}
 			y := float64(k)
 			base := f[0]*x*x + f[1]*y*y + f[5]*x*y
-			for l := -lm; l <= lm; l++ {
+			// Q is C·l² + B·l + base along l: only the l between the
+			// roots of Q = qmax can count (a little margin for
+			// rounding; the test below decides).
+			bl, c := f[3]*y+f[4]*x, f[2]
+			disc := bl*bl - 4*c*(base-qmax)
+			if disc < 0 {
+				continue
+			}
+			sq := math.Sqrt(disc)
+			l0 := max(-lm, int(math.Floor((-bl-sq)/(2*c)))-1)
+			l1 := min(lm, int(math.Ceil((-bl+sq)/(2*c)))+1)
+			for l := l0; l <= l1; l++ {
 				if h == 0 && k == 0 && l <= 0 {
 					continue
 				}
 				z := float64(l)
-				q := base + f[2]*z*z + f[3]*y*z + f[4]*x*z
+				q := base + c*z*z + bl*z
 				if q > qmax || q <= 0 {
 					continue
 				}
@@ -426,12 +449,25 @@ func countForm(f cell.QForm, qmax float64, qs, ws []float64) (int, float64) {
 				if q <= qn {
 					nc++
 				}
-				j := sort.SearchFloat64s(qs, q)
+				// The first line at or above q (binary search).
+				j, hi := 0, len(qs)
+				for j < hi {
+					m := int(uint(j+hi) >> 1)
+					if qs[m] < q {
+						j = m + 1
+					} else {
+						hi = m
+					}
+				}
 				if j < len(qs) {
-					best[j] = math.Min(best[j], qs[j]-q)
+					if d := qs[j] - q; d < best[j] {
+						best[j] = d
+					}
 				}
 				if j > 0 {
-					best[j-1] = math.Min(best[j-1], q-qs[j-1])
+					if d := q - qs[j-1]; d < best[j-1] {
+						best[j-1] = d
+					}
 				}
 			}
 		}
