@@ -8,7 +8,7 @@ import (
 
 // Sentinel errors that a *ParseError may wrap; test with errors.Is.
 var (
-	ErrEmpty       = errors.New("file holds no data")
+	ErrEmpty       = errors.New("file holds no data: no line with two or three numbers (2θ in degrees, counts, optional esd) was found")
 	ErrBinary      = errors.New("binary file, not a text export: Reticle reads plain-text columns (2θ, intensity, optional esd) and pdCIF; export the scan in one of those from the instrument's software")
 	ErrColumns     = errors.New("expected 2 or 3 numeric columns (2θ in degrees, intensity, optional esd)")
 	ErrText        = errors.New("text where the data block expects numbers")
