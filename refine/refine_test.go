@@ -289,3 +289,24 @@ func BenchmarkRefine(b *testing.B) {
 		}
 	}
 }
+
+// TestImplausibleCorrections: a model chosen from the data may not refine
+// corrections beyond what an aligned instrument shows (the bounds of
+// select.go); within them it may.
+func TestImplausibleCorrections(t *testing.T) {
+	for _, test := range []struct {
+		v  shifts
+		ok bool
+	}{
+		{shifts{0.05, 0.2, 0}, true},
+		{shifts{-0.19, -0.9, 0.5}, true},
+		{shifts{2.05, 0, 0}, false},
+		{shifts{0, 4.3, 0}, false},
+		{shifts{0, 0, 1.5}, false},
+	} {
+		r := &Result{shifts: test.v}
+		if err := implausible(r); (err == nil) != test.ok {
+			t.Errorf("%v: %v", test.v, err)
+		}
+	}
+}

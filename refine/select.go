@@ -115,6 +115,36 @@ func (s Corrections) models() []Corrections {
 	return out
 }
 
+// The largest corrections a model chosen from the data may refine to
+// (common practice for an aligned laboratory instrument: a zero shift of
+// a few hundredths of a degree, a specimen surface within a few tenths of
+// a millimetre of the focusing circle). A model whose corrections go
+// beyond is absorbing something else — a wrong wavelength, a line
+// profile the fit does not describe, another geometry — and would carry
+// the cell with it.
+const (
+	MaxAutoZero         = 0.2 // degrees 2θ
+	MaxAutoDisplacement = 1.0 // mm
+	MaxAutoTransparency = 1.0 // mm
+)
+
+// implausible says why a fit's corrections are beyond those bounds, or
+// returns nil.
+func implausible(r *Result) error {
+	z, _ := r.Zero()
+	d, _ := r.Displacement()
+	t, _ := r.Transparency()
+	switch {
+	case math.Abs(z) > MaxAutoZero:
+		return fmt.Errorf("zero shift %.3g° beyond ±%g°", z, MaxAutoZero)
+	case math.Abs(d) > MaxAutoDisplacement:
+		return fmt.Errorf("displacement %.3g mm beyond ±%g mm", d, MaxAutoDisplacement)
+	case math.Abs(t) > MaxAutoTransparency:
+		return fmt.Errorf("transparency depth %.3g mm beyond %g mm", t, MaxAutoTransparency)
+	}
+	return nil
+}
+
 // forStandard returns the corrections an internal standard fixes: the set
 // itself, or for Auto the set a standard measures best (zero shift and
 // displacement, common practice) with transparency when asked for.
@@ -147,6 +177,9 @@ func refineAuto(ctx context.Context, c cell.Cell, obs []Observation, opt Options
 		mf := ModelFit{Corrections: m}
 		if err == nil && r.DOF < 1 {
 			err = fmt.Errorf("%d lines leave no degree of freedom", r.Fitted)
+		}
+		if err == nil {
+			err = implausible(r)
 		}
 		if err != nil {
 			if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
