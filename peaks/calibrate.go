@@ -3,6 +3,8 @@ package peaks
 import (
 	"fmt"
 	"math"
+	"runtime"
+	"sync"
 
 	"gonum.org/v1/gonum/stat/distuv"
 )
@@ -81,11 +83,23 @@ func refChi2(md *model, refs []refLine) ([]float64, []int) {
 	defer func() { md.chiTol = 0 }()
 	chi := make([]float64, len(refs))
 	dof := make([]int, len(refs))
-	for k, r := range refs {
-		c := r.c
-		red := md.fitGroup([]*component{c}, r.lo, r.hi, r.base)
-		chi[k], dof[k] = red*float64(c.dof), c.dof
+	// Each line is refitted alone, on its own copy, reading the model
+	// only: the lines are shared among the cores, and each result goes
+	// to its own place, so the outcome does not depend on the schedule.
+	workers := min(runtime.GOMAXPROCS(0), len(refs))
+	var wg sync.WaitGroup
+	for w := 0; w < workers; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for k := w; k < len(refs); k += workers {
+				r := refs[k]
+				red := md.fitGroup([]*component{r.c}, r.lo, r.hi, r.base)
+				chi[k], dof[k] = red*float64(r.c.dof), r.c.dof
+			}
+		}()
 	}
+	wg.Wait()
 	return chi, dof
 }
 
