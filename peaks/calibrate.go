@@ -6,6 +6,7 @@ import (
 	"runtime"
 	"sync"
 
+	"gonum.org/v1/gonum/floats"
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
@@ -110,12 +111,29 @@ func refChi2(md *model, refs []refLine) ([]float64, []int) {
 // so that the lines a model describes within their noise decide, and a
 // line that no trial fits (a blend, a flaw of the sample) cannot.
 func chooseTrial(md *model, refs []refLine, trials []float64, set func(float64)) float64 {
-	chis := make([][]float64, len(trials))
+	chis := make([][]float64, 0, len(trials))
 	var dof []int
-	for k, t := range trials {
+	// The trials go in order, and the summed χ² is smooth in the trial
+	// value: once it has risen twice in a row above the least so far,
+	// the trials beyond cannot win, and are not fitted.
+	least, rises := math.Inf(1), 0
+	for _, t := range trials {
 		set(t)
-		chis[k], dof = refChi2(md, refs)
+		var c []float64
+		c, dof = refChi2(md, refs)
+		chis = append(chis, c)
+		sum := floats.Sum(c)
+		switch {
+		case sum < least:
+			least, rises = sum, 0
+		case len(chis) > 1 && sum > floats.Sum(chis[len(chis)-2]):
+			rises++
+		}
+		if rises == 2 {
+			break
+		}
 	}
+	trials = trials[:len(chis)]
 	scale := make([]float64, len(refs))
 	for i := range refs {
 		scale[i] = math.Inf(1)
