@@ -4,7 +4,9 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"runtime"
 	"sort"
+	"sync"
 
 	"reticle/cell"
 )
@@ -327,6 +329,12 @@ func seed(md *model, cands []candidate, fwhm0 float64, o Options) []*component {
 
 func fitAll(ctx context.Context, md *model, cs, tails []*component, progress func(done, total int), pass int) error {
 	gs := md.groups(cs)
+	if tails == nil {
+		// On the background alone the groups do not depend on one
+		// another: they are fitted on every core, each group by one
+		// worker, so the outcome does not depend on the schedule.
+		return fitIndependent(ctx, md, gs, progress, pass)
+	}
 	for gi, g := range gs {
 		if err := ctx.Err(); err != nil {
 			return err
@@ -356,6 +364,48 @@ func fitAll(ctx context.Context, md *model, cs, tails []*component, progress fun
 		}
 	}
 	return nil
+}
+
+// fitIndependent fits groups whose base is the background alone, on
+// every core.
+func fitIndependent(ctx context.Context, md *model, gs [][]*component, progress func(done, total int), pass int) error {
+	workers := min(runtime.GOMAXPROCS(0), len(gs))
+	var wg sync.WaitGroup
+	var mu sync.Mutex
+	done := 0
+	for w := 0; w < workers; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for gi := w; gi < len(gs); gi += workers {
+				if ctx.Err() != nil {
+					return
+				}
+				g := gs[gi]
+				lo, hi := md.span(g)
+				if hi-lo < 4*len(g)+4 {
+					for _, c := range g {
+						c.sh = math.Inf(1)
+					}
+				} else {
+					base := md.bg[lo:hi]
+					md.fitGroup(g, lo, hi, base)
+					for collapsed(g) {
+						g = dropWeakerPair(g)
+						md.fitGroup(g, lo, hi, base)
+					}
+				}
+				if progress != nil {
+					mu.Lock()
+					done++
+					progress(pass*100+100*done/len(gs), 300)
+					mu.Unlock()
+				}
+			}
+		}()
+	}
+	wg.Wait()
+	return ctx.Err()
 }
 
 // collapsed reports whether two components of a group (sorted by their
