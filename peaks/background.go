@@ -19,10 +19,15 @@ func SNIP(y []float64, halfWidth int) []float64 {
 	}
 	w := make([]float64, n)
 	for p := 1; p <= halfWidth && 2*p < n; p++ {
-		copy(w, v)
+		// The ends are carried over; every interior point is written.
+		copy(w[:p], v[:p])
+		copy(w[n-p:], v[n-p:])
 		for i := p; i < n-p; i++ {
-			if m := 0.5 * (v[i-p] + v[i+p]); m < v[i] {
+			m := 0.5 * (v[i-p] + v[i+p])
+			if m < v[i] {
 				w[i] = m
+			} else {
+				w[i] = v[i]
 			}
 		}
 		v, w = w, v
