@@ -415,6 +415,17 @@ func countForm(f cell.QForm, qmax float64, qs, ws []float64) (int, float64) {
 	for i := range best {
 		best[i] = math.Inf(1)
 	}
+	// start[b] is the first line at or above the bottom of bucket b of
+	// [0, qmax]: a lookup that replaces a search per reflection.
+	const buckets = 64
+	scale := buckets / qmax * (1 - 1e-12)
+	var start [buckets + 1]int
+	for b, j := 0, 0; b <= buckets; b++ {
+		for j < len(qs) && qs[j]*scale < float64(b) {
+			j++
+		}
+		start[b] = j
+	}
 	qn := qs[len(qs)-1] * (1 + 1e-9)
 	nc, total := 0, 0
 	for h := 0; h <= hm; h++ {
@@ -434,8 +445,10 @@ func countForm(f cell.QForm, qmax float64, qs, ws []float64) (int, float64) {
 				continue
 			}
 			sq := math.Sqrt(disc)
-			l0 := max(-lm, int(math.Floor((-bl-sq)/(2*c)))-1)
-			l1 := min(lm, int(math.Ceil((-bl+sq)/(2*c)))+1)
+			// Truncation toward zero, widened by 2 for rounding.
+			inv := 1 / (2 * c)
+			l0 := max(-lm, int((-bl-sq)*inv)-2)
+			l1 := min(lm, int((-bl+sq)*inv)+2)
 			for l := l0; l <= l1; l++ {
 				if h == 0 && k == 0 && l <= 0 {
 					continue
@@ -449,15 +462,10 @@ func countForm(f cell.QForm, qmax float64, qs, ws []float64) (int, float64) {
 				if q <= qn {
 					nc++
 				}
-				// The first line at or above q (binary search).
-				j, hi := 0, len(qs)
-				for j < hi {
-					m := int(uint(j+hi) >> 1)
-					if qs[m] < q {
-						j = m + 1
-					} else {
-						hi = m
-					}
+				// The first line at or above q: from its bucket on.
+				j := start[int(q*scale)]
+				for j < len(qs) && qs[j] < q {
+					j++
 				}
 				if j < len(qs) {
 					if d := qs[j] - q; d < best[j] {
