@@ -208,6 +208,29 @@ func (u *ui) open(path string) {
 // Stop button, so that a scan of a million points does not hold the
 // window; the scan open so far stays until the new one is ready.
 func (u *ui) openWith(path string, s analysis.Settings, solution int) {
+	var ext *analysis.Extraction
+	u.work(fmt.Sprintf("reading %s…", path), func(ctx context.Context, p analysis.Progress) (err error) {
+		ext, err = analysis.ReadExtract(ctx, path, s, p)
+		return err
+	}, func(err error) {
+		if err != nil {
+			if errors.Is(err, context.Canceled) {
+				u.setStatus("stopped reading %s; the scan shown is the one open before", path)
+				return
+			}
+			u.showError("The scan could not be opened", err, "Check that the file is a two- or three-column export (2θ, counts, optional esd) or a powder CIF; the message names the line at fault.")
+			return
+		}
+		u.m.Opened(path, ext, s)
+		u.opened(path, solution)
+	})
+}
+
+// work runs job on a worker, with the progress bar and the Stop button,
+// after cancelling the run still going. done then runs on the UI thread
+// with job's error, unless a later run has started meanwhile: its result
+// is stale and dropped.
+func (u *ui) work(status string, job func(context.Context, analysis.Progress) error, done func(error)) {
 	u.mu.Lock()
 	if u.cancel != nil {
 		u.cancel()
@@ -217,14 +240,14 @@ func (u *ui) openWith(path string, s analysis.Settings, solution int) {
 	u.gen++
 	gen := u.gen
 	u.mu.Unlock()
-	u.setStatus("reading %s…", path)
+	u.setStatus("%s", status)
 	u.progress.Set(0)
 	u.cancelBtn.Enable()
 	u.running.Add(1)
 	go func() {
 		defer u.running.Done()
-		ext, err := analysis.ReadExtract(ctx, path, s, func(stage analysis.Stage, done, total int) {
-			u.progress.Set(analysis.Fraction(stage, done, total))
+		err := job(ctx, func(stage analysis.Stage, n, total int) {
+			u.progress.Set(analysis.Fraction(stage, n, total))
 		})
 		fyne.DoAndWait(func() {
 			u.mu.Lock()
@@ -234,16 +257,7 @@ func (u *ui) openWith(path string, s analysis.Settings, solution int) {
 				return
 			}
 			u.cancelBtn.Disable()
-			if err != nil {
-				if errors.Is(err, context.Canceled) {
-					u.setStatus("stopped reading %s; the scan shown is the one open before", path)
-					return
-				}
-				u.showError("The scan could not be opened", err, "Check that the file is a two- or three-column export (2θ, counts, optional esd) or a powder CIF; the message names the line at fault.")
-				return
-			}
-			u.m.Opened(path, ext, s)
-			u.opened(path, solution)
+			done(err)
 		})
 	}()
 }
@@ -270,62 +284,41 @@ func (u *ui) recomputeThen(after func()) {
 	if u.m.Ext == nil {
 		return
 	}
-	u.mu.Lock()
-	if u.cancel != nil {
-		u.cancel()
-	}
-	ctx, cancel := context.WithCancel(context.Background())
-	u.cancel = cancel
-	u.gen++
-	gen := u.gen
-	u.mu.Unlock()
 	// A copy of what the analysis reads: edits on the UI thread do not
 	// touch it.
 	ext := u.m.Ext.Clone()
 	settings := u.m.Settings.Clone()
-	u.progress.Set(0)
-	u.cancelBtn.Enable()
-	u.setStatus("finding cells…")
-	u.running.Add(1)
-	go func() {
-		defer u.running.Done()
+	var a *analysis.Analysis
+	var took time.Duration
+	u.work("finding cells…", func(ctx context.Context, p analysis.Progress) (err error) {
 		t0 := time.Now()
-		a, err := analysis.Analyse(ctx, ext, settings, func(stage analysis.Stage, done, total int) {
-			u.progress.Set(analysis.Fraction(stage, done, total))
-		})
-		took := time.Since(t0)
-		fyne.DoAndWait(func() {
-			u.mu.Lock()
-			current := gen == u.gen
-			u.mu.Unlock()
-			if !current {
+		a, err = analysis.Analyse(ctx, ext, settings, p)
+		took = time.Since(t0)
+		return err
+	}, func(err error) {
+		if err != nil {
+			if errors.Is(err, context.Canceled) {
+				u.setStatus("stopped; the cells shown are from the last complete run")
 				return
 			}
-			u.cancelBtn.Disable()
-			if err != nil {
-				if errors.Is(err, context.Canceled) {
-					u.setStatus("stopped; the cells shown are from the last complete run")
-					return
-				}
-				u.showError("The analysis failed", err, "Check the settings on the Scan step (wavelength) and the peaks kept on the Peaks step.")
-				return
-			}
-			u.m.Apply(a, took)
-			u.progress.Set(1)
-			u.refreshAll()
-			u.saveAutosave()
-			n := len(a.Candidates)
-			if n == 0 {
-				u.setStatus("%d lines: no cell explains them within the search bounds (%.0f ms)", len(a.Lines), took.Seconds()*1000)
-			} else {
-				c := u.m.Solution().Cell()
-				u.setStatus("%d lines, %d candidate cells in %.0f ms; showing %d: %s %s", len(a.Lines), n, took.Seconds()*1000, u.m.Selected+1, c.System, c.Centring)
-			}
-			if after != nil {
-				after()
-			}
-		})
-	}()
+			u.showError("The analysis failed", err, "Check the settings on the Scan step (wavelength) and the peaks kept on the Peaks step.")
+			return
+		}
+		u.m.Apply(a, took)
+		u.progress.Set(1)
+		u.refreshAll()
+		u.saveAutosave()
+		n := len(a.Candidates)
+		if n == 0 {
+			u.setStatus("%d lines: no cell explains them within the search bounds (%.0f ms)", len(a.Lines), took.Seconds()*1000)
+		} else {
+			c := u.m.Solution().Cell()
+			u.setStatus("%d lines, %d candidate cells in %.0f ms; showing %d: %s %s", len(a.Lines), n, took.Seconds()*1000, u.m.Selected+1, c.System, c.Centring)
+		}
+		if after != nil {
+			after()
+		}
+	})
 }
 
 // wait blocks until the running analyses have finished (tests).

@@ -73,23 +73,7 @@ func (s *Selection) Reason() string {
 	return txt
 }
 
-// Table lists the models compared, one per line.
-func (s *Selection) Table() []string {
-	var out []string
-	for _, m := range s.Models {
-		if m.Err != "" {
-			out = append(out, fmt.Sprintf("%-26s not refined: %s", m.Corrections, m.Err))
-			continue
-		}
-		mark := ""
-		if m.Corrections == s.Chosen {
-			mark = "  ← chosen"
-		}
-		out = append(out, fmt.Sprintf("%-26s χ² %9.2f  ν %3d  %s %9.2f  weight %.3f%s", m.Corrections, m.Chi2, m.DOF, s.Criterion, m.BIC, m.Weight, mark))
-	}
-	return out
-}
-
+// refined counts the models that could be refined.
 func (s *Selection) refined() int {
 	n := 0
 	for _, m := range s.Models {

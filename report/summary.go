@@ -9,7 +9,6 @@ import (
 
 	"reticle/analysis"
 	"reticle/cell"
-	"reticle/esd"
 )
 
 // A SummaryRow is one scan of a batch in the summary table: the file,
@@ -124,16 +123,4 @@ func WriteSummaryJSON(w io.Writer, rows []SummaryRow) error {
 		Version string       `json:"version"`
 		Scans   []SummaryRow `json:"scans"`
 	}{Program, Version, rows})
-}
-
-// SummaryText is the cell of a row as printed in a terminal: the cell
-// text with esds, or the status and error.
-func (r SummaryRow) SummaryText() string {
-	switch r.Status {
-	case StatusOK:
-		return fmt.Sprintf("%s  (volume %s Å³, M%d = %.1f)", r.Cell, esd.Format(r.Volume, r.VolumeESD), r.FigureLines, r.M)
-	case StatusNoCell:
-		return "no cell explains the lines"
-	}
-	return "failed: " + r.Error
 }
