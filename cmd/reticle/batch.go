@@ -137,3 +137,36 @@ func largestFirst(files []string) []int {
 	sort.SliceStable(idx, func(a, b int) bool { return size[idx[a]] > size[idx[b]] })
 	return idx
 }
+
+// finishBatch ends command c's batch: it writes the summary table when
+// base is set, says how many scans failed when there were several, and
+// returns the exit status (status, or 1 when the summary could not be
+// written).
+func finishBatch(c command, base string, rows []report.SummaryRow, force bool, status int, stderr io.Writer) int {
+	name := commandNames[c]
+	if base != "" {
+		written, err := writeSummary(base, rows, force)
+		if err != nil {
+			fmt.Fprintf(stderr, "reticle %s: %v\n", name, err)
+			return 1
+		}
+		for _, f := range written {
+			fmt.Fprintf(stderr, "reticle %s: summary written to %s\n", name, f)
+		}
+	}
+	if failed := countFailed(rows); failed > 0 && len(rows) > 1 {
+		fmt.Fprintf(stderr, "reticle %s: %d of %d scans failed\n", name, failed, len(rows))
+	}
+	return status
+}
+
+// countFailed counts the scans of a batch that failed.
+func countFailed(rows []report.SummaryRow) int {
+	n := 0
+	for _, r := range rows {
+		if r.Status == report.StatusFailed {
+			n++
+		}
+	}
+	return n
+}

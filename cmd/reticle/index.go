@@ -49,20 +49,7 @@ func cmdIndexRun(args []string, stdout, stderr io.Writer) int {
 			return 1
 		}
 	}
-	if r.summary != "" {
-		written, err := writeSummary(r.summary, rows, r.force)
-		if err != nil {
-			fmt.Fprintf(stderr, "reticle index: %v\n", err)
-			return 1
-		}
-		for _, f := range written {
-			fmt.Fprintf(stderr, "reticle index: summary written to %s\n", f)
-		}
-	}
-	if status != 0 && len(files) > 1 {
-		fmt.Fprintf(stderr, "reticle index: %s\n", failedCount(rows))
-	}
-	return status
+	return finishBatch(cmdIndex, r.summary, rows, r.force, status, stderr)
 }
 
 // analyse reads and analyses one scan; sha is the scan's SHA-256 when it
@@ -77,17 +64,6 @@ func analyse(path string, s analysis.Settings) (a *analysis.Analysis, sha string
 		return nil, scan.SHA256, err
 	}
 	return a, scan.SHA256, nil
-}
-
-// failedCount says how many scans of a batch failed.
-func failedCount(rows []report.SummaryRow) string {
-	n := 0
-	for _, r := range rows {
-		if r.Status == report.StatusFailed {
-			n++
-		}
-	}
-	return fmt.Sprintf("%d of %d scans failed", n, len(rows))
 }
 
 func printCandidates(w io.Writer, a *analysis.Analysis) {

@@ -128,18 +128,5 @@ func reportAt(args []string, stdout, stderr io.Writer, date time.Time) int {
 	if base == "" && len(files) > 1 {
 		base = filepath.Join(r.out, "summary")
 	}
-	if base != "" {
-		written, err := writeSummary(base, rows, r.force)
-		if err != nil {
-			fmt.Fprintf(stderr, "reticle report: %v\n", err)
-			return 1
-		}
-		for _, f := range written {
-			fmt.Fprintf(stderr, "reticle report: summary written to %s\n", f)
-		}
-	}
-	if status != 0 && len(files) > 1 {
-		fmt.Fprintf(stderr, "reticle report: %s\n", failedCount(rows))
-	}
-	return status
+	return finishBatch(cmdReport, base, rows, r.force, status, stderr)
 }
