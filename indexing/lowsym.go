@@ -3,7 +3,6 @@ package indexing
 import (
 	"context"
 	"math"
-	"sort"
 	"sync"
 
 	"reticle/cell"
@@ -157,26 +156,7 @@ func candOf(f *fit, first []obs, o Options, need int) *cand {
 }
 
 // bestCands returns up to n cands of highest score, one per cell.
-func bestCands(ks []*cand, n int) []*cand {
-	sort.SliceStable(ks, func(i, j int) bool { return betterCand(ks[i], ks[j]) })
-	var out []*cand
-	for _, k := range ks {
-		dup := false
-		for _, g := range out {
-			if sameCand(k, g) {
-				dup = true
-				break
-			}
-		}
-		if !dup {
-			out = append(out, k)
-			if len(out) == n {
-				break
-			}
-		}
-	}
-	return out
-}
+func bestCands(ks []*cand, n int) []*cand { return bestDistinct(ks, n, betterCand, sameCand) }
 
 // betterCand orders cands by score, then indexed lines, then volume,
 // then deterministically by their cells.

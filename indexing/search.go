@@ -291,19 +291,23 @@ func density(t *trial, q float64) float64 {
 }
 
 // best returns up to n fits of highest M, distinct cells only.
-func best(fs []*fit, n int) []*fit {
-	sort.SliceStable(fs, func(i, j int) bool { return better(fs[i], fs[j]) })
-	var out []*fit
-	for _, f := range fs {
+func best(fs []*fit, n int) []*fit { return bestDistinct(fs, n, better, same) }
+
+// bestDistinct orders xs by better (stably) and returns up to n of them,
+// the first of each group that same says are one.
+func bestDistinct[T any](xs []T, n int, better, same func(a, b T) bool) []T {
+	sort.SliceStable(xs, func(i, j int) bool { return better(xs[i], xs[j]) })
+	var out []T
+	for _, x := range xs {
 		dup := false
-		for _, g := range out {
-			if same(f, g) {
+		for _, y := range out {
+			if same(x, y) {
 				dup = true
 				break
 			}
 		}
 		if !dup {
-			out = append(out, f)
+			out = append(out, x)
 			if len(out) == n {
 				break
 			}
