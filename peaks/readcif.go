@@ -193,20 +193,25 @@ var (
 	cifOtherAxes = []string{"_pd_meas_time_of_flight", "_pd_proc_time_of_flight", "_pd_meas_2theta_fixed", "_pd_meas_detector_energy", "_pd_proc_energy_detection"}
 )
 
+// firstLoop returns the first of tags that the block loops, with its
+// values; nil when it loops none.
+func (b *cifBlock) firstLoop(tags []string) ([]cifValue, string) {
+	for _, t := range tags {
+		if l := b.loops[t]; len(l) > 0 {
+			return l, t
+		}
+	}
+	return nil, ""
+}
+
 // hasPattern reports whether a block holds a looped intensity and angles,
 // a column or a range.
 func (b *cifBlock) hasPattern() bool {
-	y := false
-	for _, t := range cifIntensities {
-		y = y || len(b.loops[t]) > 0
-	}
-	if !y {
+	if y, _ := b.firstLoop(cifIntensities); y == nil {
 		return false
 	}
-	for _, t := range cifAngleColumns {
-		if len(b.loops[t]) > 0 {
-			return true
-		}
+	if x, _ := b.firstLoop(cifAngleColumns); x != nil {
+		return true
 	}
 	for _, r := range cifAngleRanges {
 		if _, ok := b.value(r + "_inc"); ok {
@@ -300,14 +305,7 @@ func parseCIF(file string, data []byte, opt ReadOptions) (*Scan, error) {
 			s.Meta = append(s.Meta, MetaItem{Line: v.line, Key: tag, Value: v.text})
 		}
 	}
-	var ycol []cifValue
-	var ytag string
-	for _, tag := range cifIntensities {
-		if l := b.loops[tag]; len(l) > 0 {
-			ycol, ytag = l, tag
-			break
-		}
-	}
+	ycol, ytag := b.firstLoop(cifIntensities)
 	if ycol == nil {
 		return nil, &ParseError{File: file, Line: b.line, Err: fmt.Errorf("%w: block %s has no looped intensities (%s)", ErrCIFMissing, b.name, strings.Join(cifIntensities, ", "))}
 	}
@@ -388,14 +386,7 @@ func blockNames(bs []*cifBlock) string {
 // note.
 func cifAngles(file string, b *cifBlock, s *Scan, ycol []cifValue, ytag string) ([]float64, error) {
 	xs := make([]float64, len(ycol))
-	var xcol []cifValue
-	var xtag string
-	for _, t := range cifAngleColumns {
-		if l := b.loops[t]; len(l) > 0 {
-			xcol, xtag = l, t
-			break
-		}
-	}
+	xcol, xtag := b.firstLoop(cifAngleColumns)
 	var rng [3]float64
 	var rtag string
 	for _, r := range cifAngleRanges {
