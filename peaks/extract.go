@@ -339,31 +339,37 @@ func fitAll(ctx context.Context, md *model, cs, tails []*component, progress fun
 		if err := ctx.Err(); err != nil {
 			return err
 		}
-		lo, hi := md.span(g)
-		if hi-lo < 4*len(g)+4 {
-			for _, c := range g {
-				c.sh = math.Inf(1)
-			}
-			continue
-		}
-		var base []float64
-		if tails != nil {
-			base = md.baseFor(tails, g, lo, hi)
-		} else {
-			base = md.bg[lo:hi]
-		}
-		md.fitGroup(g, lo, hi, base)
-		// Two components that slid onto one another describe one peak:
-		// keep the stronger and fit again.
-		for collapsed(g) {
-			g = dropWeakerPair(g)
-			md.fitGroup(g, lo, hi, base)
-		}
+		md.fitOne(g, tails)
 		if progress != nil {
 			progress(pass*100+100*(gi+1)/len(gs), 300)
 		}
 	}
 	return nil
+}
+
+// fitOne fits one group over its span, on the background plus the tails
+// of the components tails holds outside it (the background alone when
+// tails is nil). A group with too few points for its parameters is
+// marked unfitted.
+func (md *model) fitOne(g, tails []*component) {
+	lo, hi := md.span(g)
+	if hi-lo < 4*len(g)+4 {
+		for _, c := range g {
+			c.sh = math.Inf(1)
+		}
+		return
+	}
+	base := md.bg[lo:hi]
+	if tails != nil {
+		base = md.baseFor(tails, g, lo, hi)
+	}
+	md.fitGroup(g, lo, hi, base)
+	// Two components that slid onto one another describe one peak:
+	// keep the stronger and fit again.
+	for collapsed(g) {
+		g = dropWeakerPair(g)
+		md.fitGroup(g, lo, hi, base)
+	}
 }
 
 // fitIndependent fits groups whose base is the background alone, on
@@ -381,20 +387,7 @@ func fitIndependent(ctx context.Context, md *model, gs [][]*component, progress 
 				if ctx.Err() != nil {
 					return
 				}
-				g := gs[gi]
-				lo, hi := md.span(g)
-				if hi-lo < 4*len(g)+4 {
-					for _, c := range g {
-						c.sh = math.Inf(1)
-					}
-				} else {
-					base := md.bg[lo:hi]
-					md.fitGroup(g, lo, hi, base)
-					for collapsed(g) {
-						g = dropWeakerPair(g)
-						md.fitGroup(g, lo, hi, base)
-					}
-				}
+				md.fitOne(gs[gi], nil)
 				if progress != nil {
 					mu.Lock()
 					done++
