@@ -276,6 +276,11 @@ type PlausibleZ struct {
 	Typical, Likeliest bool
 }
 
+// maxPlausible bounds the list of plausible Z: a huge cell with a small
+// formula (a typing slip) would otherwise list hundreds; a list that long
+// decides nothing.
+const maxPlausible = 64
+
 // plausible lists the multiples of the lattice points lp that give at
 // least MinAtomVolume per atom, smallest Z first, marking the typical
 // ones and the likeliest.
@@ -292,7 +297,7 @@ func plausible(f Formula, v, uv, m, um float64, lp int) []PlausibleZ {
 	var out []PlausibleZ
 	best, bestDist := -1, math.Inf(1)
 	for z := lp; ; z += lp {
-		if v/(float64(z)*atoms) < MinAtomVolume || len(out) == 64 {
+		if v/(float64(z)*atoms) < MinAtomVolume || len(out) == maxPlausible {
 			break
 		}
 		p := PlausibleZ{Z: z, AtomVolume: v / (float64(z) * per), Kind: kind.kind}
