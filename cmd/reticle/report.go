@@ -1,7 +1,6 @@
 package main
 
 import (
-	"context"
 	"errors"
 	"fmt"
 	"io"
@@ -10,7 +9,6 @@ import (
 	"path/filepath"
 	"time"
 
-	"reticle/analysis"
 	"reticle/report"
 )
 
@@ -85,15 +83,10 @@ func reportAt(args []string, stdout, stderr io.Writer, date time.Time) int {
 	forEach(len(files), r.jobs, stderr, "reporting", largestFirst(files), func(i int) {
 		path := files[i]
 		o := &outs[i]
-		scan, err := analysis.Read(path, settings)
-		if err != nil {
-			o.err, rows[i] = err, report.NewSummaryRow(path, "", nil, err)
-			return
+		a, sha, err := analyse(path, settings)
+		if wantSHA != "" && sha != "" && sha != wantSHA {
+			o.note = fmt.Sprintf("warning: %s has changed since the session was saved (SHA-256 %s, session %s)", path, sha, wantSHA)
 		}
-		if wantSHA != "" && scan.SHA256 != wantSHA {
-			o.note = fmt.Sprintf("warning: %s has changed since the session was saved (SHA-256 %s, session %s)", path, scan.SHA256, wantSHA)
-		}
-		a, err := analysis.Run(context.Background(), scan, settings, nil)
 		if err == nil && chosen > 0 {
 			if err = a.Choose(chosen - 1); err != nil {
 				err = fmt.Errorf("%s: %w", path, err)
@@ -103,10 +96,10 @@ func reportAt(args []string, stdout, stderr io.Writer, date time.Time) int {
 			o.written, err = report.WriteAll(r.out, a, pp, date, r.force)
 		}
 		if err != nil {
-			o.err, rows[i] = err, report.NewSummaryRow(path, scan.SHA256, nil, err)
+			o.err, rows[i] = err, report.NewSummaryRow(path, sha, nil, err)
 			return
 		}
-		rows[i] = report.NewSummaryRow(path, scan.SHA256, a, nil)
+		rows[i] = report.NewSummaryRow(path, sha, a, nil)
 	})
 	status := 0
 	for _, o := range outs {
