@@ -2,7 +2,6 @@ package peaks
 
 import (
 	"math"
-	"sort"
 )
 
 // SNIP estimates a slowly varying background under peaks by the
@@ -22,13 +21,9 @@ func SNIP(y []float64, halfWidth int) []float64 {
 		// The ends are carried over; every interior point is written.
 		copy(w[:p], v[:p])
 		copy(w[n-p:], v[n-p:])
-		for i := p; i < n-p; i++ {
-			m := 0.5 * (v[i-p] + v[i+p])
-			if m < v[i] {
-				w[i] = m
-			} else {
-				w[i] = v[i]
-			}
+		lo, mid, hi, out := v[:n-2*p], v[p:n-p], v[2*p:], w[p:n-p]
+		for i := range out {
+			out[i] = min(0.5*(lo[i]+hi[i]), mid[i])
 		}
 		v, w = w, v
 	}
@@ -213,6 +208,5 @@ func noiseScale(y, net, sigma []float64) float64 {
 	if len(t) < 20 {
 		return 1
 	}
-	sort.Float64s(t)
-	return 1.4826 * t[len(t)/2]
+	return 1.4826 * nth(t, len(t)/2)
 }

@@ -107,3 +107,15 @@ func BenchmarkRead(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkSNIP clips the background of 10,000 points with a window of
+// 75 points each side, the size of a fine laboratory scan.
+func BenchmarkSNIP(b *testing.B) {
+	y := make([]float64, 10000)
+	for i := range y {
+		y[i] = 200 + 50*math.Sin(float64(i)/700) + float64(i%37)
+	}
+	for b.Loop() {
+		SNIP(y, 75)
+	}
+}

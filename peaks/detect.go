@@ -1,7 +1,9 @@
 package peaks
 
 import (
+	"cmp"
 	"math"
+	"slices"
 	"sort"
 )
 
@@ -23,7 +25,7 @@ func estimateFWHM(x, net []float64, step float64) float64 {
 			ms = append(ms, mx{i, s[i]})
 		}
 	}
-	sort.Slice(ms, func(a, b int) bool { return ms[a].v > ms[b].v || ms[a].v == ms[b].v && ms[a].i < ms[b].i })
+	slices.SortFunc(ms, func(a, b mx) int { return cmp.Or(cmp.Compare(b.v, a.v), cmp.Compare(a.i, b.i)) })
 	var ws []float64
 	var taken []int
 	for _, m := range ms {

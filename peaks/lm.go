@@ -37,23 +37,28 @@ func normal(prob *lsqProblem, idx []int, np int, m, jac []float64, a *mat.SymDen
 	k := len(idx)
 	acc := make([]float64, k*k)
 	gv := make([]float64, k)
-	row := make([]float64, k)
+	// A line's derivatives vanish beyond its reach, so each point's row
+	// is gathered as its non-zero entries (column, value) only.
+	col := make([]int, k)
+	val := make([]float64, k)
 	for i := range m {
 		wi := prob.w[i]
 		ri := wi * (prob.y[i] - m[i])
 		base := jac[i*np : (i+1)*np]
+		nz := 0
 		for r, j := range idx {
-			row[r] = base[j]
-		}
-		for r := 0; r < k; r++ {
-			v := wi * row[r]
-			if v == 0 {
-				continue
+			if v := base[j]; v != 0 {
+				col[nz], val[nz] = r, v
+				nz++
 			}
-			gv[r] += row[r] * ri
+		}
+		for e := 0; e < nz; e++ {
+			r, vr := col[e], val[e]
+			gv[r] += vr * ri
+			v := wi * vr
 			ar := acc[r*k : (r+1)*k]
-			for c := r; c < k; c++ {
-				ar[c] += v * row[c]
+			for f := e; f < nz; f++ {
+				ar[col[f]] += v * val[f]
 			}
 		}
 	}

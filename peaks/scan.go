@@ -67,8 +67,7 @@ func (s *Scan) Step() float64 {
 	for i := 1; i < n; i++ {
 		d[i-1] = s.TwoTheta[i] - s.TwoTheta[i-1]
 	}
-	sort.Float64s(d)
-	return d[len(d)/2]
+	return nth(d, len(d)/2)
 }
 
 // Sigma returns the standard deviation of point i: the esd column when
@@ -237,8 +236,7 @@ func (s *Scan) checkNoise(net bool) {
 		if len(t) == 0 {
 			return math.NaN()
 		}
-		sort.Float64s(t)
-		return 1.4826 * t[len(t)/2]
+		return 1.4826 * nth(t, len(t)/2)
 	}
 	counts := spread(func(i int) float64 { return math.Sqrt(math.Max(s.Intensity[i], 1)) })
 	constant := spread(func(int) float64 { return 1 })

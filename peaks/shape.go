@@ -2,7 +2,7 @@ package peaks
 
 import (
 	"math"
-	"sort"
+	"slices"
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distuv"
@@ -209,12 +209,12 @@ func shapeCurve(md *model, cs []*component, o Options, fwhm0 float64) (Caglioti,
 
 func median(v []float64) float64 {
 	s := append([]float64(nil), v...)
-	sort.Float64s(s)
 	n := len(s)
+	hi := nth(s, n/2)
 	if n%2 == 1 {
-		return s[n/2]
+		return hi
 	}
-	return 0.5 * (s[n/2-1] + s[n/2])
+	return 0.5 * (slices.Max(s[:n/2]) + hi)
 }
 
 // misfit estimates how far the line shape departs from the profile model,
