@@ -4,8 +4,11 @@ import (
 	"bytes"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"path/filepath"
+	"runtime"
+	"runtime/debug"
 	"sort"
 	"strings"
 	"sync"
@@ -51,6 +54,10 @@ func expandInputs(args []string) []string {
 	return out
 }
 
+// batchMemory is the heap size, in bytes, beyond which a batch collects
+// garbage as often as it must to stay there.
+const batchMemory = 2 << 30
+
 // forEach calls work(i) for i in [0, n) on jobs goroutines and, when
 // stderr is a terminal and there is more than one item, shows a progress
 // bar there. Each work(i) writes only its own results, so the caller
@@ -58,6 +65,22 @@ func expandInputs(args []string) []string {
 // order in which to start the items (the largest first keeps every core
 // busy to the end).
 func forEach(n, jobs int, stderr io.Writer, label string, order []int, work func(i int)) {
+	// --jobs N holds the whole run to N cores, since each analysis also
+	// spreads its own work over the cores it may use.
+	if jobs < runtime.GOMAXPROCS(0) {
+		defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(max(jobs, 1)))
+	}
+	if n > 1 {
+		// Analyses running side by side allocate at once and share one
+		// collector; collecting when the heap has grown by four times the
+		// live data instead of once keeps the cores on the analyses (2
+		// jobs on the 34 public scans: 0.54 of the time of 1 job instead
+		// of 0.58). Past batchMemory the collector works harder instead.
+		defer debug.SetGCPercent(debug.SetGCPercent(400))
+		if debug.SetMemoryLimit(-1) == math.MaxInt64 {
+			defer debug.SetMemoryLimit(debug.SetMemoryLimit(batchMemory))
+		}
+	}
 	jobs = max(1, min(jobs, n))
 	var bar *progressbar.ProgressBar
 	if f, ok := stderr.(*os.File); ok && n > 1 && isTerminal(f) {

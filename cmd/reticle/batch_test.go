@@ -3,8 +3,10 @@ package main
 import (
 	"encoding/csv"
 	"encoding/json"
+	"io"
 	"os"
 	"path/filepath"
+	"runtime"
 	"strings"
 	"testing"
 )
@@ -86,5 +88,28 @@ func TestBatch(t *testing.T) {
 	}
 	if _, err := os.Stat(base + ".csv"); err != nil {
 		t.Error(err)
+	}
+}
+
+// TestJobsHoldCores checks that --jobs N holds the run to N cores while
+// it lasts and gives the process its cores back afterwards.
+func TestJobsHoldCores(t *testing.T) {
+	before := runtime.GOMAXPROCS(0)
+	if before < 2 {
+		t.Skip("one core: nothing to hold back")
+	}
+	seen := make([]int, 3)
+	forEach(len(seen), 1, io.Discard, "test", nil, func(i int) { seen[i] = runtime.GOMAXPROCS(0) })
+	for i, c := range seen {
+		if c != 1 {
+			t.Errorf("item %d ran with %d cores, want 1", i, c)
+		}
+	}
+	if after := runtime.GOMAXPROCS(0); after != before {
+		t.Errorf("after the run: %d cores, want %d", after, before)
+	}
+	forEach(2, before, io.Discard, "test", nil, func(i int) { seen[i] = runtime.GOMAXPROCS(0) })
+	if seen[0] != before {
+		t.Errorf("with --jobs %d: %d cores", before, seen[0])
 	}
 }

@@ -239,7 +239,7 @@ var options = []option{
 		help: "regenerate from a session file of the desktop program or an earlier report's JSON",
 		set:  func(r *request, v string) error { r.session = v; return nil }},
 	{name: "jobs", arg: "N", in: cmdIndex | cmdReport, def: "every core (" + strconv.Itoa(runtime.NumCPU()) + " here)",
-		help: "scans analysed at once",
+		help: "scans analysed at once; the run uses at most N cores",
 		set: func(r *request, v string) error {
 			n, err := strconv.Atoi(v)
 			if err != nil || n < 1 {
