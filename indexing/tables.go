@@ -7,7 +7,6 @@ import "reticle/cell"
 const tableSize = 4096
 
 var (
-	sum3   [tableSize]bool // n = h²+k²+l² for some integers
 	sum2   [tableSize]bool // m = h²+k²
 	loesch [tableSize]bool // m = h²+hk+k²
 )
@@ -16,9 +15,6 @@ func init() {
 	for h := 0; h*h < tableSize; h++ {
 		for k := 0; h*h+k*k < tableSize; k++ {
 			sum2[h*h+k*k] = true
-			for l := 0; h*h+k*k+l*l < tableSize; l++ {
-				sum3[h*h+k*k+l*l] = true
-			}
 		}
 	}
 	for h := 0; h*h < tableSize; h++ {
@@ -28,11 +24,11 @@ func init() {
 	}
 }
 
-// isSum3 reports whether n is a sum of three squares (Legendre: n is not of
-// the form 4^a(8b+7)).
+// isSum3 reports whether n ≥ 0 is a sum of three squares (Legendre: n is
+// not of the form 4^a(8b+7)).
 func isSum3(n int) bool {
-	if n < tableSize {
-		return sum3[n]
+	if n == 0 {
+		return true
 	}
 	for n%4 == 0 {
 		n /= 4

@@ -4,16 +4,15 @@ import (
 	"bytes"
 	"fmt"
 	"io"
-	"math"
 	"os"
 	"path/filepath"
 	"runtime"
-	"runtime/debug"
 	"sort"
 	"strings"
 	"sync"
 
-	"github.com/schollz/progressbar/v3"
+	"github.com/vbauerster/mpb/v8"
+	"github.com/vbauerster/mpb/v8/decor"
 
 	"reticle/report"
 )
@@ -54,10 +53,6 @@ func expandInputs(args []string) []string {
 	return out
 }
 
-// batchMemory is the heap size, in bytes, beyond which a batch collects
-// garbage as often as it must to stay there.
-const batchMemory = 2 << 30
-
 // forEach calls work(i) for i in [0, n) on jobs goroutines and, when
 // stderr is a terminal and there is more than one item, shows a progress
 // bar there. Each work(i) writes only its own results, so the caller
@@ -70,22 +65,14 @@ func forEach(n, jobs int, stderr io.Writer, label string, order []int, work func
 	if jobs < runtime.GOMAXPROCS(0) {
 		defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(max(jobs, 1)))
 	}
-	if n > 1 {
-		// Analyses running side by side allocate at once and share one
-		// collector; collecting when the heap has grown by four times the
-		// live data instead of once keeps the cores on the analyses (2
-		// jobs on the 34 public scans: 0.54 of the time of 1 job instead
-		// of 0.58). Past batchMemory the collector works harder instead.
-		defer debug.SetGCPercent(debug.SetGCPercent(400))
-		if debug.SetMemoryLimit(-1) == math.MaxInt64 {
-			defer debug.SetMemoryLimit(debug.SetMemoryLimit(batchMemory))
-		}
-	}
 	jobs = max(1, min(jobs, n))
-	var bar *progressbar.ProgressBar
+	var bars *mpb.Progress
+	var bar *mpb.Bar
 	if f, ok := stderr.(*os.File); ok && n > 1 && isTerminal(f) {
-		bar = progressbar.NewOptions(n, progressbar.OptionSetWriter(f), progressbar.OptionSetDescription(label),
-			progressbar.OptionShowCount(), progressbar.OptionClearOnFinish())
+		bars = mpb.New(mpb.WithOutput(f), mpb.WithWidth(40))
+		bar = bars.AddBar(int64(n), mpb.BarRemoveOnComplete(),
+			mpb.PrependDecorators(decor.Name(label+" "), decor.CountersNoUnit("%d/%d")),
+			mpb.AppendDecorators(decor.Percentage()))
 	}
 	next := make(chan int)
 	var wg sync.WaitGroup
@@ -96,7 +83,7 @@ func forEach(n, jobs int, stderr io.Writer, label string, order []int, work func
 			for i := range next {
 				work(i)
 				if bar != nil {
-					bar.Add(1)
+					bar.Increment()
 				}
 			}
 		}()
@@ -110,8 +97,8 @@ func forEach(n, jobs int, stderr io.Writer, label string, order []int, work func
 	}
 	close(next)
 	wg.Wait()
-	if bar != nil {
-		bar.Finish()
+	if bars != nil {
+		bars.Wait()
 	}
 }
 
