@@ -111,13 +111,9 @@ func binMean(x, y []float64, k int) ([]float64, []float64) {
 // boxcar returns the moving average over 2h+1 points (shorter at the ends).
 func boxcar(y []float64, h int) []float64 {
 	s := runningSum(y, h)
-	one := make([]float64, len(y))
-	for i := range one {
-		one[i] = 1
-	}
-	c := runningSum(one, h)
+	n := len(y)
 	for i := range s {
-		s[i] /= c[i]
+		s[i] /= float64(min(i+h, n-1) - max(i-h, 0) + 1)
 	}
 	return s
 }

@@ -32,15 +32,15 @@ type lsqResult struct {
 var errSingular = errors.New("normal matrix is singular")
 
 // normal fills the normal matrix a (k×k, free parameters idx) and the
-// gradient g = JᵀW(y − m).
-func normal(prob *lsqProblem, idx []int, np int, m, jac []float64, a *mat.SymDense, g *mat.VecDense) {
+// gradient g = JᵀW(y − m), working in the scratch ws (k·k + 2k numbers)
+// and col (k indices).
+func normal(prob *lsqProblem, idx []int, np int, m, jac []float64, a *mat.SymDense, g *mat.VecDense, ws []float64, col []int) {
 	k := len(idx)
-	acc := make([]float64, k*k)
-	gv := make([]float64, k)
+	acc, gv, val := ws[:k*k], ws[k*k:k*k+k], ws[k*k+k:k*k+2*k]
+	clear(acc)
+	clear(gv)
 	// A line's derivatives vanish beyond its reach, so each point's row
 	// is gathered as its non-zero entries (column, value) only.
-	col := make([]int, k)
-	val := make([]float64, k)
 	for i := range m {
 		wi := prob.w[i]
 		ri := wi * (prob.y[i] - m[i])
@@ -111,6 +111,8 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 	trial := make([]float64, np)
 	mt := make([]float64, n)
 	delta := mat.NewVecDense(k, nil)
+	ws := make([]float64, k*k+2*k)
+	col := make([]int, k)
 	tol := prob.chiTol
 	if tol == 0 {
 		tol = 1e-4
@@ -118,7 +120,7 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 	iter := 0
 	for done := false; iter < maxIter && !done; iter++ {
 		prob.eval(p, m, jac)
-		normal(prob, idx, np, m, jac, a, g)
+		normal(prob, idx, np, m, jac, a, g, ws, col)
 		improved := false
 		for tries := 0; tries < 10; tries++ {
 			for r := 0; r < k; r++ {
@@ -169,7 +171,7 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 	// position of a peak whose height went to zero) is left out and gets
 	// an infinite variance.
 	prob.eval(p, m, jac)
-	normal(prob, idx, np, m, jac, a, nil)
+	normal(prob, idx, np, m, jac, a, nil, ws, col)
 	var keep []int
 	var dmax float64
 	for r := 0; r < k; r++ {
