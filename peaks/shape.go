@@ -172,7 +172,17 @@ func shapeCurve(md *model, cs []*component, o Options, fwhm0 float64) (Caglioti,
 		return Caglioti{W: fwhm0 * fwhm0}, eta, law, asym
 	}
 	flat := Caglioti{W: sq(median(ws))}
+	if len(ws) < 2 {
+		return flat, eta, law, asym
+	}
 	if len(ws) < 4 {
+		// Two or three widths: the constant and the tan²θ term, which
+		// carry most of the broadening of a laboratory instrument (the
+		// divergence and the sample), so that lines far from those
+		// measured are not taken for blends because they are wider.
+		if c, ok := widthLaw(xs, ws); ok {
+			return c, eta, law, asym
+		}
 		return flat, eta, law, asym
 	}
 	a := mat.NewDense(len(xs), 3, nil)
@@ -215,6 +225,35 @@ func median(v []float64) float64 {
 		return hi
 	}
 	return 0.5 * (slices.Max(s[:n/2]) + hi)
+}
+
+// widthLaw fits FWHM² = U tan²θ + W to the widths ws at 2θ = xs
+// (degrees) by least squares; it fails unless both terms come out
+// positive and the law is within 30 % of every width.
+func widthLaw(xs, ws []float64) (Caglioti, bool) {
+	var stt, st, sy, sty float64
+	for i, x := range xs {
+		t := sq(math.Tan(x * deg / 2))
+		stt += t * t
+		st += t
+		sy += ws[i] * ws[i]
+		sty += t * ws[i] * ws[i]
+	}
+	n := float64(len(xs))
+	det := n*stt - st*st
+	if !(det > 1e-12*n*stt) {
+		return Caglioti{}, false
+	}
+	c := Caglioti{U: (n*sty - st*sy) / det, W: (stt*sy - st*sty) / det}
+	if !(c.U > 0 && c.W > 0) {
+		return Caglioti{}, false
+	}
+	for i, x := range xs {
+		if r := c.At(x) / ws[i]; r < 0.7 || r > 1.4 {
+			return Caglioti{}, false
+		}
+	}
+	return c, true
 }
 
 // misfit estimates how far the line shape departs from the profile model,
