@@ -172,9 +172,11 @@ func Analyse(ctx context.Context, e *Extraction, s Settings, progress Progress) 
 	}
 	lambda := pr.Radiation.Lambda1
 	var lines []cell.Line
+	widths := map[float64]float64{} // FWHM of the line at each 2θ
 	for _, p := range a.Peaks {
 		if !p.Companion() && !p.Rejected {
 			lines = append(lines, cell.Line{TwoTheta: p.TwoTheta, ESD: pr.LineESD(p.Peak), Intensity: p.Area})
+			widths[p.TwoTheta] = p.FWHM
 		}
 	}
 	ro := s.refineOptions(lambda)
@@ -206,7 +208,7 @@ func Analyse(ctx context.Context, e *Extraction, s Settings, progress Progress) 
 			progress(StageRefinement, i, len(res.Solutions))
 		}
 		c := Candidate{Rank: i + 1, Solution: sol}
-		c.Refined, c.RefineErr = refineSolution(ctx, sol, a.StandardLines, ro, s.Excluded)
+		c.Refined, c.RefineErr = refineSolution(ctx, sol, a.StandardLines, ro, s.Excluded, widths)
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
@@ -226,12 +228,12 @@ func Analyse(ctx context.Context, e *Extraction, s Settings, progress Progress) 
 
 // refineSolution refines a solution's cell against its indexed lines
 // (and the internal standard's), leaving out those within EditTolerance
-// of an angle in excluded.
-func refineSolution(ctx context.Context, sol indexing.Solution, std []refine.Observation, opt refine.Options, excluded []float64) (*refine.Result, error) {
+// of an angle in excluded; widths holds each line's FWHM by its 2θ.
+func refineSolution(ctx context.Context, sol indexing.Solution, std []refine.Observation, opt refine.Options, excluded []float64, widths map[float64]float64) (*refine.Result, error) {
 	var obs []refine.Observation
 	for _, l := range sol.Lines {
 		if l.Indexed && l.ESD > 0 {
-			obs = append(obs, refine.Observation{Line: cell.Line{TwoTheta: l.TwoTheta, ESD: l.ESD}, HKL: l.HKL, Excluded: within(l.TwoTheta, excluded)})
+			obs = append(obs, refine.Observation{Line: cell.Line{TwoTheta: l.TwoTheta, ESD: l.ESD}, HKL: l.HKL, Excluded: within(l.TwoTheta, excluded), Width: widths[l.TwoTheta]})
 		}
 	}
 	obs = append(obs, std...)
@@ -279,7 +281,7 @@ func RefineCell(ctx context.Context, e *Extraction, c cell.Cell, s Settings) (*r
 	var obs []refine.Observation
 	for _, p := range e.peaks() {
 		if !p.Companion() && !within(p.TwoTheta, s.Rejected) {
-			obs = append(obs, refine.Observation{Line: cell.Line{TwoTheta: p.TwoTheta, ESD: e.Result.LineESD(p)}, Excluded: within(p.TwoTheta, s.Excluded)})
+			obs = append(obs, refine.Observation{Line: cell.Line{TwoTheta: p.TwoTheta, ESD: e.Result.LineESD(p)}, Excluded: within(p.TwoTheta, s.Excluded), Width: p.FWHM})
 		}
 	}
 	opt := s.refineOptions(e.Result.Radiation.Lambda1)

@@ -204,7 +204,7 @@ func assign(c cell.Cell, lines []Observation, o Options, v shifts, m Matching, w
 			unmatched = append(unmatched, l.Line)
 			continue
 		}
-		ob := Observation{Line: l.Line, HKL: a.hkl, Excluded: l.Excluded, ambiguous: na+nb > 1}
+		ob := Observation{Line: l.Line, HKL: a.hkl, Excluded: l.Excluded, Width: l.Width, ambiguous: na+nb > 1}
 		if okB {
 			ob.HKL, ob.Standard = b.hkl, true
 		}

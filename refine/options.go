@@ -48,6 +48,9 @@ type Options struct {
 	Scaling Scaling
 	// MaxIterations bounds the Gauss–Newton iterations. Zero means 100.
 	MaxIterations int
+
+	// blended marks observations whose esds already include blendESDs.
+	blended bool
 }
 
 // Resolved returns the options with every zero field at its default.
@@ -77,6 +80,11 @@ type Observation struct {
 	// Excluded lines take no part in the fit; their residuals are still
 	// reported.
 	Excluded bool
+	// Width is the FWHM of the observed peak, degrees 2θ; zero when
+	// unknown. A line with another calculated line of its phase closer
+	// than its width is an unresolved blend, and its esd is widened (see
+	// blendESD).
+	Width float64
 
 	ambiguous bool // a widened assignment window held several lines
 }

@@ -29,6 +29,9 @@ func Refine(ctx context.Context, c cell.Cell, obs []Observation, opt Options) (*
 	if err := c.Check(); err != nil {
 		return nil, fmt.Errorf("refine: %w: %v", ErrCell, err)
 	}
+	if !opt.blended {
+		obs = blendESDs(c, obs, opt.Wavelength)
+	}
 	var own, std []int
 	for i, o := range obs {
 		if !(o.ESD > 0) || math.IsInf(o.ESD, 0) || math.IsNaN(o.TwoTheta) {

@@ -310,3 +310,17 @@ func TestImplausibleCorrections(t *testing.T) {
 		}
 	}
 }
+
+// BenchmarkRefineAuto refines with the corrections chosen from the data:
+// four models and the bootstrap of the choice.
+func BenchmarkRefineAuto(b *testing.B) {
+	rng := rand.New(rand.NewPCG(1, 1))
+	c := testCells[1]
+	obs := synthLines(truth{cell: c, zero: 0.03, disp: 0.05, radius: 240}, rng)
+	opt := Options{Wavelength: cuKa1, Corrections: Auto}
+	for b.Loop() {
+		if _, err := Refine(context.Background(), c, obs, opt); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

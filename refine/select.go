@@ -29,14 +29,27 @@ type ModelFit struct {
 // A Selection records how the corrections were chosen from the data.
 //
 // Every model is refined by least squares; the one of lowest BIC
-// (Schwarz, Ann. Stat. 6 (1978) 461) is chosen. The choice itself is
-// uncertain when several models are close in BIC, and the cell of the
-// chosen model alone would then claim too small an esd: the covariance of
-// the cell is widened by the spread of the models' cells about the chosen
-// one, Σ wᵢ [Cᵢ + (pᵢ − p)(pᵢ − p)ᵀ], with wᵢ the BIC weights — the
-// unconditional variance of model averaging (Buckland, Burnham &
-// Augustin, Biometrics 53 (1997) 603; from memory). When one model
-// dominates, as with strong data, the widening vanishes.
+// (Schwarz, Ann. Stat. 6 (1978) 461) is chosen. The cell of the chosen
+// model alone would claim too small an esd: the choice itself is
+// uncertain, and a smaller model leaves out a correction that may be
+// there. The covariance reported is that of the whole procedure, found by
+// a parametric bootstrap (Efron, J. Am. Stat. Assoc. 109 (2014) 991;
+// from memory): line positions are drawn about those of the model with
+// the most corrections, each with its esd; every model is refitted to
+// each draw (by its fit linearised at its solution) and the one of lowest
+// BIC kept; the scatter of the kept cells about that model's cell is the
+// covariance. It includes both the
+// scatter of the choice and the bias of leaving a correction out. When
+// the draws cannot be refined the covariance is the unconditional
+// variance of model averaging, Σ wᵢ [Cᵢ + (pᵢ − p)(pᵢ − p)ᵀ] with wᵢ the
+// BIC weights (Buckland, Burnham & Augustin, Biometrics 53 (1997) 603;
+// from memory).
+//
+// Measured on 300 simulated laboratory scans with random zero shifts and
+// displacements (TestCoverage), the refined cell lies within 1 and 2 of
+// these esds of the truth about as often as a normal distribution says;
+// on scans with no instrument errors at all they are cautious, since the
+// data cannot tell a correction of exactly zero from a small one.
 type Selection struct {
 	Criterion string // "BIC"
 	Models    []ModelFit
@@ -200,7 +213,14 @@ func refineAuto(ctx context.Context, c cell.Cell, obs []Observation, opt Options
 	}
 	res := fits[best]
 	sel.Chosen = res.Corrections
-	sel.Widening = widen(res, fits, sel.Models)
+	before := maxESD(res.ESD)
+	if !bootstrap(res, fits, opt) {
+		widen(res, fits, sel.Models)
+	}
+	sel.Widening = 1
+	if before > 0 {
+		sel.Widening = maxESD(res.ESD) / before
+	}
 	res.Selection = sel
 	// The chosen model's correlation warnings stand, except the advice to
 	// refine only one of zero shift and displacement: the choice has
@@ -217,9 +237,8 @@ func refineAuto(ctx context.Context, c cell.Cell, obs []Observation, opt Options
 
 // widen replaces the covariance of res (the chosen fit) by the weighted
 // average over the fits of their covariance plus the outer product of
-// their parameters' distance from res, in the union of all parameters,
-// and returns the factor by which the largest cell esd grew.
-func widen(res *Result, fits []*Result, models []ModelFit) float64 {
+// their parameters' distance from res, in the union of all parameters.
+func widen(res *Result, fits []*Result, models []ModelFit) {
 	// Union coordinates: the chosen fit's parameter names, in order.
 	names := make([]string, len(res.Params))
 	for i, p := range res.Params {
@@ -265,7 +284,13 @@ func widen(res *Result, fits []*Result, models []ModelFit) float64 {
 			}
 		}
 	}
-	before := maxESD(res.ESD)
+	setCovariance(res, c6, pc)
+}
+
+// setCovariance replaces the covariance of res by c6 (the cell's six
+// parameters) and pc (its refined parameters, in order), with the esds
+// and correlations that follow.
+func setCovariance(res *Result, c6 cell.Covariance, pc [][]float64) {
 	res.Covariance = c6
 	res.ESD = c6.ESD()
 	res.VolumeESD = res.Cell.VolumeESD(c6)
@@ -275,14 +300,10 @@ func widen(res *Result, fits []*Result, models []ModelFit) float64 {
 		for j := range res.Params {
 			res.Correlation[i][j] = pc[i][j] / math.Sqrt(pc[i][i]*pc[j][j])
 		}
-		if ci := corrIndex(names[i]); ci >= 0 {
+		if ci := corrIndex(res.Params[i].Name); ci >= 0 {
 			res.shiftESDs[ci] = res.Params[i].ESD
 		}
 	}
-	if before == 0 {
-		return 1
-	}
-	return maxESD(res.ESD) / before
 }
 
 // maxESD is the largest esd of the cell's edges, Å.
