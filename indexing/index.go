@@ -74,11 +74,19 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 		notes = append(notes, fmt.Sprintf("with fewer than %d lines the zero offset is held at 0", minZeroLines))
 	}
 	// Unindexed lines allowed among the first: MaxImpurities, or
-	// DefaultImpurityShare of them (rounded down) by default.
+	// DefaultImpurityShare of them (rounded down) and every line weaker
+	// than WeakLine by default; at least a cubic cell's lines must be
+	// indexed.
 	allow := o.MaxImpurities
 	switch {
 	case allow == 0:
 		allow = int(DefaultImpurityShare * float64(n))
+		for _, l := range first {
+			if l.rel >= 0 && l.rel < WeakLine {
+				allow++
+			}
+		}
+		allow = max(0, min(allow, n-minLines(cell.Cubic)))
 	case allow < 0:
 		allow = 0
 	}

@@ -127,3 +127,30 @@ func TestAntifluorite(t *testing.T) {
 	ls := modelLines(want, cuKa1, 120, nil, 0.04, 0.05, 4)
 	first(t, "lithium oxide", ls, cuKa1, want)
 }
+
+// TestWeakForeignLines: silicon (diamond structure, a = 5.4309 Å,
+// handbook value from memory) with Cu K-alpha1 below 140°, and nine weak
+// lines of a foreign phase (0.5 % of the strongest, at angles at least
+// 0.2° from every line a cubic cell of silicon's edge could have, so that
+// none speaks for another centring) among its first twenty: more unindexed lines than
+// DefaultImpurityShare allows, all weaker than WeakLine. The silicon cell
+// comes first by default; with no impurities allowed it cannot.
+func TestWeakForeignLines(t *testing.T) {
+	si := cell.Must(cell.Cubic, cell.F, 5.4309)
+	absent := func(h cell.HKL) bool { // d-glide of Fd-3m: h+k+l = 4n+2 absent when all even
+		return h[0]%2 == 0 && h[1]%2 == 0 && h[2]%2 == 0 && ((h[0]+h[1]+h[2])%4+4)%4 == 2
+	}
+	ls := modelLines(si, cuKa1, 140, absent, 0, 0, 5)
+	top := 0.0
+	for _, l := range ls {
+		top = math.Max(top, l.Intensity)
+	}
+	for _, tt := range []float64{20.5, 24.3, 26.1, 31.9, 35.2, 41.0, 43.7, 50.6, 52.1} {
+		ls = append(ls, cell.Line{TwoTheta: tt, ESD: 0.005, Intensity: 0.005 * top})
+	}
+	first(t, "silicon with nine weak foreign lines", ls, cuKa1, si)
+	res, err := Index(context.Background(), ls, Options{Wavelength: cuKa1, MaxImpurities: -1}, nil)
+	if err == nil && len(res.Solutions) > 0 && res.Solutions[0].Cell.System == cell.Cubic && math.Abs(res.Solutions[0].Cell.A-si.A) < 5e-4*si.A {
+		t.Errorf("with no impurities allowed the silicon cell still came first: %v", res.Solutions[0])
+	}
+}

@@ -11,6 +11,7 @@ import (
 	"reticle/analysis"
 	"reticle/cell"
 	"reticle/density"
+	"reticle/indexing"
 	"reticle/peaks"
 	"reticle/refine"
 )
@@ -114,7 +115,7 @@ var options = []option{
 	{name: "search-lower", in: cmdIndex | cmdReport,
 		help: "search the lower systems even when a higher cell explains the lines",
 		set:  func(r *request, _ string) error { r.settings.SearchLower = true; return nil }},
-	{name: "impurities", arg: "N", in: cmdIndex | cmdReport, def: "35 % of the lines",
+	{name: "impurities", arg: "N", in: cmdIndex | cmdReport, def: fmt.Sprintf("%g %% of the lines, and every line below %g %% of the strongest", 100*indexing.DefaultImpurityShare, 100*indexing.WeakLine),
 		help: "lines among the first 20 that may stay unindexed, 0 for none (each also costs its cell by its strength)",
 		set: func(r *request, v string) error {
 			n, err := strconv.Atoi(v)
