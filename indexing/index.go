@@ -187,6 +187,10 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 	} else {
 		res.Stop = "every system asked for was searched"
 	}
+	if sc := supercells(ranked, first, o, need); len(sc) > 0 {
+		pool = append(pool, sc...)
+		ranked = rankCands(pool, first, all, o)
+	}
 	for _, k := range ranked {
 		if len(res.Solutions) == o.MaxSolutions {
 			break

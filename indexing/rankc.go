@@ -180,7 +180,21 @@ func preferCentringCand(a, b *cand, ls []obs, lambda float64) bool {
 	if a.nCalc < b.nCalc {
 		more, less = b, a
 	}
+	if significantExtra(more, less, ls, lambda) {
+		return a == more
+	}
+	return betterCand(a, b)
+}
+
+// significantExtra reports whether the lines that more indexes and less
+// does not are more than chance would give (Poisson tail below 1 %): the
+// expected number is that of lines falling within 2.5 rms residuals of
+// one of the extra calculated lines of more, spread evenly in Q^(3/2).
+func significantExtra(more, less *cand, ls []obs, lambda float64) bool {
 	extraCalc := float64(more.nCalc - less.nCalc)
+	if extraCalc <= 0 {
+		return false
+	}
 	var ss float64
 	nb := 0
 	for i, l := range ls {
@@ -207,10 +221,7 @@ func preferCentringCand(a, b *cand, ls []obs, lambda float64) bool {
 			k++
 		}
 	}
-	if k > 0 && poissonTail(k, expect) < 0.01 {
-		return a == more
-	}
-	return betterCand(a, b)
+	return k > 0 && poissonTail(k, expect) < 0.01
 }
 
 // confidence returns how clearly the first cand beats the next one that

@@ -154,3 +154,36 @@ func TestWeakForeignLines(t *testing.T) {
 		t.Errorf("with no impurities allowed the silicon cell still came first: %v", res.Solutions[0])
 	}
 }
+
+// TestSuperstructure: an orthorhombic cell (a = 5.2, b = 6.1, c = 7.8 Å,
+// invented) whose lines with l odd are weak (4 % of the model
+// intensity), as a superstructure doubling c makes them. The subcell of
+// half c indexes every strong line; the whole cell, which indexes the
+// weak ones too, must come first.
+func TestSuperstructure(t *testing.T) {
+	want := cell.Must(cell.Orthorhombic, cell.P, 5.2, 6.1, 7.8)
+	ls := modelLines(want, cuKa1, 90, nil, 0, 0, 9)
+	for i := range ls {
+		q := qOf(ls[i].TwoTheta, 0, cuKa1)
+		odd := true
+		for _, h := range allHKL(want, q) {
+			if h[2]%2 == 0 {
+				odd = false
+			}
+		}
+		if odd {
+			ls[i].Intensity *= 0.04
+		}
+	}
+	res, err := Index(context.Background(), ls, Options{Wavelength: cuKa1}, nil)
+	if err != nil || len(res.Solutions) == 0 {
+		t.Fatalf("no solution: %v", err)
+	}
+	got := res.Solutions[0].Cell
+	if got.System != cell.Orthorhombic || math.Abs(got.Volume()-want.Volume()) > 1e-3*want.Volume() {
+		t.Errorf("first %v (V = %.1f Å³), want %v (V = %.1f Å³)", got, got.Volume(), want, want.Volume())
+		for i, s := range res.Solutions[1:min(len(res.Solutions), 4)] {
+			t.Logf("  %d: %v", i+2, s)
+		}
+	}
+}

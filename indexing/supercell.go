@@ -1,0 +1,75 @@
+package indexing
+
+import "reticle/cell"
+
+// superProbes is the number of the best cells whose doubled cells are
+// tried when they leave lines unindexed.
+const superProbes = 3
+
+// supercells returns the cells, refined and scored on the first lines,
+// made by doubling one axis of each of the superProbes best cands that
+// leave some of those lines unindexed, when the doubled cell indexes more
+// of them than its extra calculated lines would by chance (see
+// significantExtra): a superstructure's weak extra lines are exactly the
+// lines its subcell cannot index, while a foreign phase's fall anywhere.
+func supercells(ranked []*cand, first []obs, o Options, need int) []*cand {
+	var out []*cand
+	for _, k := range ranked[:min(len(ranked), superProbes)] {
+		if k.indexed == len(first) {
+			continue
+		}
+		for _, c := range doubled(k.c) {
+			s := &cand{c: c, zero: k.zero, zeroFree: k.zeroFree}
+			if !s.settle(first, o.Wavelength, 0, need) || s.indexed <= k.indexed {
+				continue
+			}
+			s.figures(first, o.Wavelength)
+			if s.m > 0 && significantExtra(s, k, first, o.Wavelength) {
+				out = append(out, s)
+			}
+		}
+	}
+	return out
+}
+
+// doubled returns the cells with one axis of c doubled that keep its
+// system: any axis of an orthorhombic or monoclinic cell, the c axis of a
+// tetragonal or hexagonal one. Each comes primitive, and also centred
+// where the centring translation of c has no part along the doubled axis
+// (C when c doubles: a C or F cell keeps the C translation).
+func doubled(c cell.Cell) []cell.Cell {
+	var axes []int
+	switch c.System {
+	case cell.Orthorhombic, cell.Monoclinic:
+		axes = []int{0, 1, 2}
+	case cell.Tetragonal, cell.Hexagonal:
+		axes = []int{2}
+	default:
+		return nil
+	}
+	p := c.Params()
+	var out []cell.Cell
+	for _, ax := range axes {
+		q := p
+		q[ax] *= 2
+		cens := []cell.Centring{cell.P}
+		if ax == 2 && (c.Centring == cell.C || c.Centring == cell.F) && c.System != cell.Tetragonal {
+			cens = append(cens, cell.C)
+		}
+		for _, cen := range cens {
+			var free []float64
+			switch c.System {
+			case cell.Tetragonal, cell.Hexagonal:
+				free = []float64{q[0], q[2]}
+			case cell.Orthorhombic:
+				free = []float64{q[0], q[1], q[2]}
+			case cell.Monoclinic:
+				free = []float64{q[0], q[1], q[2], q[4]}
+			}
+			if d, err := cell.New(c.System, cen, free...); err == nil {
+				out = append(out, d)
+			}
+		}
+	}
+	return out
+}
