@@ -55,15 +55,20 @@ func rankCands(ks []*cand, ls, all []obs, o Options) []*cand {
 		}
 	}
 	// A supercell (its calculated lines include all of another cell's,
-	// its volume at least 1.5 times larger) that indexes no more lines
-	// is the same answer with more unobserved lines: it goes.
+	// its volume at least 1.5 times larger) that indexes no more of the
+	// first lines is the same answer with more unobserved lines: it goes,
+	// unless over all lines it indexes more lines, and those beyond
+	// chance or with fewer calculated lines (see dominatedOnAll).
 	for i := range ks {
 		for j := range ks {
 			a, b := ks[i], ks[j]
 			if i == j || drop[i] || drop[j] || calc[i] == nil || calc[j] == nil {
 				continue
 			}
-			if b.c.Volume() < 1.5*a.c.Volume() || b.indexed > a.indexed || b.later > a.later*(1+1e-9) && a.later > 0 {
+			if b.c.Volume() < 1.5*a.c.Volume() || b.indexed > a.indexed {
+				continue
+			}
+			if b.later > a.later*(1+1e-9) && a.later > 0 && !dominatedOnAll(b, a, all, o.Wavelength) {
 				continue
 			}
 			if covers(calc[j], calc[i]) {
@@ -241,6 +246,20 @@ func confidence(ks []*cand) float64 {
 		}
 	}
 	return math.Inf(1)
+}
+
+// dominatedOnAll reports whether, over all lines, the supercell more
+// predicts more calculated lines than less and indexes no more lines
+// than those extra calculated lines would by chance (see
+// significantExtra): the same answer with more unobserved lines.
+func dominatedOnAll(more, less *cand, all []obs, lambda float64) bool {
+	gm := &cand{c: more.c, zero: more.zero, zeroFree: more.zeroFree}
+	gl := &cand{c: less.c, zero: less.zero, zeroFree: less.zeroFree}
+	gm.assign(all, lambda, 0)
+	gl.assign(all, lambda, 0)
+	gm.figures(all, lambda)
+	gl.figures(all, lambda)
+	return gm.nCalc > gl.nCalc && !significantExtra(gm, gl, all, lambda)
 }
 
 // beyondChance returns the chance-corrected share of all lines that a
