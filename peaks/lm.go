@@ -118,9 +118,12 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 		tol = 1e-4
 	}
 	iter := 0
+	// fresh: the normal matrix a was formed at the current p.
+	fresh := false
 	for done := false; iter < maxIter && !done; iter++ {
 		prob.eval(p, m, jac)
 		normal(prob, idx, np, m, jac, a, g, ws, col)
+		fresh = true
 		improved := false
 		for tries := 0; tries < 10; tries++ {
 			for r := 0; r < k; r++ {
@@ -153,6 +156,7 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 				dec := cur - c
 				rel := dec / math.Max(cur, 1e-300)
 				copy(p, trial)
+				fresh = false
 				cur = c
 				lambda = math.Max(lambda/10, 1e-9)
 				improved = true
@@ -170,8 +174,10 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 	// Covariance at the solution. A parameter with no influence (the
 	// position of a peak whose height went to zero) is left out and gets
 	// an infinite variance.
-	prob.eval(p, m, jac)
-	normal(prob, idx, np, m, jac, a, nil, ws, col)
+	if !fresh {
+		prob.eval(p, m, jac)
+		normal(prob, idx, np, m, jac, a, nil, ws, col)
+	}
 	var keep []int
 	var dmax float64
 	for r := 0; r < k; r++ {
