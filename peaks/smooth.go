@@ -28,7 +28,24 @@ func smooth(y, sigma, c []float64) (s, ss []float64) {
 	h := len(c) / 2
 	s = make([]float64, n)
 	ss = make([]float64, n)
+	c2 := make([]float64, len(c))
+	for k, x := range c {
+		c2[k] = x * x
+	}
+	for i := h; i < n-h; i++ {
+		// Away from the ends the window needs no mirroring.
+		var a, v float64
+		yw, sw := y[i-h:i+h+1], sigma[i-h:i+h+1]
+		for k, ck := range c {
+			a += ck * yw[k]
+			v += c2[k] * sw[k] * sw[k]
+		}
+		s[i], ss[i] = a, math.Sqrt(v)
+	}
 	for i := 0; i < n; i++ {
+		if i == h && h < n-h {
+			i = n - h // the interior is done
+		}
 		var a, v float64
 		for k := -h; k <= h; k++ {
 			j := i + k
