@@ -3,6 +3,7 @@ package peaks
 import (
 	"errors"
 	"math"
+	"sync"
 
 	"gonum.org/v1/gonum/mat"
 )
@@ -30,6 +31,29 @@ type lsqResult struct {
 }
 
 var errSingular = errors.New("normal matrix is singular")
+
+// lmScratch is the working memory of one fit, reused through lmPool: a
+// scan's thousands of fits would otherwise each take fresh memory, which
+// a short-lived process pays for in page faults.
+type lmScratch struct {
+	f []float64
+	i []int
+}
+
+var lmPool = sync.Pool{New: func() any { return new(lmScratch) }}
+
+// take returns nf zeroed numbers and ni indices of the scratch.
+func (s *lmScratch) take(nf, ni int) ([]float64, []int) {
+	if cap(s.f) < nf {
+		s.f = make([]float64, nf)
+	}
+	if cap(s.i) < ni {
+		s.i = make([]int, ni)
+	}
+	f := s.f[:nf]
+	clear(f)
+	return f, s.i[:ni]
+}
 
 // normal fills the normal matrix a (k×k, free parameters idx) and the
 // gradient g = JᵀW(y − m), working in the scratch ws (k·k + 2k numbers)
@@ -91,8 +115,16 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 		return nil, errSingular
 	}
 	p := append([]float64(nil), p0...)
-	m := make([]float64, n)
-	jac := make([]float64, n*np)
+	sc := lmPool.Get().(*lmScratch)
+	defer lmPool.Put(sc)
+	f, col := sc.take(3*n+n*np+np+4*k*k+5*k, k)
+	cut := func(l int) []float64 {
+		s := f[:l:l]
+		f = f[l:]
+		return s
+	}
+	m := cut(n)
+	jac := cut(n * np)
 	chi2 := func(p []float64, m []float64) float64 {
 		prob.eval(p, m, nil)
 		var s float64
@@ -104,15 +136,14 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 	}
 	cur := chi2(p, m)
 	lambda := 1e-3
-	a := mat.NewSymDense(k, nil)
-	damped := make([]float64, k*k)
-	chol := make([]float64, k*k)
-	g := mat.NewVecDense(k, nil)
-	trial := make([]float64, np)
-	mt := make([]float64, n)
-	delta := mat.NewVecDense(k, nil)
-	ws := make([]float64, k*k+2*k)
-	col := make([]int, k)
+	a := mat.NewSymDense(k, cut(k*k))
+	damped := cut(k * k)
+	chol := cut(k * k)
+	g := mat.NewVecDense(k, cut(k))
+	trial := cut(np)
+	mt := cut(n)
+	delta := mat.NewVecDense(k, cut(k))
+	ws := cut(k*k + 2*k)
 	tol := prob.chiTol
 	if tol == 0 {
 		tol = 1e-4
@@ -196,14 +227,14 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 	if kk == 0 {
 		return nil, errSingular
 	}
-	sc := make([]float64, kk)
-	for r := range sc {
-		sc[r] = 1 / math.Sqrt(a.At(keep[r], keep[r]))
+	scale := make([]float64, kk)
+	for r := range scale {
+		scale[r] = 1 / math.Sqrt(a.At(keep[r], keep[r]))
 	}
 	ak := mat.NewSymDense(kk, nil)
 	for r := 0; r < kk; r++ {
 		for c := r; c < kk; c++ {
-			ak.SetSym(r, c, a.At(keep[r], keep[c])*sc[r]*sc[c])
+			ak.SetSym(r, c, a.At(keep[r], keep[c])*scale[r]*scale[c])
 		}
 	}
 	var fac mat.Cholesky
@@ -220,7 +251,7 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 	}
 	for r := 0; r < kk; r++ {
 		for c := r; c < kk; c++ {
-			cov.SetSym(idx[keep[r]], idx[keep[c]], inv.At(r, c)*sc[r]*sc[c])
+			cov.SetSym(idx[keep[r]], idx[keep[c]], inv.At(r, c)*scale[r]*scale[c])
 		}
 	}
 	return &lsqResult{p: p, cov: cov, chi2: cur, dof: n - k, iter: iter}, nil
