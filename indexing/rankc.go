@@ -20,11 +20,24 @@ const parsimonyLevel = 0.001
 // more when it indexes as many lines and the extra parameters do not
 // improve the fit significantly (see moreParsimonious).
 func rankCands(ks []*cand, ls, all []obs, o Options) []*cand {
+	// Each cand indexed over all lines, made once and kept: for the
+	// share of all lines indexed and for the supercell rule.
+	whole := make(map[*cand]*cand, len(ks))
+	onAll := func(k *cand) *cand {
+		g, ok := whole[k]
+		if !ok {
+			g = &cand{c: k.c, zero: k.zero, zeroFree: k.zeroFree}
+			g.assign(all, o.Wavelength, 0)
+			g.figures(all, o.Wavelength)
+			whole[k] = g
+		}
+		return g
+	}
 	// Lines beyond the first N count too: the share of all lines
 	// indexed beyond chance, to the fourth power.
 	if len(all) > len(ls) {
 		for _, k := range ks {
-			k.later = math.Pow(beyondChance(k, all, o.Wavelength), 4)
+			k.later = math.Pow(onAll(k).kappa(all, o.Wavelength), 4)
 		}
 	}
 	ks = bestCands(ks, len(ks))
@@ -58,7 +71,7 @@ func rankCands(ks []*cand, ls, all []obs, o Options) []*cand {
 	// its volume at least 1.5 times larger) that indexes no more of the
 	// first lines is the same answer with more unobserved lines: it goes,
 	// unless over all lines it indexes more lines, and those beyond
-	// chance or with fewer calculated lines (see dominatedOnAll).
+	// chance or with fewer calculated lines (see dominated).
 	for i := range ks {
 		for j := range ks {
 			a, b := ks[i], ks[j]
@@ -68,12 +81,13 @@ func rankCands(ks []*cand, ls, all []obs, o Options) []*cand {
 			if b.c.Volume() < 1.5*a.c.Volume() || b.indexed > a.indexed {
 				continue
 			}
-			if b.later > a.later*(1+1e-9) && a.later > 0 && !dominatedOnAll(b, a, all, o.Wavelength) {
+			if !covers(calc[j], calc[i]) {
 				continue
 			}
-			if covers(calc[j], calc[i]) {
-				drop[j] = true
+			if b.later > a.later*(1+1e-9) && a.later > 0 && !dominated(onAll(b), onAll(a), all, o.Wavelength) {
+				continue
 			}
+			drop[j] = true
 		}
 	}
 	// One cell, two centrings.
@@ -248,24 +262,10 @@ func confidence(ks []*cand) float64 {
 	return math.Inf(1)
 }
 
-// dominatedOnAll reports whether, over all lines, the supercell more
-// predicts more calculated lines than less and indexes no more lines
-// than those extra calculated lines would by chance (see
-// significantExtra): the same answer with more unobserved lines.
-func dominatedOnAll(more, less *cand, all []obs, lambda float64) bool {
-	gm := &cand{c: more.c, zero: more.zero, zeroFree: more.zeroFree}
-	gl := &cand{c: less.c, zero: less.zero, zeroFree: less.zeroFree}
-	gm.assign(all, lambda, 0)
-	gl.assign(all, lambda, 0)
-	gm.figures(all, lambda)
-	gl.figures(all, lambda)
-	return gm.nCalc > gl.nCalc && !significantExtra(gm, gl, all, lambda)
-}
-
-// beyondChance returns the chance-corrected share of all lines that a
-// cell indexes (see kappa).
-func beyondChance(k *cand, all []obs, lambda float64) float64 {
-	g := &cand{c: k.c, zero: k.zero}
-	g.assign(all, lambda, 0)
-	return g.kappa(all, lambda)
+// dominated reports whether, over all lines (more and less indexed on
+// them), the supercell more predicts more calculated lines than less and
+// indexes no more lines than those extra calculated lines would by chance
+// (see significantExtra): the same answer with more unobserved lines.
+func dominated(more, less *cand, all []obs, lambda float64) bool {
+	return more.nCalc > less.nCalc && !significantExtra(more, less, all, lambda)
 }
