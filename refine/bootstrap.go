@@ -157,14 +157,16 @@ func bootstrap(res *Result, fits []*Result, opt Options) bool {
 	}
 	rng := rand.New(rand.NewPCG(seed, 0x5e1ec7))
 
-	value := func(r *Result, name string) float64 {
-		if p, ok := r.Param(name); ok {
-			return p.Value
-		}
-		return 0
-	}
 	p0 := ref.Cell.Params()
 	np := len(res.Params)
+	// The reference's value of each reported parameter; 0 for a
+	// correction it does not refine.
+	refValue := make([]float64, np)
+	for i, p := range res.Params {
+		if q, ok := ref.Param(p.Name); ok {
+			refValue[i] = q.Value
+		}
+	}
 	pc := make([][]float64, np)
 	for i := range pc {
 		pc[i] = make([]float64, np)
@@ -173,7 +175,6 @@ func bootstrap(res *Result, fits []*Result, opt Options) bool {
 	u := mat.NewVecDense(n, nil)
 	e := make([]float64, np)
 	eps := make([]float64, n)
-	logn := math.Log(float64(n))
 	for b := 0; b < BootstrapRounds; b++ {
 		for r := range eps {
 			eps[r] = spread * rng.NormFloat64()
@@ -196,11 +197,11 @@ func bootstrap(res *Result, fits []*Result, opt Options) bool {
 			for c, i := range l.corr {
 				v[i] += delta.AtVec(l.nr + c)
 			}
-			if math.Abs(v[0]) > MaxAutoZero || math.Abs(v[1]) > MaxAutoDisplacement || math.Abs(v[2]) > MaxAutoTransparency {
+			if v.implausible() != nil {
 				continue
 			}
-			if bic := chi2 + float64(len(l.res.Params))*logn; bic < least {
-				kept, least = l, bic
+			if b := bic(chi2, len(l.res.Params), n); b < least {
+				kept, least = l, b
 				keptDelta = append(keptDelta[:0], delta.RawVector().Data...)
 			}
 		}
@@ -231,7 +232,7 @@ func bootstrap(res *Result, fits []*Result, opt Options) bool {
 			} else {
 				v = q[paramIndex(p.Name)]
 			}
-			e[i] = v - value(ref, p.Name)
+			e[i] = v - refValue[i]
 		}
 		for i := range e {
 			for j := range e {

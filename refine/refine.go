@@ -169,11 +169,7 @@ func (res *Result) fill(cov *mat.SymDense, nr int, fromStandard bool) {
 	free := res.Cell.System.FreeNames()
 	idx := make([]int, len(free)) // rows of j6 that are free parameters
 	for k, name := range free {
-		for i, pn := range cell.ParamNames {
-			if pn == name {
-				idx[k] = i
-			}
-		}
+		idx[k] = paramIndex(name)
 	}
 	// K maps (coefficients, corrections) to (free cell parameters,
 	// corrections).

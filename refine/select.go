@@ -125,12 +125,18 @@ const (
 	MaxAutoTransparency = 1.0 // mm
 )
 
+// bic is Schwarz's criterion for a least-squares fit with known weights
+// of k parameters to n lines: χ² + k·ln n.
+func bic(chi2 float64, k, n int) float64 { return chi2 + float64(k)*math.Log(float64(n)) }
+
 // implausible says why a fit's corrections are beyond those bounds, or
 // returns nil.
-func implausible(r *Result) error {
-	z, _ := r.Zero()
-	d, _ := r.Displacement()
-	t, _ := r.Transparency()
+func implausible(r *Result) error { return r.shifts.implausible() }
+
+// implausible says why corrections are beyond those bounds, or returns
+// nil.
+func (v shifts) implausible() error {
+	z, d, t := v[0], v[1], v[2]
 	switch {
 	case math.Abs(z) > MaxAutoZero:
 		return fmt.Errorf("zero shift %.3g° beyond ±%g°", z, MaxAutoZero)
@@ -163,6 +169,10 @@ func refineAuto(ctx context.Context, c cell.Cell, obs []Observation, opt Options
 		opt.Corrections = opt.Corrections.forStandard()
 		return Refine(ctx, c, obs, opt)
 	}
+	// The blends' esds depend on the cell alone: found once for every
+	// model.
+	obs = blendESDs(c, obs, opt.Wavelength)
+	opt.blended = true
 	sel := &Selection{Criterion: "BIC"}
 	var fits []*Result
 	var firstErr error
@@ -191,7 +201,7 @@ func refineAuto(ctx context.Context, c cell.Cell, obs []Observation, opt Options
 			continue
 		}
 		mf.Params, mf.Chi2, mf.DOF = len(r.Params), r.Chi2, r.DOF
-		mf.BIC = r.Chi2 + float64(mf.Params)*math.Log(float64(r.Fitted))
+		mf.BIC = bic(r.Chi2, mf.Params, r.Fitted)
 		sel.Models = append(sel.Models, mf)
 		fits = append(fits, r)
 		if best < 0 || mf.BIC < sel.Models[best].BIC {
