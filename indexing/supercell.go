@@ -56,16 +56,16 @@ func doubled(c cell.Cell) []cell.Cell {
 		if ax == 2 && (c.Centring == cell.C || c.Centring == cell.F) && c.System != cell.Tetragonal {
 			cens = append(cens, cell.C)
 		}
-		for _, cen := range cens {
-			var free []float64
-			switch c.System {
-			case cell.Tetragonal, cell.Hexagonal:
-				free = []float64{q[0], q[2]}
-			case cell.Orthorhombic:
-				free = []float64{q[0], q[1], q[2]}
-			case cell.Monoclinic:
-				free = []float64{q[0], q[1], q[2], q[4]}
+		// The system's free parameters, in its order.
+		var free []float64
+		for _, name := range c.System.FreeNames() {
+			for i, pn := range cell.ParamNames {
+				if pn == name {
+					free = append(free, q[i])
+				}
 			}
+		}
+		for _, cen := range cens {
 			if d, err := cell.New(c.System, cen, free...); err == nil {
 				out = append(out, d)
 			}
