@@ -67,6 +67,11 @@ func TestBatch(t *testing.T) {
 		if filepath.Base(r[0]) != n || r[2] != want {
 			t.Errorf("row %d: %v", i+1, r[:4])
 		}
+		// A scan that fails is still identified by its bytes (digest
+		// of "not a scan\n" from sha256sum, GNU coreutils).
+		if want == "failed" && r[1] != "009aa247953d2983cf9c257f5ab544e43205f22a9f47f2e8b663d42668bafbd1" {
+			t.Errorf("row %d SHA-256 %q", i+1, r[1])
+		}
 		if want == "ok" && !strings.HasPrefix(r[6], "cubic F a=8.08") {
 			t.Errorf("row %d cell %q", i+1, r[6])
 		}

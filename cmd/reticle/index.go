@@ -2,8 +2,11 @@ package main
 
 import (
 	"context"
+	"crypto/sha256"
+	"encoding/hex"
 	"fmt"
 	"io"
+	"os"
 	"strings"
 	"text/tabwriter"
 
@@ -52,12 +55,17 @@ func cmdIndexRun(args []string, stdout, stderr io.Writer) int {
 	return finishBatch(cmdIndex, r.summary, rows, r.force, status, stderr)
 }
 
-// analyse reads and analyses one scan; sha is the scan's SHA-256 when it
-// could be read.
+// analyse reads and analyses one scan; sha is the SHA-256 of the file's
+// bytes whenever they could be read, so that a scan that fails is still
+// identified in the summary.
 func analyse(path string, s analysis.Settings) (a *analysis.Analysis, sha string, err error) {
 	scan, err := analysis.Read(path, s)
 	if err != nil {
-		return nil, "", err
+		if data, rerr := os.ReadFile(path); rerr == nil {
+			sum := sha256.Sum256(data)
+			sha = hex.EncodeToString(sum[:])
+		}
+		return nil, sha, err
 	}
 	a, err = analysis.Run(context.Background(), scan, s, nil)
 	if err != nil {
