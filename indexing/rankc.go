@@ -140,18 +140,18 @@ func rankCands(ks []*cand, ls, all []obs, o Options) []*cand {
 }
 
 // moreParsimonious reports whether b, with fewer free parameters than a,
-// explains the lines as well: it indexes as many, or fewer when the lines
-// a alone indexes are no more than its extra calculated lines would catch
-// by chance (see significantExtra), leaves no strong line that a
-// indexes, predicts not many more lines (at most a quarter more), scores
-// at least a tenth of a, and a's χ² is not lower by more than the F-test
-// at parsimonyLevel allows for a's extra parameters.
+// explains the lines as well: it indexes as many lines, strong ones
+// included, or the lines a alone indexes are no more than a's extra
+// calculated lines would catch by chance (see significantExtra); it
+// predicts not many more lines (at most a quarter more), scores at least
+// a tenth of a, and a's χ² is not lower by more than the F-test at
+// parsimonyLevel allows for a's extra parameters.
 func moreParsimonious(b, a *cand, ls []obs, lambda float64) bool {
 	pb, pa := b.nparams(), a.nparams()
-	if pb >= pa || b.strong && !a.strong || a.dof <= 0 || b.dof <= 0 {
+	if pb >= pa || a.dof <= 0 || b.dof <= 0 {
 		return false
 	}
-	if b.indexed < a.indexed && significantExtra(a, b, ls, lambda) {
+	if (b.indexed < a.indexed || b.strong && !a.strong) && significantExtra(a, b, ls, lambda) {
 		return false
 	}
 	// A cell that predicts many more lines than the other (a supercell,

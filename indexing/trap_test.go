@@ -2,6 +2,7 @@ package indexing
 
 import (
 	"context"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"strings"
@@ -184,6 +185,37 @@ func TestSuperstructure(t *testing.T) {
 		t.Errorf("first %v (V = %.1f Å³), want %v (V = %.1f Å³)", got, got.Volume(), want, want.Volume())
 		for i, s := range res.Solutions[1:min(len(res.Solutions), 4)] {
 			t.Logf("  %d: %v", i+2, s)
+		}
+	}
+}
+
+// TestForeignLinesByChance: silicon to 100° 2θ (seven lines) with the two
+// strongest lines of a zinc impurity (hexagonal, a = 2.665 Å, c = 4.947 Å,
+// from memory), weak and strong, with and without a zero shift. Cells of
+// more parameters (an orthorhombic description of silicon's lattice, a
+// triclinic cell of nine lines) find room for one or both of them; the
+// lines they index beyond silicon's are no more than their extra
+// calculated lines catch by chance, and the cubic cell must come first.
+func TestForeignLinesByChance(t *testing.T) {
+	si := cell.Must(cell.Cubic, cell.F, 5.4309)
+	absent := func(h cell.HKL) bool { // d-glide of Fd-3m
+		return h[0]%2 == 0 && h[1]%2 == 0 && h[2]%2 == 0 && ((h[0]+h[1]+h[2])%4+4)%4 == 2
+	}
+	zn := cell.Must(cell.Hexagonal, cell.P, 2.665, 4.947)
+	for _, share := range []float64{0.1, 0.4} {
+		for _, zero := range []float64{0, 0.04} {
+			for seed := uint64(1); seed <= 3; seed++ {
+				ls := modelLines(si, cuKa1, 100, absent, zero, 0, seed)
+				top := 0.0
+				for _, l := range ls {
+					top = math.Max(top, l.Intensity)
+				}
+				for _, h := range []cell.HKL{{0, 0, 2}, {1, 0, 1}} {
+					tt := cell.TwoTheta(zn.D(h), cuKa1) + zero
+					ls = append(ls, cell.Line{TwoTheta: tt, ESD: 0.005, Intensity: share * top})
+				}
+				first(t, fmt.Sprintf("silicon with two zinc lines of %g of its strongest, zero %g°, noise %d", share, zero, seed), ls, cuKa1, si)
+			}
 		}
 	}
 }
