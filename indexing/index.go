@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"sync"
 
@@ -187,7 +188,7 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 	} else {
 		res.Stop = "every system asked for was searched"
 	}
-	if sc := supercells(ranked, first, o, need); len(sc) > 0 {
+	if sc := append(supercells(ranked, first, o, need), subcells(ranked, first, o, need)...); len(sc) > 0 {
 		pool = append(pool, sc...)
 		ranked = rankCands(pool, first, all, o)
 	}
@@ -195,7 +196,14 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 		if len(res.Solutions) == o.MaxSolutions {
 			break
 		}
-		res.Solutions = append(res.Solutions, solutionOf(k, all, first, o))
+		// Two cands of one lattice can refine to one cell: it is
+		// listed once, at the better rank.
+		sol := solutionOf(k, all, first, o)
+		if !slices.ContainsFunc(res.Solutions, func(s Solution) bool {
+			return s.Cell.System == sol.Cell.System && s.Cell.Centring == sol.Cell.Centring && cell.SameLattice(s.Cell, sol.Cell, 2e-3)
+		}) {
+			res.Solutions = append(res.Solutions, sol)
+		}
 	}
 	if len(res.Solutions) > 0 {
 		res.Confidence = confidence(ranked)

@@ -62,7 +62,12 @@ func rankCands(ks []*cand, ls, all []obs, o Options) []*cand {
 			if a.indexed < b.indexed {
 				continue
 			}
-			if a.c.System.LaueOrder() > b.c.System.LaueOrder() || a.c.System.LaueOrder() == b.c.System.LaueOrder() && a.c.Volume() < b.c.Volume()*(1-1e-6) {
+			// Of two refinements of one cell (volumes within 1 %),
+			// the better scored.
+			oa, ob := a.c.System.LaueOrder(), b.c.System.LaueOrder()
+			va, vb := a.c.Volume(), b.c.Volume()
+			same := oa == ob && math.Abs(va-vb) <= 0.01*math.Max(va, vb)
+			if oa > ob || oa == ob && !same && va < vb || same && betterCand(a, b) {
 				drop[j] = true
 			}
 		}

@@ -3,8 +3,52 @@ package indexing
 import "reticle/cell"
 
 // superProbes is the number of the best cells whose doubled cells are
-// tried when they leave lines unindexed.
+// tried when they leave lines unindexed, and whose halved cells are tried.
 const superProbes = 3
+
+// subcells returns the cells, refined and scored on the first lines, of
+// the lattices of half the volume that contain the lattice of each of the
+// superProbes best triclinic cands (the lattice with one of a, b, c, a +
+// b, a + c, b + c, a + b + c halved added), reduced. A search over many
+// parameters can settle on a cell of twice the volume that indexes the
+// lines as well; the ranking then keeps the smaller cell unless the
+// larger indexes lines beyond chance (see rankCands).
+func subcells(ranked []*cand, first []obs, o Options, need int) []*cand {
+	var out []*cand
+	for _, k := range ranked[:min(len(ranked), superProbes)] {
+		if k.c.System != cell.Triclinic {
+			continue
+		}
+		g := k.c.Metric()
+		for _, v := range [][3]float64{{1, 0, 0}, {0, 1, 0}, {0, 0, 1}, {1, 1, 0}, {1, 0, 1}, {0, 1, 1}, {1, 1, 1}} {
+			// The first axis v holds is replaced by v/2.
+			m := cell.Identity
+			for ax := range 3 {
+				if v[ax] != 0 {
+					m[ax] = [3]float64{v[0] / 2, v[1] / 2, v[2] / 2}
+					break
+				}
+			}
+			r, err := cell.Reduce(cell.FromMetric(cell.Triclinic, cell.P, g.Transform(m)))
+			if err != nil {
+				continue
+			}
+			// Its lines are some of the refined cell's, at the same
+			// places: assigned, not refined again (a refinement from
+			// fewer calculated lines can settle on another assignment).
+			s := &cand{c: r.Cell, zero: k.zero, zeroFree: k.zeroFree}
+			s.assign(first, o.Wavelength, 0)
+			if s.indexed < need {
+				continue
+			}
+			s.figures(first, o.Wavelength)
+			if s.m > 0 {
+				out = append(out, s)
+			}
+		}
+	}
+	return out
+}
 
 // supercells returns the cells, refined and scored on the first lines,
 // made by doubling one axis of each of the superProbes best cands that

@@ -1,7 +1,9 @@
 package indexing
 
 import (
+	"context"
 	"math"
+	"math/rand/v2"
 	"testing"
 
 	"reticle/cell"
@@ -38,6 +40,31 @@ func TestDoubled(t *testing.T) {
 			if c.System != w.System || c.Centring != w.Centring || math.Abs(c.Volume()-w.Volume()) > 1e-9*w.Volume() || math.Abs(c.A-w.A) > 1e-12 || math.Abs(c.C-w.C) > 1e-12 {
 				t.Errorf("%v: cell %d %v, want %v", k.in, i+1, c, w)
 			}
+		}
+	}
+}
+
+// TestHalvedCell: cases of the property test (TestRandomCells,
+// triclinic) whose search settles on a cell of twice the volume that
+// indexes the same lines: the cell of half the volume, found by halving
+// the best cells, must come first. The cases are drawn as that test draws
+// them.
+func TestHalvedCell(t *testing.T) {
+	rng := rand.New(rand.NewPCG(uint64(cell.Triclinic)+1, 99))
+	for i := 0; i < 40; i++ {
+		tc := randomCell(rng, cell.Triclinic, cell.P)
+		ls, lambda, ttmax := randomCase(rng, tc)
+		// a = 3.977 Å, b = 2.427 Å (b doubled), and a = 9.615 Å (a
+		// cell of a and b both different, twice the volume).
+		if math.Abs(tc.A-3.97662) > 1e-4 && math.Abs(tc.A-9.61475) > 1e-4 {
+			continue
+		}
+		res, err := Index(context.Background(), ls, Options{Wavelength: lambda}, nil)
+		if err != nil || len(res.Solutions) == 0 {
+			t.Fatalf("%v: no solution: %v", tc, err)
+		}
+		if got := res.Solutions[0].Cell; !sameLattice(tc, got, lambda, ttmax) {
+			t.Errorf("%v: first %v (V = %.1f Å³), want V = %.1f Å³", tc, got, got.Volume(), tc.Volume())
 		}
 	}
 }
