@@ -185,16 +185,30 @@ func sameAxes(a, b cell.Cell) bool {
 // description whose lines split by less than the windows counts as the
 // same lattice); nil when there are too many.
 func clustersOf(k *cand, qmax float64) []float64 {
-	refs := cell.Reflections(k.c, qmax)
-	if len(refs) > 20000 {
-		return nil
+	var qs []float64
+	if cl, ok := calcLinesUnique(k.c, qmax, nil); ok {
+		// The same Q values, from one index vector per set of
+		// equivalents (see TestCalcLinesUnique).
+		qs = make([]float64, len(cl))
+		for i, r := range cl {
+			qs[i] = r.q
+		}
+	} else {
+		refs := cell.Reflections(k.c, qmax)
+		if len(refs) > 20000 {
+			return nil
+		}
+		qs = make([]float64, len(refs))
+		for i, r := range refs {
+			qs[i] = r.Q
+		}
 	}
 	var out []float64
-	for _, r := range refs {
-		if n := len(out); n > 0 && r.Q-out[n-1] <= 2e-3*r.Q {
+	for _, q := range qs {
+		if n := len(out); n > 0 && q-out[n-1] <= 2e-3*q {
 			continue
 		}
-		out = append(out, r.Q)
+		out = append(out, q)
 	}
 	return out
 }
