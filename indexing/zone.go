@@ -322,15 +322,47 @@ func zoneLattices(ctx context.Context, zs []zone, qs, ws []float64, need int, o 
 			}
 		}
 	}
-	sort.SliceStable(out, func(a, b int) bool { return out[a].score > out[b].score })
-	if len(out) > formKeep {
-		out = out[:formKeep]
-	}
+	out = bestForms(out, formKeep)
 	fs := make([]cell.QForm, len(out))
 	for i, x := range out {
 		fs[i] = x.f
 	}
 	return fs, nil
+}
+
+// bestForms returns the n best scored forms, best first, the earlier of
+// equal scores first: what a stable sort by score would give, without
+// sorting the many forms beyond the first n.
+func bestForms(out []scored, n int) []scored {
+	if len(out) > n {
+		s := make([]float64, len(out))
+		for i, x := range out {
+			s[i] = x.score
+		}
+		slices.Sort(s)
+		cut := s[len(s)-n] // the n-th best score
+		above := 0
+		for _, v := range s {
+			if v > cut {
+				above++
+			}
+		}
+		// Every form above the cut, and the first of those at it.
+		at := n - above
+		kept := make([]scored, 0, n)
+		for _, x := range out {
+			switch {
+			case x.score > cut:
+				kept = append(kept, x)
+			case x.score == cut && at > 0:
+				kept = append(kept, x)
+				at--
+			}
+		}
+		out = kept
+	}
+	slices.SortStableFunc(out, func(a, b scored) int { return cmp.Compare(b.score, a.score) })
+	return out
 }
 
 // A vote is a value of the unknown product proposed by a line.
