@@ -186,9 +186,10 @@ func sameAxes(a, b cell.Cell) bool {
 // same lattice); nil when there are too many.
 func clustersOf(k *cand, qmax float64) []float64 {
 	var qs []float64
-	if cl, ok := calcLinesUnique(k.c, qmax, nil); ok {
+	if byEquivalents(k.c) {
 		// The same Q values, from one index vector per set of
 		// equivalents (see TestCalcLinesUnique).
+		cl := calcLines(k.c, qmax, nil)
 		qs = make([]float64, len(cl))
 		for i, r := range cl {
 			qs[i] = r.q
