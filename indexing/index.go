@@ -199,9 +199,7 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 		// Two cands of one lattice can refine to one cell: it is
 		// listed once, at the better rank.
 		sol := solutionOf(k, all, first, o)
-		if !slices.ContainsFunc(res.Solutions, func(s Solution) bool {
-			return s.Cell.System == sol.Cell.System && s.Cell.Centring == sol.Cell.Centring && cell.SameLattice(s.Cell, sol.Cell, 2e-3)
-		}) {
+		if !slices.ContainsFunc(res.Solutions, func(s Solution) bool { return sameCell(s.Cell, sol.Cell, 2e-3) }) {
 			res.Solutions = append(res.Solutions, sol)
 		}
 	}

@@ -178,6 +178,10 @@ func betterCand(a, b *cand) bool {
 
 // sameCand reports whether two cands are one cell: same system and
 // centring, same lattice.
-func sameCand(a, b *cand) bool {
-	return a.c.System == b.c.System && a.c.Centring == b.c.Centring && cell.SameLattice(a.c, b.c, 5e-4)
+func sameCand(a, b *cand) bool { return sameCell(a.c, b.c, 5e-4) }
+
+// sameCell reports whether two cells have one system and centring and
+// describe one lattice within tol (see cell.SameLattice).
+func sameCell(a, b cell.Cell, tol float64) bool {
+	return a.System == b.System && a.Centring == b.Centring && cell.SameLattice(a, b, tol)
 }

@@ -331,8 +331,9 @@ func zoneLattices(ctx context.Context, zs []zone, qs, ws []float64, need int, o 
 }
 
 // bestForms returns the n best scored forms, best first, the earlier of
-// equal scores first: what a stable sort by score would give, without
-// sorting the many forms beyond the first n.
+// equal scores first: what a stable sort by score would give. Only the
+// scores are sorted, to find the n-th best; the forms themselves are
+// moved and stably sorted only for the n kept.
 func bestForms(out []scored, n int) []scored {
 	if len(out) > n {
 		s := make([]float64, len(out))
