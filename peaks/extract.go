@@ -176,11 +176,7 @@ func Extract(ctx context.Context, s *Scan, opt Options, progress func(done, tota
 	if kappa > 1 {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("the intensities scatter %.2f times more than their esds (or counting noise) allow; every esd was multiplied by %.2f", kappa, kappa))
 	}
-	// Pass 1: every candidate on its own group's terms. Its fits give
-	// starting values and the scan's line shape, and stop once χ² falls
-	// by less than 0.001 (no parameter then moves by more than about 3 %
-	// of its esd); the later passes converge to 1e-4.
-	md1.chiTol = passOneChiTol
+	// Pass 1: every candidate on its own group's terms.
 	if err := fitAll(ctx, md1, cs, nil, progress, 0); err != nil {
 		return nil, err
 	}
@@ -194,12 +190,10 @@ func Extract(ctx context.Context, s *Scan, opt Options, progress func(done, tota
 	if cs, notes = calibrate(mds, cs, o); len(notes) > 0 {
 		res.Warnings = append(res.Warnings, notes...)
 		res.Radiation = md.rad
-		md1.chiTol = passOneChiTol
 		if err := fitAll(ctx, md1, cs, nil, nil, 0); err != nil {
 			return nil, err
 		}
 	}
-	md1.chiTol = 0
 	// Width curve from the well-determined peaks; the weak peaks' shapes
 	// are held to it from now on.
 	var asymmetric bool
@@ -338,6 +332,14 @@ func seed(md *model, cands []candidate, fwhm0 float64, o Options) []*component {
 // components (from their last fit) are part of each group's base.
 
 func fitAll(ctx context.Context, md *model, cs, tails []*component, progress func(done, total int), pass int) error {
+	if pass == 0 {
+		// The first pass's fits give starting values and the scan's
+		// line shape, and stop once χ² falls by less than 0.001 (no
+		// parameter then moves by more than about 3 % of its esd); the
+		// later passes converge to 1e-4.
+		md.chiTol = passOneChiTol
+		defer func() { md.chiTol = 0 }()
+	}
 	gs := md.groups(cs)
 	if tails == nil {
 		// On the background alone the groups do not depend on one
