@@ -33,7 +33,7 @@ func Parse(name string, data []byte) (*Scan, error) {
 
 // ParseWith is Parse with options.
 func ParseWith(name string, data []byte, opt ReadOptions) (*Scan, error) {
-	sum := sha256.Sum256(data)
+	digest := Digest(data)
 	if len(bytes.TrimSpace(data)) == 0 {
 		return nil, &ParseError{File: name, Err: ErrEmpty}
 	}
@@ -61,8 +61,14 @@ func ParseWith(name string, data []byte, opt ReadOptions) (*Scan, error) {
 		return nil, err
 	}
 	s.Path = name
-	s.SHA256 = hex.EncodeToString(sum[:])
+	s.SHA256 = digest
 	return s, nil
+}
+
+// Digest returns the hex SHA-256 of a file's bytes, as Scan.SHA256 holds it.
+func Digest(data []byte) string {
+	sum := sha256.Sum256(data)
+	return hex.EncodeToString(sum[:])
 }
 
 // isBinary reports whether data holds NUL bytes or is mostly not UTF-8 text.

@@ -2,8 +2,6 @@ package main
 
 import (
 	"context"
-	"crypto/sha256"
-	"encoding/hex"
 	"fmt"
 	"io"
 	"os"
@@ -13,6 +11,7 @@ import (
 	"reticle/analysis"
 	"reticle/cell"
 	"reticle/esd"
+	"reticle/peaks"
 	"reticle/report"
 )
 
@@ -62,8 +61,7 @@ func analyse(path string, s analysis.Settings) (a *analysis.Analysis, sha string
 	scan, err := analysis.Read(path, s)
 	if err != nil {
 		if data, rerr := os.ReadFile(path); rerr == nil {
-			sum := sha256.Sum256(data)
-			sha = hex.EncodeToString(sum[:])
+			sha = peaks.Digest(data)
 		}
 		return nil, sha, err
 	}
