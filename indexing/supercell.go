@@ -91,26 +91,24 @@ func doubled(c cell.Cell) []cell.Cell {
 	default:
 		return nil
 	}
-	p := c.Params()
 	var out []cell.Cell
 	for _, ax := range axes {
-		q := p
-		q[ax] *= 2
+		d := c
+		switch ax {
+		case 0:
+			d.A *= 2
+		case 1:
+			d.B *= 2
+		default:
+			d.C *= 2
+		}
 		cens := []cell.Centring{cell.P}
 		if ax == 2 && (c.Centring == cell.C || c.Centring == cell.F) && c.System != cell.Tetragonal {
 			cens = append(cens, cell.C)
 		}
-		// The system's free parameters, in its order.
-		var free []float64
-		for _, name := range c.System.FreeNames() {
-			for i, pn := range cell.ParamNames {
-				if pn == name {
-					free = append(free, q[i])
-				}
-			}
-		}
 		for _, cen := range cens {
-			if d, err := cell.New(c.System, cen, free...); err == nil {
+			d.Centring = cen
+			if d.Check() == nil {
 				out = append(out, d)
 			}
 		}

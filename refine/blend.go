@@ -33,7 +33,7 @@ func blendESDs(c cell.Cell, obs []Observation, lambda float64) []Observation {
 	}
 	var tts []float64
 	for _, r := range cell.Reflections(c, cell.QOf(math.Min(ttmax+1, 179.9), lambda)) {
-		if tt := cell.TwoTheta(c.D(r.HKL[0]), lambda); !math.IsNaN(tt) {
+		if tt := cell.TwoThetaOfQ(r.Q, lambda); !math.IsNaN(tt) {
 			tts = append(tts, tt)
 		}
 	}
