@@ -197,7 +197,9 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 			break
 		}
 		// Two cands of one lattice can refine to one cell: it is
-		// listed once, at the better rank.
+		// listed once, at the better rank (cells within 2e-3, the
+		// relative spread within which the ranking takes calculated
+		// lines for one, see clustersOf).
 		sol := solutionOf(k, all, first, o)
 		if !slices.ContainsFunc(res.Solutions, func(s Solution) bool { return sameCell(s.Cell, sol.Cell, 2e-3) }) {
 			res.Solutions = append(res.Solutions, sol)
