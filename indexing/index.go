@@ -172,12 +172,35 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 					lw[s] = true
 				}
 			}
-			ks, err := searchZones(ctx, first, o, lw, need, tick)
+			// The zone method at no zero offset first: when a cell
+			// it finds explains the lines (the test that stops the
+			// search above), the offsets beside it are not searched;
+			// otherwise every offset is, and their lattices are
+			// refined together.
+			forms, err := zoneForms(ctx, first, o, zeros[:1], need, tick)
 			if err != nil {
 				return nil, err
 			}
+			ks, err := zoneCands(ctx, first, o, lw, need, zeros[:1], forms)
+			if err != nil {
+				return nil, err
+			}
+			ranked = rankCands(append(pool, ks...), first, all, o)
+			if len(zeros) > 1 && !(len(ranked) > 0 && acceptable(ranked[0], o.ExploreLower)) {
+				more, err := zoneForms(ctx, first, o, zeros[1:], need, tick)
+				if err != nil {
+					return nil, err
+				}
+				if ks, err = zoneCands(ctx, first, o, lw, need, zeros, append(forms, more...)); err != nil {
+					return nil, err
+				}
+				ranked = rankCands(append(pool, ks...), first, all, o)
+			} else {
+				for range zeros[1:] {
+					tick()
+				}
+			}
 			pool = append(pool, ks...)
-			ranked = rankCands(pool, first, all, o)
 			res.Searched = append(res.Searched, low...)
 			if len(high) > 0 {
 				res.Stop = "no cell of a higher system explained the lines acceptably; every system asked for was searched"

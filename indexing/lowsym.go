@@ -21,18 +21,11 @@ const latticeKeep = 30
 // lowSystems are the systems that the zone search supplies, highest first.
 var lowSystems = []cell.System{cell.Orthorhombic, cell.Monoclinic, cell.Triclinic}
 
-// searchZones finds lattices by the zone method and returns their
-// descriptions in the wanted systems as settled cands.
-func searchZones(ctx context.Context, first []obs, o Options, want map[cell.System]bool, need int, tick func()) ([]*cand, error) {
-	// Passes at the zero offsets of the grid (zeroStep apart), the
-	// windows widened as in the other searches; each lattice's
-	// refinement then finds the offset.
-	zeros := []float64{0}
-	for z := zeroStep; z <= o.ZeroRange+1e-9; z += zeroStep {
-		zeros = append(zeros, z, -z)
-	}
-	// The offsets are searched at once, one goroutine each (the outcome
-	// is merged in a fixed order, so it does not depend on the schedule).
+// zoneForms runs the zone method at each of the zero offsets (degrees
+// 2θ), one goroutine each, and returns the lattices (forms) found at each.
+// The windows are widened as in the other searches; each lattice's
+// refinement then finds the offset.
+func zoneForms(ctx context.Context, first []obs, o Options, zeros []float64, need int, tick func()) ([][]cell.QForm, error) {
 	formsAt := make([][]cell.QForm, len(zeros))
 	errs := make([]error, len(zeros))
 	var wg sync.WaitGroup
@@ -51,15 +44,24 @@ func searchZones(ctx context.Context, first []obs, o Options, want map[cell.Syst
 		}()
 	}
 	wg.Wait()
+	for _, err := range errs {
+		if err != nil {
+			return nil, err
+		}
+	}
+	return formsAt, nil
+}
+
+// zoneCands refines the lattices the zone method found at the zero
+// offsets zeros (formsAt[i] at zeros[i]; merged in this fixed order, so
+// the outcome does not depend on the schedule) and returns their
+// descriptions in the wanted systems as settled cands.
+func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System]bool, need int, zeros []float64, formsAt [][]cell.QForm) ([]*cand, error) {
 	var lattices []cell.Reduced
 	var latticeZero []float64
 	seenLattice := map[[6]int64]bool{}
 	for zi, z := range zeros {
-		if errs[zi] != nil {
-			return nil, errs[zi]
-		}
-		forms := formsAt[zi]
-		for _, f := range forms {
+		for _, f := range formsAt[zi] {
 			c, err := f.Cell(cell.Triclinic, cell.P)
 			if err != nil || c.Volume() > o.MaxVolume {
 				continue
