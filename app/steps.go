@@ -429,7 +429,7 @@ func (u *ui) refineStep() fyne.CanvasObject {
 		if !on {
 			c = refine.Zero
 			if sol := u.m.Solution(); sol != nil && sol.Refined != nil {
-				c = sol.Refined.Corrections
+				c = sol.Refined.ChosenCorrections()
 			}
 		}
 		u.m.Change(func(s *analysis.Settings) { s.Corrections = &c })

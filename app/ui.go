@@ -431,7 +431,7 @@ func (u *ui) showChosenCorrections() {
 	}
 	var c refine.Corrections
 	if sol := u.m.Solution(); sol != nil && sol.Refined != nil {
-		c = sol.Refined.Corrections
+		c = sol.Refined.ChosenCorrections()
 	}
 	u.zeroCheck.SetChecked(c.Has(refine.Zero))
 	u.dispCheck.SetChecked(c.Has(refine.Displacement))

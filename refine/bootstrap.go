@@ -91,19 +91,38 @@ func linearise(res *Result, rows []int, opt Options) (*linearFit, bool) {
 	return f, true
 }
 
-// bootstrap replaces the covariance of res, the fit of lowest BIC among
-// fits (each a model of corrections refined on the same lines), by the
-// mean squared error of the whole procedure — refine every model, keep
-// the one of lowest BIC — about the fit with the most corrections. It is
-// estimated from BootstrapRounds sets of line positions drawn about that
-// fit's calculated positions, each with its esd times the scatter of the
-// lines about that fit (√χ²_red); every model is refitted to each set by
-// its least-squares fit linearised at its solution, which is exact to
-// far better than the esds over such small changes. A correction the
-// kept model lacks counts as zero. The generator is seeded by the data,
-// so a result is reproducible. It reports false, leaving res alone, when
-// the fits cannot be linearised.
-func bootstrap(res *Result, fits []*Result, opt Options) bool {
+// bootstrap returns the result of the whole procedure on fits (each a
+// model of corrections refined on the same lines) — refine every model,
+// keep the one of lowest BIC — in the parameters of the fit with the most
+// corrections, its values and covariance found from BootstrapRounds
+// simulated sets of line positions:
+//
+//   - each set is drawn about the calculated positions of one of the
+//     models, taken with its Akaike weight exp(−AIC/2), AIC = χ² + 2k
+//     (Akaike 1973; Burnham & Anderson, Model Selection and Multimodel
+//     Inference, 2002; from memory): which corrections the instrument
+//     needs is itself uncertain, and a fit is a poor stand-in for the
+//     truth when its corrections rest on noise (the fit with the most
+//     corrections, when the lines barely separate them);
+//   - each line is moved by its esd times the scatter of the lines about
+//     the fit with the most corrections (√χ²_red, a measure that does not
+//     depend on the choice);
+//   - every model is refitted to each set by its least-squares fit
+//     linearised at its solution (exact to far better than the esds over
+//     such small changes) and the one of lowest BIC kept;
+//   - the reported cell and corrections are the mean over the sets of the
+//     kept fits (the smoothed, or bagged, estimate of Efron, J. Am.
+//     Stat. Assoc. 109 (2014) 991; from memory): it does not jump between
+//     models as the choice on the data alone does, and lies closer to the
+//     truth;
+//   - the covariance is the mean square of the kept fits' departures from
+//     the model each set was drawn about: the scatter of the choice and
+//     the bias of leaving a correction out, together.
+//
+// A correction a kept model lacks counts as zero. The generator is
+// seeded by the data, so a result is reproducible. It returns nil when
+// the fits cannot be linearised. The fits are not modified.
+func bootstrap(fits []*Result, opt Options) *Result {
 	full := -1
 	for k, f := range fits {
 		if f != nil && (full < 0 || f.Corrections.Count() > fits[full].Corrections.Count()) {
@@ -111,7 +130,7 @@ func bootstrap(res *Result, fits []*Result, opt Options) bool {
 		}
 	}
 	if full < 0 {
-		return false
+		return nil
 	}
 	ref := fits[full]
 	// The lines in the fit, in the order every model lists them.
@@ -127,20 +146,15 @@ func bootstrap(res *Result, fits []*Result, opt Options) bool {
 			continue
 		}
 		if len(f.Residuals) != len(ref.Residuals) {
-			return false
+			return nil
 		}
 		l, ok := linearise(f, rows, opt)
 		if !ok {
-			return false
+			return nil
 		}
 		lin = append(lin, l)
 	}
-	var lref *linearFit
-	for _, l := range lin {
-		if l.res == ref {
-			lref = l
-		}
-	}
+	weights := akaikeWeights(lin)
 	spread := 1.0
 	if ref.DOF > 0 {
 		spread = math.Sqrt(ref.Chi2Reduced)
@@ -157,14 +171,18 @@ func bootstrap(res *Result, fits []*Result, opt Options) bool {
 	}
 	rng := rand.New(rand.NewPCG(seed, 0x5e1ec7))
 
-	p0 := ref.Cell.Params()
+	res := ref.clone()
 	np := len(res.Params)
-	// The reference's value of each reported parameter; 0 for a
-	// correction it does not refine.
-	refValue := make([]float64, np)
-	for i, p := range res.Params {
-		if q, ok := ref.Param(p.Name); ok {
-			refValue[i] = q.Value
+	// Each model's value of every reported parameter (0 for a correction
+	// it does not refine), its cell's parameters and its reciprocal
+	// coefficients.
+	values := make([][]float64, len(lin))
+	for k, l := range lin {
+		values[k] = make([]float64, np)
+		for i, p := range res.Params {
+			if q, ok := l.res.Param(p.Name); ok {
+				values[k][i] = q.Value
+			}
 		}
 	}
 	pc := make([][]float64, np)
@@ -175,7 +193,10 @@ func bootstrap(res *Result, fits []*Result, opt Options) bool {
 	u := mat.NewVecDense(n, nil)
 	e := make([]float64, np)
 	eps := make([]float64, n)
+	meanR := make([]float64, lin[0].nr) // Σ of the kept reciprocal coefficients
+	var meanShift shifts                // Σ of the kept corrections
 	for b := 0; b < BootstrapRounds; b++ {
+		gen := draw(rng, weights)
 		for r := range eps {
 			eps[r] = spread * rng.NormFloat64()
 		}
@@ -187,7 +208,7 @@ func bootstrap(res *Result, fits []*Result, opt Options) bool {
 			// model's parameters move by A⁺u, and its χ² is |u|² less
 			// the part it explains.
 			for r := 0; r < n; r++ {
-				u.SetVec(r, (lref.yhat[r]-l.yhat[r])/esd[r]+eps[r])
+				u.SetVec(r, (lin[gen].yhat[r]-l.yhat[r])/esd[r]+eps[r])
 			}
 			delta, qtu := l.delta, l.qtu
 			delta.MulVec(l.pinv, u)
@@ -206,39 +227,58 @@ func bootstrap(res *Result, fits []*Result, opt Options) bool {
 			}
 		}
 		if kept == nil {
-			return false
+			return nil
 		}
-		// The kept model's cell and corrections on this draw.
+		// The kept model's cell and corrections on this draw, and their
+		// departure from the model drawn about.
+		rc := start(kept.res.Cell)
+		for c := range meanR {
+			meanR[c] += rc[c] + keptDelta[c]
+		}
+		v := kept.res.shifts
+		for c, i := range kept.corr {
+			v[i] += keptDelta[kept.nr+c]
+		}
+		for i := range meanShift {
+			meanShift[i] += v[i]
+		}
 		q := kept.res.Cell.Params()
 		for i := 0; i < 6; i++ {
 			for c := 0; c < kept.nr; c++ {
 				q[i] += kept.j6[i][c] * keptDelta[c]
 			}
 		}
+		q0 := lin[gen].res.Cell.Params()
 		for i := 0; i < 6; i++ {
 			for j := 0; j < 6; j++ {
-				c6[i][j] += (q[i] - p0[i]) * (q[j] - p0[j])
+				c6[i][j] += (q[i] - q0[i]) * (q[j] - q0[j])
 			}
 		}
 		for i, p := range res.Params {
-			var v float64
+			var x float64
 			if k := corrIndex(p.Name); k >= 0 {
-				v = kept.res.shifts[k]
-				for c, ci := range kept.corr {
-					if ci == k {
-						v += keptDelta[kept.nr+c]
-					}
-				}
+				x = v[k]
 			} else {
-				v = q[paramIndex(p.Name)]
+				x = q[paramIndex(p.Name)]
 			}
-			e[i] = v - refValue[i]
+			e[i] = x - values[gen][i]
 		}
 		for i := range e {
 			for j := range e {
 				pc[i][j] += e[i] * e[j]
 			}
 		}
+	}
+	for c := range meanR {
+		meanR[c] /= BootstrapRounds
+	}
+	for i := range meanShift {
+		meanShift[i] /= BootstrapRounds
+	}
+	m := newModel(res.Cell.System, res.Wavelength, res.Radius)
+	c, err := m.cellOf(meanR, res.Cell.Centring)
+	if err != nil {
+		return nil
 	}
 	for i := 0; i < 6; i++ {
 		for j := 0; j < 6; j++ {
@@ -250,8 +290,39 @@ func bootstrap(res *Result, fits []*Result, opt Options) bool {
 			pc[i][j] /= BootstrapRounds
 		}
 	}
+	res.setValues(m, c, meanR, meanShift)
 	setCovariance(res, c6, pc)
-	return true
+	return res
+}
+
+// akaikeWeights returns each fit's Akaike weight exp(−AIC/2), AIC = χ² +
+// 2k with k its parameters, normalised to a sum of one.
+func akaikeWeights(lin []*linearFit) []float64 {
+	w := make([]float64, len(lin))
+	best := math.Inf(1)
+	for _, l := range lin {
+		best = math.Min(best, l.res.Chi2+2*float64(len(l.res.Params)))
+	}
+	total := 0.0
+	for k, l := range lin {
+		w[k] = math.Exp(-(l.res.Chi2 + 2*float64(len(l.res.Params)) - best) / 2)
+		total += w[k]
+	}
+	for k := range w {
+		w[k] /= total
+	}
+	return w
+}
+
+// draw picks an index with the probabilities p (summing to one).
+func draw(rng *rand.Rand, p []float64) int {
+	x := rng.Float64()
+	for k, w := range p {
+		if x -= w; x < 0 {
+			return k
+		}
+	}
+	return len(p) - 1
 }
 
 // paramIndex returns the position of a cell parameter in

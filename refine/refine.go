@@ -146,9 +146,46 @@ func Refine(ctx context.Context, c cell.Cell, obs []Observation, opt Options) (*
 	}
 	res.Warnings = append(res.Warnings, correlationWarnings(res)...)
 	if res.Flagged > 0 {
-		res.Warnings = append(res.Warnings, fmt.Sprintf("%d line(s) lie more than %g esd from the refined cell", res.Flagged, opt.FlagLimit))
+		res.Warnings = append(res.Warnings, flaggedWarning(res.Flagged, opt.FlagLimit))
 	}
 	return res, nil
+}
+
+// flaggedWarning says how many lines lie beyond the flag limit.
+func flaggedWarning(n int, limit float64) string {
+	return fmt.Sprintf("%d line(s) lie more than %g esd from the refined cell", n, limit)
+}
+
+// setValues replaces the cell (c, of reciprocal coefficients r) and the
+// corrections v of res by other values of the same model, and recomputes
+// what follows from them: the parameters' values, the volume, the
+// residuals, χ² and the count of flagged lines. The covariance and the
+// warnings are left alone.
+func (res *Result) setValues(m *model, c cell.Cell, r []float64, v shifts) {
+	res.Cell, res.shifts = c, v
+	res.Volume = c.Volume()
+	p := c.Params()
+	for i := range res.Params {
+		if k := corrIndex(res.Params[i].Name); k >= 0 {
+			res.Params[i].Value = v[k]
+		} else {
+			res.Params[i].Value = p[paramIndex(res.Params[i].Name)]
+		}
+	}
+	res.Flagged, res.Chi2 = 0, 0
+	for i, rr := range res.Residuals {
+		rr = residual(m, r, rr.Observation, v, res.FlagLimit)
+		if !rr.Excluded {
+			res.Chi2 += rr.Sigmas * rr.Sigmas
+			if rr.Flagged {
+				res.Flagged++
+			}
+		}
+		res.Residuals[i] = rr
+	}
+	if res.DOF > 0 {
+		res.Chi2Reduced = res.Chi2 / float64(res.DOF)
+	}
 }
 
 // residual computes one line's residual under the refined model.

@@ -3,6 +3,7 @@ package refine
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 
 	"reticle/cell"
@@ -129,4 +130,37 @@ func (r *Result) Position(h cell.HKL) float64 {
 		return math.NaN()
 	}
 	return pt.tt
+}
+
+// clone returns a copy of r that shares no slice with it.
+func (r *Result) clone() *Result {
+	c := *r
+	c.Params = slices.Clone(r.Params)
+	c.ParamCovariance = cloneRows(r.ParamCovariance)
+	c.Correlation = cloneRows(r.Correlation)
+	c.Residuals = slices.Clone(r.Residuals)
+	c.Unmatched = slices.Clone(r.Unmatched)
+	c.Overlapped = slices.Clone(r.Overlapped)
+	c.Warnings = slices.Clone(r.Warnings)
+	return &c
+}
+
+// cloneRows copies a matrix held as rows.
+func cloneRows(m [][]float64) [][]float64 {
+	out := make([][]float64, len(m))
+	for i, row := range m {
+		out[i] = slices.Clone(row)
+	}
+	return out
+}
+
+// ChosenCorrections returns the correction model chosen from the data
+// when the corrections were chosen (Auto; the values reported then hold
+// every correction compared, averaged over the choice), and the
+// corrections refined otherwise.
+func (r *Result) ChosenCorrections() Corrections {
+	if r.Selection != nil {
+		return r.Selection.Chosen
+	}
+	return r.Corrections
 }

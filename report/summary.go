@@ -66,7 +66,7 @@ func NewSummaryRow(path, sha string, a *analysis.Analysis, err error) SummaryRow
 	r.Volume, r.VolumeESD = c.Volume()
 	r.FigureLines, r.M, r.FN = c.FigureLines, c.M, c.FN
 	if c.Refined != nil {
-		r.Corrections = c.Refined.Corrections.String()
+		r.Corrections = c.Refined.ChosenCorrections().String()
 		r.Warnings = append(r.Warnings, c.Refined.Warnings...)
 	} else if c.RefineErr != nil {
 		r.Warnings = append(r.Warnings, "not refined: "+c.RefineErr.Error())
