@@ -210,6 +210,11 @@ func correctionsText(a *analysis.Analysis) string {
 	}
 	r := c.Refined
 	s := r.Corrections.String()
+	if r.Selection != nil && r.Selection.Averaged > 0 {
+		// Every correction compared is reported, averaged over the
+		// choice that the reason below names.
+		s = "reported: " + s
+	}
 	if r.Corrections.Has(refine.Displacement) || r.Corrections.Has(refine.Transparency) {
 		s += fmt.Sprintf(" (goniometer radius %s mm)", ftoa(r.Radius))
 	}
