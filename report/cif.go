@@ -102,7 +102,14 @@ func WriteCIF(w io.Writer, a *analysis.Analysis, date time.Time) error {
 	p("data_%s\n\n", blockName(a))
 	p("_audit_creation_date %s\n", date.Format("2006-01-02"))
 	p("_audit_creation_method %s\n", cifString(fmt.Sprintf("%s %s", Program, Version)))
-	p("_computing_cell_refinement %s\n", cifString(fmt.Sprintf("%s %s, weighted least squares in 2theta", Program, Version)))
+	method := "weighted least squares in 2theta"
+	if r := c.Refined; r != nil && r.Selection != nil {
+		method += fmt.Sprintf("; instrument corrections chosen from the data (lowest %s: %s)", r.Selection.Criterion, r.Selection.Chosen)
+		if r.Selection.Averaged > 0 {
+			method += fmt.Sprintf(", cell and corrections the mean of that choice over %d bootstrap sets", r.Selection.Averaged)
+		}
+	}
+	p("_computing_cell_refinement %s\n", cifString(fmt.Sprintf("%s %s, %s", Program, Version, method)))
 	if a.Settings.Sample != "" {
 		p("_pd_spec_description %s\n", cifString(a.Settings.Sample))
 	}

@@ -64,6 +64,15 @@ func TestDemoTruthDefaults(t *testing.T) {
 		t.Errorf("%s: a = %s Å, %.1f esd from the generator's %.3f Å", ce, esd.Format(ce.A, e), d, truth)
 	}
 	t.Logf("a = %s Å, %.2f esd from %.3f Å; %s", esd.Format(ce.A, e), (ce.A-truth)/e, truth, c.Refined.Selection.Reason())
+	// The CIF names the method: the choice and the averaging over it.
+	var b bytes.Buffer
+	if err := WriteCIF(&b, a, time.Date(2026, 1, 2, 0, 0, 0, 0, time.UTC)); err != nil {
+		t.Fatal(err)
+	}
+	want := "chosen from the data (lowest BIC: " + c.Refined.Selection.Chosen.String() + "), cell and corrections the mean of that choice over 400 bootstrap sets"
+	if !strings.Contains(b.String(), want) {
+		t.Errorf("the CIF does not record the choice %q:\n%s", want, b.String()[:min(b.Len(), 800)])
+	}
 }
 
 func TestCSVRoundTrip(t *testing.T) {
