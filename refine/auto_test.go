@@ -6,7 +6,10 @@ import (
 	"math/rand/v2"
 	"os"
 	"sort"
+	"strings"
 	"testing"
+
+	"reticle/cell"
 )
 
 // TestAutoCoverage guards the esds of the corrections chosen from the data
@@ -134,6 +137,51 @@ func TestDraw(t *testing.T) {
 		// Three binomial standard deviations.
 		if got := float64(count[k]) / n; math.Abs(got-w) > 3*math.Sqrt(w*(1-w)/n)+1e-12 {
 			t.Errorf("index %d drawn %.4f of the time, want %.2f", k, got, w)
+		}
+	}
+}
+
+// TestAutoWarnsInseparable: lines below 90° 2θ hardly tell a zero shift
+// from a displacement or either from the cell; the warnings follow the
+// correlations reported, and say so for each correction the cell cannot
+// be separated from. The positions are exact (esds 0.005°), so that every
+// model is plausible and the result is the same on every run.
+func TestAutoWarnsInseparable(t *testing.T) {
+	c := testCells[0]
+	tr := truth{cell: c, radius: 240, zero: 0.03, disp: -0.04}
+	var obs []Observation
+	for _, r := range cell.Reflections(c, cell.QOf(90, cuKa1)) {
+		if tt := position(tr, r.HKL[0]); tt > 15 {
+			obs = append(obs, obsAt(tt, 0.005, r.HKL))
+		}
+	}
+	res, err := Refine(context.Background(), c, obs, Options{Wavelength: cuKa1, Radius: 240, Corrections: Auto})
+	if err != nil {
+		t.Fatal(err)
+	}
+	seen := 0
+	for i, p := range res.Params {
+		for j, q := range res.Params {
+			if corrIndex(p.Name) >= 0 || corrIndex(q.Name) < 0 || math.Abs(res.Correlation[i][j]) <= inseparable {
+				continue
+			}
+			seen++
+			want := "cannot separate the cell from the " + q.Name + " correction"
+			found := false
+			for _, w := range res.Warnings {
+				found = found || strings.Contains(w, want)
+			}
+			if !found {
+				t.Errorf("ρ(%s, %s) = %.4f and no warning %q in %q", p.Name, q.Name, res.Correlation[i][j], want, res.Warnings)
+			}
+		}
+	}
+	if seen == 0 {
+		t.Errorf("no correlation above %g: %v; %+v", inseparable, res.Correlation, res.Selection)
+	}
+	for _, w := range res.Warnings {
+		if strings.HasPrefix(w, zeroDisplacementNote) {
+			t.Errorf("advice to refine one correction after the data chose: %q", w)
 		}
 	}
 }

@@ -121,7 +121,9 @@ func linearise(res *Result, rows []int, opt Options) (*linearFit, bool) {
 //
 // A correction a kept model lacks counts as zero. The generator is
 // seeded by the data, so a result is reproducible. It returns nil when
-// the fits cannot be linearised. The fits are not modified.
+// the fits cannot be linearised, or when no fit holds every correction
+// of the others (the fit with both would need a correction beyond
+// plausible bounds). The fits are not modified.
 func bootstrap(fits []*Result, opt Options) *Result {
 	full := -1
 	for k, f := range fits {
@@ -133,6 +135,13 @@ func bootstrap(fits []*Result, opt Options) *Result {
 		return nil
 	}
 	ref := fits[full]
+	// The values are reported in the parameters of ref: every correction
+	// a kept fit can hold must be among them.
+	for _, f := range fits {
+		if f != nil && f.Corrections&^ref.Corrections != 0 {
+			return nil
+		}
+	}
 	// The lines in the fit, in the order every model lists them.
 	var rows []int
 	for i, r := range ref.Residuals {

@@ -232,13 +232,16 @@ func refineAuto(ctx context.Context, c cell.Cell, obs []Observation, opt Options
 	res := fits[best]
 	sel.Chosen = res.Corrections
 	before := maxESD(res.ESD)
-	// The chosen model's warnings stand, except the advice to refine
-	// only one of zero shift and displacement (the choice has weighed
-	// that already, and the esds include it) and the count of flagged
-	// lines (made again for the values reported).
+	// The chosen model's warnings stand, except those about its
+	// correlations and the count of flagged lines: both are made again
+	// for the values and covariance reported.
+	drop := map[string]bool{flaggedWarning(res.Flagged, res.FlagLimit): true}
+	for _, w := range correlationWarnings(res) {
+		drop[w] = true
+	}
 	var warnings []string
 	for _, w := range res.Warnings {
-		if !strings.HasPrefix(w, zeroDisplacementNote) && w != flaggedWarning(res.Flagged, res.FlagLimit) {
+		if !drop[w] {
 			warnings = append(warnings, w)
 		}
 	}
@@ -253,6 +256,14 @@ func refineAuto(ctx context.Context, c cell.Cell, obs []Observation, opt Options
 		sel.Widening = maxESD(res.ESD) / before
 	}
 	res.Selection = sel
+	// The advice to refine only one of zero shift and displacement is
+	// left out: the choice has weighed that already, and the esds
+	// include it.
+	for _, w := range correlationWarnings(res) {
+		if !strings.HasPrefix(w, zeroDisplacementNote) {
+			warnings = append(warnings, w)
+		}
+	}
 	res.Warnings = warnings
 	if res.Flagged > 0 {
 		res.Warnings = append(res.Warnings, flaggedWarning(res.Flagged, res.FlagLimit))
