@@ -153,7 +153,11 @@ func randomCell(rng *rand.Rand, s cell.System, cen cell.Centring) cell.Cell {
 // first in at least 97 % of cases. RETICLE_LONG=1 (make test-long) runs
 // 300 cells per system; the default (24 for the systems of one or two
 // parameters, 8 for the others) keeps go test quick; RETICLE_PROPERTY_N
-// sets the number for a run while developing.
+// sets the number for a run while developing. The long run does not
+// pass yet for the systems of three or more parameters (measured:
+// orthorhombic 96.0 %, monoclinic 94.3 %, triclinic 87.3 %; cubic,
+// tetragonal, hexagonal and rhombohedral 98.7–100 %): the zone method
+// misses the third direction of some lattices whose zones it finds.
 func TestRandomCells(t *testing.T) {
 	long := os.Getenv("RETICLE_LONG") != ""
 	fixed, err := strconv.Atoi(os.Getenv("RETICLE_PROPERTY_N"))
