@@ -183,10 +183,11 @@ func bootstrap(fits []*Result, opt Options) *Result {
 	res := ref.clone()
 	np := len(res.Params)
 	// Each model's value of every reported parameter (0 for a correction
-	// it does not refine), its cell's parameters and its reciprocal
-	// coefficients.
+	// it does not refine) and its cell's six parameters.
 	values := make([][]float64, len(lin))
+	cells := make([][6]float64, len(lin))
 	for k, l := range lin {
+		cells[k] = l.res.Cell.Params()
 		values[k] = make([]float64, np)
 		for i, p := range res.Params {
 			if q, ok := l.res.Param(p.Name); ok {
@@ -211,6 +212,7 @@ func bootstrap(fits []*Result, opt Options) *Result {
 		}
 		var kept *linearFit
 		var keptDelta []float64
+		var keptShift shifts
 		least := math.Inf(1)
 		for _, l := range lin {
 			// The draw, weighted, less the model's fitted positions: the
@@ -231,7 +233,7 @@ func bootstrap(fits []*Result, opt Options) *Result {
 				continue
 			}
 			if b := bic(chi2, len(l.res.Params), n); b < least {
-				kept, least = l, b
+				kept, least, keptShift = l, b, v
 				keptDelta = append(keptDelta[:0], delta.RawVector().Data...)
 			}
 		}
@@ -244,12 +246,8 @@ func bootstrap(fits []*Result, opt Options) *Result {
 		for c := range meanR {
 			meanR[c] += rc[c] + keptDelta[c]
 		}
-		v := kept.res.shifts
-		for c, i := range kept.corr {
-			v[i] += keptDelta[kept.nr+c]
-		}
 		for i := range meanShift {
-			meanShift[i] += v[i]
+			meanShift[i] += keptShift[i]
 		}
 		q := kept.res.Cell.Params()
 		for i := 0; i < 6; i++ {
@@ -257,7 +255,7 @@ func bootstrap(fits []*Result, opt Options) *Result {
 				q[i] += kept.j6[i][c] * keptDelta[c]
 			}
 		}
-		q0 := lin[gen].res.Cell.Params()
+		q0 := cells[gen]
 		for i := 0; i < 6; i++ {
 			for j := 0; j < 6; j++ {
 				c6[i][j] += (q[i] - q0[i]) * (q[j] - q0[j])
@@ -266,7 +264,7 @@ func bootstrap(fits []*Result, opt Options) *Result {
 		for i, p := range res.Params {
 			var x float64
 			if k := corrIndex(p.Name); k >= 0 {
-				x = v[k]
+				x = keptShift[k]
 			} else {
 				x = q[paramIndex(p.Name)]
 			}
@@ -309,12 +307,13 @@ func bootstrap(fits []*Result, opt Options) *Result {
 func akaikeWeights(lin []*linearFit) []float64 {
 	w := make([]float64, len(lin))
 	best := math.Inf(1)
-	for _, l := range lin {
-		best = math.Min(best, l.res.Chi2+2*float64(len(l.res.Params)))
+	for k, l := range lin {
+		w[k] = l.res.Chi2 + 2*float64(len(l.res.Params)) // AIC
+		best = math.Min(best, w[k])
 	}
 	total := 0.0
-	for k, l := range lin {
-		w[k] = math.Exp(-(l.res.Chi2 + 2*float64(len(l.res.Params)) - best) / 2)
+	for k := range w {
+		w[k] = math.Exp(-(w[k] - best) / 2)
 		total += w[k]
 	}
 	for k := range w {
