@@ -172,63 +172,11 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 					lw[s] = true
 				}
 			}
-			// The zone method at no zero offset first. When a cell
-			// it finds explains the lines (the test that stops the
-			// search above), the other offsets are not searched,
-			// except the one nearest the cell's refined offset when
-			// that is more than half a step from zero: a lattice seen
-			// through the wrong offset can pass the test while the
-			// true one needs its own. Otherwise every offset is
-			// searched. The lattices of the offsets searched are
-			// refined together.
-			searched := zeros[:1]
-			forms, err := zoneForms(ctx, first, o, searched, need, tick)
+			ks, rk, err := zoneSearch(ctx, first, all, pool, o, lw, need, zeros, tick)
 			if err != nil {
 				return nil, err
 			}
-			ks, err := zoneCands(ctx, first, o, lw, need, searched, forms)
-			if err != nil {
-				return nil, err
-			}
-			ranked = rankCands(append(pool, ks...), first, all, o)
-			explained := func() bool { return len(ranked) > 0 && acceptable(ranked[0], o.ExploreLower) }
-			var next []float64
-			switch {
-			case len(zeros) == 1:
-			case !explained():
-				next = zeros[1:]
-			case math.Abs(ranked[0].zero) > zeroStep/2:
-				near := zeros[1]
-				for _, z := range zeros[1:] {
-					if math.Abs(z-ranked[0].zero) < math.Abs(near-ranked[0].zero) {
-						near = z
-					}
-				}
-				next = []float64{near}
-			}
-			for len(next) > 0 {
-				more, err := zoneForms(ctx, first, o, next, need, tick)
-				if err != nil {
-					return nil, err
-				}
-				searched = append(append([]float64(nil), searched...), next...)
-				forms = append(forms, more...)
-				if ks, err = zoneCands(ctx, first, o, lw, need, searched, forms); err != nil {
-					return nil, err
-				}
-				ranked = rankCands(append(pool, ks...), first, all, o)
-				next = nil
-				if !explained() && len(searched) < len(zeros) {
-					for _, z := range zeros {
-						if !slices.Contains(searched, z) {
-							next = append(next, z)
-						}
-					}
-				}
-			}
-			for range len(zeros) - len(searched) {
-				tick()
-			}
+			ranked = rk
 			pool = append(pool, ks...)
 			res.Searched = append(res.Searched, low...)
 			if len(high) > 0 {

@@ -3,6 +3,7 @@ package indexing
 import (
 	"context"
 	"math"
+	"slices"
 	"sync"
 
 	"reticle/cell"
@@ -20,6 +21,61 @@ const latticeKeep = 30
 
 // lowSystems are the systems that the zone search supplies, highest first.
 var lowSystems = []cell.System{cell.Orthorhombic, cell.Monoclinic, cell.Triclinic}
+
+// zoneSearch runs the zone method and returns its cands and the ranking
+// of pool (the cands of the higher systems) with them. It runs at no zero
+// offset first. When a cell it finds explains the lines (acceptable, the
+// test that stops the search after the higher systems), the other
+// offsets are not searched, except the one nearest the cell's refined
+// offset when that is more than half a step from zero: a lattice seen
+// through the wrong offset can pass the test while the true one needs
+// its own. Otherwise every offset of zeros is searched. The lattices of
+// the offsets searched are refined together. tick is called once per
+// offset of zeros, searched or not.
+func zoneSearch(ctx context.Context, first, all []obs, pool []*cand, o Options, want map[cell.System]bool, need int, zeros []float64, tick func()) (ks, ranked []*cand, err error) {
+	searched := zeros[:1]
+	forms, err := zoneForms(ctx, first, o, searched, need, tick)
+	if err != nil {
+		return nil, nil, err
+	}
+	for {
+		if ks, err = zoneCands(ctx, first, o, want, need, searched, forms); err != nil {
+			return nil, nil, err
+		}
+		ranked = rankCands(append(pool, ks...), first, all, o)
+		var next []float64
+		switch {
+		case len(searched) == len(zeros):
+		case !(len(ranked) > 0 && acceptable(ranked[0], o.ExploreLower)):
+			for _, z := range zeros {
+				if !slices.Contains(searched, z) {
+					next = append(next, z)
+				}
+			}
+		case len(searched) == 1 && math.Abs(ranked[0].zero) > zeroStep/2:
+			near := zeros[1]
+			for _, z := range zeros[1:] {
+				if math.Abs(z-ranked[0].zero) < math.Abs(near-ranked[0].zero) {
+					near = z
+				}
+			}
+			next = []float64{near}
+		}
+		if len(next) == 0 {
+			break
+		}
+		more, err := zoneForms(ctx, first, o, next, need, tick)
+		if err != nil {
+			return nil, nil, err
+		}
+		searched = append(append([]float64(nil), searched...), next...)
+		forms = append(forms, more...)
+	}
+	for range len(zeros) - len(searched) {
+		tick()
+	}
+	return ks, ranked, nil
+}
 
 // zoneForms runs the zone method at each of the zero offsets (degrees
 // 2θ), one goroutine each, and returns the lattices (forms) found at each.
