@@ -19,6 +19,16 @@ var settingTol = cell.Tolerance{Length: 0.004, Angle: 0.4}
 // triclinic cells, go on to the higher systems' descriptions.
 const latticeKeep = 30
 
+// minTranslation is the shortest lattice translation, Å, of a lattice
+// the zone method proposes (the first edge of its Niggli-reduced cell).
+// No crystal has one much below 2.3 Å (beryllium's a = 2.29 Å and
+// diamond's 2.52 Å are among the shortest; from memory), while lattices
+// of edges near 1.5 Å can index the lines of a real cell by number
+// coincidence: silicon's lines, those of Q ∝ 3, 8, 11, 16, … (the
+// diamond glide leaves out 4, 12, 20, …), are all lines of a body-centred
+// orthorhombic cell of edges a/√10, a/√2 and a.
+const minTranslation = 2.0
+
 // lowSystems are the systems that the zone search supplies, highest first.
 var lowSystems = []cell.System{cell.Orthorhombic, cell.Monoclinic, cell.Triclinic}
 
@@ -123,7 +133,7 @@ func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System
 				continue
 			}
 			red, err := cell.Reduce(c)
-			if err != nil {
+			if err != nil || red.Cell.A < minTranslation {
 				continue
 			}
 			key, _ := reducedKey(f)
