@@ -42,7 +42,7 @@ import (
 // the 300-cell property test (make test-long) finds 275 triclinic cells
 // instead of 262, 284 monoclinic instead of 283 and 289 orthorhombic
 // instead of 288, the benchmarks' scores are unchanged, and the
-// triclinic case of BenchmarkIndex20 takes 0.94 s instead of 0.60 s on
+// triclinic case of BenchmarkIndex20 takes 0.95 s instead of 0.60 s on
 // one core (20, every line, is slower and finds no more).
 const zoneBase = 16
 
