@@ -175,7 +175,7 @@ func Analyse(ctx context.Context, e *Extraction, s Settings, progress Progress) 
 	widths := map[float64]float64{} // FWHM of the line at each 2θ
 	for _, p := range a.Peaks {
 		if !p.Companion() && !p.Rejected {
-			lines = append(lines, cell.Line{TwoTheta: p.TwoTheta, ESD: pr.LineESD(p.Peak), Intensity: p.Area})
+			lines = append(lines, cell.Line{TwoTheta: p.TwoTheta, ESD: pr.LineESD(p.Peak), Intensity: p.Area, FWHM: p.FWHM})
 			widths[p.TwoTheta] = p.FWHM
 		}
 	}
@@ -195,7 +195,9 @@ func Analyse(ctx context.Context, e *Extraction, s Settings, progress Progress) 
 		a.Warnings = append(a.Warnings, "no lines to index")
 		return a, nil
 	}
-	res, err := indexing.Index(ctx, lines, s.indexOptions(lambda), progress.of(StageIndexing))
+	io := s.indexOptions(lambda)
+	io.MinTwoTheta, io.MaxTwoTheta = e.Scan.Range()
+	res, err := indexing.Index(ctx, lines, io, progress.of(StageIndexing))
 	if err != nil {
 		if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
 			return nil, err

@@ -67,6 +67,10 @@ type Line struct {
 	// Intensity is the line's integrated intensity on any scale; zero
 	// means unknown. Indexing weighs an unexplained line by it.
 	Intensity float64
+	// FWHM is the line's full width at half maximum, degrees 2θ; zero
+	// means unknown. Indexing takes calculated lines closer than half
+	// of it for one (they show as one peak).
+	FWHM float64
 }
 
 // MatchTolerance is the smallest window, degrees 2θ, within which a

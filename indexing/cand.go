@@ -4,6 +4,8 @@ import (
 	"math"
 	"sort"
 
+	"gonum.org/v1/gonum/mat"
+
 	"reticle/cell"
 )
 
@@ -15,6 +17,11 @@ type cand struct {
 	c        cell.Cell
 	zero     float64 // degrees 2θ, added to calculated angles
 	zeroFree bool
+	// disp is the coefficient of a shift disp·cos θ, degrees 2θ, added
+	// to calculated angles: a specimen displacement s on a goniometer of
+	// radius R gives −2s/R radians. Only the evidence refines it.
+	disp     float64
+	dispFree bool
 
 	calc    []calcQ   // calculated reflections up to the assignment's qmax
 	ref     []int     // per observed line: index into calc, −1 unindexed
@@ -30,23 +37,36 @@ type cand struct {
 	chi2    float64 // Σ(Δ2θ/σ)² of the indexed first lines at the refined cell
 	dof     int     // indexed first lines less the refined parameters
 	miss    float64 // penalty factor of the unindexed first lines (1: none)
-	later   float64 // share of all lines indexed, to the fourth power (0: not computed)
 	strong  bool    // an unindexed first line is strong (see strongLine)
+
+	ev    lineFit // evidence over all lines (see weigh)
+	whole *cand   // the cand refined over all lines, for the evidence
+	qTop  float64 // the least Q the calculated lines reach, Å⁻² (0: the lines')
 }
 
 // nparams returns the number of refined parameters: the system's free
-// reciprocal coefficients and the zero offset when it is free.
+// reciprocal coefficients, and the zero offset and the displacement
+// shift when they are free.
 func (k *cand) nparams() int {
 	n := len(cell.Basis(k.c.System))
 	if k.zeroFree {
 		n++
 	}
+	if k.dispFree {
+		n++
+	}
 	return n
+}
+
+// shift returns the shift of a line at tt degrees 2θ from its Bragg
+// angle, degrees 2θ: the zero offset and the displacement shift.
+func (k *cand) shift(tt float64) float64 {
+	return k.zero + k.disp*math.Cos(tt*deg/2)
 }
 
 // setCalc lists the calculated lines of the cell up to qmax.
 func (k *cand) setCalc(qmax float64) {
-	k.calc = calcLines(k.c, qmax, k.calc)
+	k.calc = calcLines(k.c, math.Max(qmax, k.qTop), k.calc)
 }
 
 // nearest returns the index of the calculated line nearest to q within
@@ -75,7 +95,7 @@ func (k *cand) assign(ls []obs, lambda, extra float64) {
 	k.setCalc(qOf(math.Min(ls[n-1].tt+ls[n-1].tol+extra+1, 179), k.zero-0.5, lambda))
 	k.indexed = 0
 	for i, o := range ls {
-		q := qOf(o.tt, k.zero, lambda)
+		q := qOf(o.tt, k.shift(o.tt), lambda)
 		j := k.nearest(q, dQ(o.tt, o.tol+extra, lambda))
 		k.ref[i] = j
 		if j < 0 {
@@ -92,17 +112,20 @@ func (k *cand) assign(ls []obs, lambda, extra float64) {
 // practice), and it keeps a few very sharp lines from steering the search.
 const weightFloor = 0.002
 
-// refine fits the free reciprocal coefficients (and the zero offset when
-// zeroFree) to the indexed lines by Gauss–Newton in 2θ, weights
-// 1/(esd² + weightFloor²). It reports false when the normal equations are
-// singular or the cell is not positive definite.
-func (k *cand) refine(ls []obs, lambda float64) bool {
+// refine fits the free reciprocal coefficients (and the zero offset and
+// displacement shift when free) to the indexed lines by Gauss–Newton in
+// 2θ, weights 1/(esd² + weightFloor²), each step solved by QR
+// (gonum/mat). It reports false when the lines do not fix the
+// parameters or the cell is not positive definite.
+func (k *cand) refine(ls []obs, lambda float64) bool { return k.refineW(ls, lambda, nil, 0) }
+
+// refineW is refine with the weights w (per line, in 1/degree²; nil: the
+// default) and, when dispSD > 0, a restraint of the displacement shift
+// to zero with that standard deviation (degrees 2θ; its prior).
+func (k *cand) refineW(ls []obs, lambda float64, wt []float64, dispSD float64) bool {
 	basis := cell.Basis(k.c.System)
 	nr := len(basis)
-	np := nr
-	if k.zeroFree {
-		np++
-	}
+	np := k.nparams()
 	rows := 0
 	for i := range ls {
 		if k.ref[i] >= 0 {
@@ -112,13 +135,18 @@ func (k *cand) refine(ls []obs, lambda float64) bool {
 	if rows < np {
 		return false
 	}
+	restrain := k.dispFree && dispSD > 0
+	if restrain {
+		rows++
+	}
 	r := k.c.ReciprocalFree()
-	zero := k.zero
+	zero, disp := k.zero, k.disp
+	a := mat.NewDense(rows, np, nil)
+	b := mat.NewVecDense(rows, nil)
+	var x mat.VecDense
 	for iter := 0; iter < 4; iter++ {
 		f := cell.FormOf(k.c.System, r)
-		a := make([]float64, np*np)
-		b := make([]float64, np)
-		row := make([]float64, np)
+		row := 0
 		for i, o := range ls {
 			j := k.ref[i]
 			if j < 0 {
@@ -126,48 +154,59 @@ func (k *cand) refine(ls []obs, lambda float64) bool {
 			}
 			h := k.calc[j].h
 			q := f.Q(h)
-			s := lambda * math.Sqrt(q) / 2
-			if !(q > 0) || s >= 1 {
+			tt := ttOf(q, lambda)
+			if !(q > 0) || math.IsNaN(tt) {
 				return false
 			}
-			tt := 2 * math.Asin(s) / deg
-			dd := lambda / (2 * math.Sqrt(q) * math.Sqrt(1-s*s)) / deg
+			dd := cell.DTwoThetaDQ(q, lambda)
 			t := cell.Terms(h)
+			w := 1 / math.Sqrt(o.esd*o.esd+weightFloor*weightFloor)
+			if wt != nil {
+				w = math.Sqrt(wt[i])
+			}
 			for p, bv := range basis {
 				var v float64
 				for e := range t {
 					v += bv[e] * t[e]
 				}
-				row[p] = v * dd
+				a.Set(row, p, v*dd*w)
 			}
+			c := nr
 			if k.zeroFree {
-				row[nr] = 1
+				a.Set(row, c, w)
+				c++
 			}
-			res := o.tt - zero - tt
-			w := 1 / (o.esd*o.esd + weightFloor*weightFloor)
-			for p := 0; p < np; p++ {
-				b[p] += w * row[p] * res
-				for q := 0; q < np; q++ {
-					a[p*np+q] += w * row[p] * row[q]
-				}
+			cos := math.Cos(tt * deg / 2)
+			if k.dispFree {
+				a.Set(row, c, cos*w)
 			}
+			b.SetVec(row, (o.tt-zero-disp*cos-tt)*w)
+			row++
 		}
-		x, ok := solveN(a, b, np)
-		if !ok {
+		if restrain {
+			a.Set(row, np-1, 1/dispSD)
+			b.SetVec(row, -disp/dispSD)
+		}
+		if err := x.SolveVec(a, b); err != nil {
 			return false
 		}
 		for p := 0; p < nr; p++ {
-			r[p] += x[p]
+			r[p] += x.AtVec(p)
 		}
+		c := nr
 		if k.zeroFree {
-			zero += x[nr]
+			zero += x.AtVec(c)
+			c++
+		}
+		if k.dispFree {
+			disp += x.AtVec(c)
 		}
 	}
 	c, err := cell.FormOf(k.c.System, r).Cell(k.c.System, k.c.Centring)
-	if err != nil || math.IsNaN(zero) {
+	if err != nil || math.IsNaN(zero) || math.IsNaN(disp) {
 		return false
 	}
-	k.c, k.zero = c, zero
+	k.c, k.zero, k.disp = c, zero, disp
 	return true
 }
 
@@ -294,79 +333,17 @@ const minDOF = 1
 // discrepancy of n lines fitted with p parameters understates their
 // error by about ν/n, and the p lines spent fixing the parameters are no
 // evidence for the cell: with few lines, many parameters fit anything),
-// times the fourth power of the chance-corrected share of
-// the first lines indexed (see kappa), the strength penalty of those left
-// unindexed (see missFactor) and, in the final ranking, the fourth power
-// of the chance-corrected share of all lines indexed.
+// times the fourth power of the chance-corrected share of the first
+// lines indexed (see kappa) and the strength penalty of those left
+// unindexed (see missFactor). It orders the cells within a search, to
+// keep the best for refinement; the ranking goes by the evidence.
 func (k *cand) score() float64 {
 	if k.dof < minDOF || k.indexed == 0 {
 		return 0
 	}
 	f := float64(k.dof) / float64(k.indexed)
 	s := k.m * f * f * k.miss
-	if k.later > 0 {
-		s *= k.later
-	}
 	return s
-}
-
-// solveN solves the n×n symmetric positive system a·x = b (row-major) by
-// Gaussian elimination with partial pivoting; it reports false when the
-// system is singular to working precision.
-func solveN(a, b []float64, n int) ([]float64, bool) {
-	a = append([]float64(nil), a...)
-	x := append([]float64(nil), b...)
-	// Scale rows and columns to unit diagonal: the parameters differ in
-	// size by orders of magnitude.
-	sc := make([]float64, n)
-	for i := 0; i < n; i++ {
-		d := a[i*n+i]
-		if !(d > 0) {
-			return nil, false
-		}
-		sc[i] = 1 / math.Sqrt(d)
-	}
-	for i := 0; i < n; i++ {
-		for j := 0; j < n; j++ {
-			a[i*n+j] *= sc[i] * sc[j]
-		}
-		x[i] *= sc[i]
-	}
-	for c := 0; c < n; c++ {
-		p := c
-		for r := c + 1; r < n; r++ {
-			if math.Abs(a[r*n+c]) > math.Abs(a[p*n+c]) {
-				p = r
-			}
-		}
-		if math.Abs(a[p*n+c]) <= 1e-12 {
-			return nil, false
-		}
-		if p != c {
-			for j := 0; j < n; j++ {
-				a[c*n+j], a[p*n+j] = a[p*n+j], a[c*n+j]
-			}
-			x[c], x[p] = x[p], x[c]
-		}
-		for r := c + 1; r < n; r++ {
-			f := a[r*n+c] / a[c*n+c]
-			for j := c; j < n; j++ {
-				a[r*n+j] -= f * a[c*n+j]
-			}
-			x[r] -= f * x[c]
-		}
-	}
-	for c := n - 1; c >= 0; c-- {
-		s := x[c]
-		for j := c + 1; j < n; j++ {
-			s -= a[c*n+j] * x[j]
-		}
-		x[c] = s / a[c*n+c]
-	}
-	for i := range x {
-		x[i] *= sc[i]
-	}
-	return x, true
 }
 
 // kappa returns the share of the lines the cell indexes beyond what its

@@ -24,11 +24,17 @@
 // search runs on a grid of zero offsets and every candidate is refined with
 // a free zero.
 //
-// # Figures of merit
+// # Ranking and probability
 //
-// Solutions are ranked by de Wolff's M20 (J. Appl. Cryst. 1 (1968) 108),
-// reported with Smith & Snyder's F_N (J. Appl. Cryst. 12 (1979) 60). When
-// two solutions describe the same lattice (the same calculated lines), only
-// the one of higher symmetry is kept; when figures are close, the higher
-// symmetry and then the smaller cell rank first.
+// Candidates are ranked by their evidence: the probability density of
+// every observed line's position under the cell, its parameters
+// integrated out (evidence.go: a Poisson model of calculated lines seen
+// and foreign lines, Student t position errors, intensities that make a
+// strong line hard to call foreign, a detection model averaged over the
+// cell's derivative lattices in split.go, and a Laplace Occam factor).
+// Normalised over the candidates and the hypothesis that no cell
+// explains the lines, the evidence gives each candidate its probability.
+// De Wolff's M_N (J. Appl. Cryst. 1 (1968) 108) and Smith & Snyder's F_N
+// (J. Appl. Cryst. 12 (1979) 60) are reported beside it, and order the
+// cells within a search.
 package indexing

@@ -74,24 +74,6 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 		o.ZeroRange = 0
 		notes = append(notes, fmt.Sprintf("with fewer than %d lines the zero offset is held at 0", minZeroLines))
 	}
-	// Unindexed lines allowed among the first: MaxImpurities, or
-	// DefaultImpurityShare of them (rounded down) and every line weaker
-	// than WeakLine by default; at least a cubic cell's lines must be
-	// indexed.
-	allow := o.MaxImpurities
-	switch {
-	case allow == 0:
-		allow = int(DefaultImpurityShare * float64(n))
-		for _, l := range first {
-			if l.rel >= 0 && l.rel < WeakLine {
-				allow++
-			}
-		}
-		allow = max(0, min(allow, n-minLines(cell.Cubic)))
-	case allow < 0:
-		allow = 0
-	}
-	need := n - allow
 	zeros := []float64{0}
 	for z := zeroStep; z <= o.ZeroRange+1e-9; z += zeroStep {
 		zeros = append(zeros, z, -z)
@@ -101,7 +83,118 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 		res.Warnings = append(res.Warnings, fmt.Sprintf("only %d lines: a cell from so few lines is a hypothesis to check against more data", n))
 	}
 	res.Warnings = append(res.Warnings, notes...)
+	sr := &searcher{ctx: ctx, o: o, want: want, all: all, zeros: zeros, progress: progress}
+	pool, err := sr.run(first, res)
+	if err != nil {
+		return nil, err
+	}
+	ranked := rankCands(pool, first, all, o)
+	// A foreign phase with more lines than the sample's own can fill the
+	// first lines and crowd out the sample's cell, whose lines are the
+	// strong ones: when the best cell leaves a strong line unexplained,
+	// the strong lines are searched again on their own.
+	if len(ranked) > 0 && leavesStrong(ranked[0], all) {
+		if strong := strongFirst(all, o.Lines); len(strong) >= fewest && len(strong) < n {
+			more, err := sr.run(strong, nil)
+			if err != nil {
+				return nil, err
+			}
+			// Their assignments and figures are taken on the first
+			// lines, as every other cand's.
+			for _, k := range more {
+				k.assign(first, o.Wavelength, 0)
+				k.figures(first, o.Wavelength)
+			}
+			pool = append(pool, more...)
+			ranked = rankCands(pool, first, all, o)
+		}
+	}
+	need := sr.need(first)
+	if sc := append(supercells(ranked, first, o, need), subcells(ranked, first, o, need)...); len(sc) > 0 {
+		pool = append(pool, sc...)
+		ranked = rankCands(pool, first, all, o)
+	}
+	probs := probabilities(ranked, all, spanOf(o, all))
+	for i, k := range ranked {
+		if len(res.Solutions) == o.MaxSolutions {
+			break
+		}
+		// Two cands of one lattice can refine to one cell: it is
+		// listed once, at the better rank (cells within 2e-3, the
+		// relative spread within which the ranking takes calculated
+		// lines for one, see clustersOf).
+		sol := solutionOf(k, all, first, o)
+		sol.Probability, sol.LogEvidence = probs[i], k.ev.logE()
+		if !slices.ContainsFunc(res.Solutions, func(s Solution) bool { return sameCell(s.Cell, sol.Cell, 2e-3) }) {
+			res.Solutions = append(res.Solutions, sol)
+		}
+	}
+	if len(res.Solutions) > 0 {
+		if p := res.Solutions[0].Probability; p < clearLevel {
+			res.Warnings = append(res.Warnings, fmt.Sprintf("the first cell's probability is only %.0f %%: check the next candidates", 100*p))
+		}
+		if ranked[0].strong {
+			res.Warnings = append(res.Warnings, "the first cell leaves a strong line unindexed: a second phase, or not the right cell")
+		}
+	}
+	return res, nil
+}
 
+// A searcher runs the searches of one Index call.
+type searcher struct {
+	ctx      context.Context
+	o        Options
+	want     map[cell.System]bool
+	all      []obs
+	zeros    []float64
+	progress func(done, total int)
+
+	mu          sync.Mutex
+	done, total int
+}
+
+// tick counts one step of the search done.
+func (sr *searcher) tick() {
+	sr.mu.Lock()
+	defer sr.mu.Unlock()
+	sr.done++
+	if sr.progress != nil {
+		sr.progress(sr.done, sr.total)
+	}
+}
+
+// need returns how many of the lines a cell must index: all but
+// MaxImpurities, or by default all but DefaultImpurityShare of them
+// (rounded down) and every line weaker than WeakLine; at least a cubic
+// cell's lines.
+func (sr *searcher) need(ls []obs) int {
+	n := len(ls)
+	allow := sr.o.MaxImpurities
+	switch {
+	case allow == 0:
+		allow = int(DefaultImpurityShare * float64(n))
+		for _, l := range ls {
+			if l.rel >= 0 && l.rel < WeakLine {
+				allow++
+			}
+		}
+		allow = max(0, min(allow, n-minLines(cell.Cubic)))
+	case allow < 0:
+		allow = 0
+	}
+	return n - allow
+}
+
+// run searches the lattices for cells that index the lines ls: cubic,
+// tetragonal, hexagonal and rhombohedral by their own seeds, then,
+// unless one of those explains the lines acceptably, orthorhombic,
+// monoclinic and triclinic by the zone method. It returns the cells
+// found, settled on ls. res, when not nil, records what was searched
+// and why the search stopped.
+func (sr *searcher) run(ls []obs, res *Result) ([]*cand, error) {
+	o, want := sr.o, sr.want
+	n := len(ls)
+	need := sr.need(ls)
 	var high []cell.System
 	for _, s := range []cell.System{cell.Cubic, cell.Tetragonal, cell.Hexagonal} {
 		if (want[s] || s == cell.Hexagonal && want[cell.Rhombohedral]) && n >= minLines(s) {
@@ -114,17 +207,9 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 			low = append(low, s)
 		}
 	}
-	total := (len(high) + 1) * len(zeros)
-	var mu sync.Mutex
-	done := 0
-	tick := func() {
-		mu.Lock()
-		defer mu.Unlock()
-		done++
-		if progress != nil {
-			progress(done, total)
-		}
-	}
+	sr.mu.Lock()
+	sr.total += (len(high) + 1) * len(sr.zeros)
+	sr.mu.Unlock()
 	// The higher systems are searched at once, one goroutine each; their
 	// results are pooled in a fixed order, so the outcome does not depend
 	// on the schedule.
@@ -132,12 +217,12 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 	errs := make([]error, len(high))
 	var wg sync.WaitGroup
 	oh := o
-	oh.MaxImpurities = allow
+	oh.MaxImpurities = n - need
 	for gi, s := range high {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			pools[gi], errs[gi] = searchSystem(ctx, s, want, first, zeros, oh, tick)
+			pools[gi], errs[gi] = searchSystem(sr.ctx, s, want, ls, sr.zeros, oh, sr.tick)
 		}()
 	}
 	wg.Wait()
@@ -150,76 +235,89 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 			if !want[f.sys] {
 				continue
 			}
-			if k := candOf(f, first, o, need); k != nil {
+			if k := candOf(f, ls, o, need); k != nil {
 				pool = append(pool, k)
 			}
 		}
 	}
-	res.Searched = append(res.Searched, searchedOf(high, want)...)
-	ranked := rankCands(pool, first, all, o)
-	if len(low) > 0 {
-		if len(ranked) > 0 && acceptable(ranked[0], o.ExploreLower) {
-			res.Stop = fmt.Sprintf("%s %s explains the lines (M%d = %.1f, every strong line indexed, positions within their esds); lower systems were not searched", ranked[0].c.System, ranked[0].c.Centring, n, ranked[0].m)
-		} else {
-			lw := map[cell.System]bool{}
-			for _, s := range low {
-				lw[s] = true
-			}
-			// The zone method also finds the higher descriptions of
-			// the lattices it finds; they join the pool.
-			for s := range want {
-				if s.LaueOrder() > cell.Orthorhombic.LaueOrder() {
-					lw[s] = true
-				}
-			}
-			ks, rk, err := zoneSearch(ctx, first, all, pool, o, lw, need, zeros, tick)
-			if err != nil {
-				return nil, err
-			}
-			ranked = rk
-			pool = append(pool, ks...)
-			res.Searched = append(res.Searched, low...)
-			if len(high) > 0 {
-				res.Stop = "no cell of a higher system explained the lines acceptably; every system asked for was searched"
-			} else {
-				res.Stop = "every system asked for was searched"
-			}
-		}
-	} else {
+	if res != nil {
+		res.Searched = append(res.Searched, searchedOf(high, want)...)
 		res.Stop = "every system asked for was searched"
 	}
-	if sc := append(supercells(ranked, first, o, need), subcells(ranked, first, o, need)...); len(sc) > 0 {
-		pool = append(pool, sc...)
-		ranked = rankCands(pool, first, all, o)
+	if len(low) == 0 {
+		return pool, nil
 	}
-	for _, k := range ranked {
-		if len(res.Solutions) == o.MaxSolutions {
-			break
+	ranked := rankCands(pool, ls, sr.all, o)
+	if len(ranked) > 0 && acceptable(ranked[0], o.ExploreLower) {
+		if res != nil {
+			res.Stop = fmt.Sprintf("%s %s explains the lines (M%d = %.1f, every strong line indexed, positions within their esds); lower systems were not searched", ranked[0].c.System, ranked[0].c.Centring, n, ranked[0].m)
 		}
-		// Two cands of one lattice can refine to one cell: it is
-		// listed once, at the better rank (cells within 2e-3, the
-		// relative spread within which the ranking takes calculated
-		// lines for one, see clustersOf).
-		sol := solutionOf(k, all, first, o)
-		if !slices.ContainsFunc(res.Solutions, func(s Solution) bool { return sameCell(s.Cell, sol.Cell, 2e-3) }) {
-			res.Solutions = append(res.Solutions, sol)
+		for range sr.zeros {
+			sr.tick()
 		}
+		return pool, nil
 	}
-	if len(res.Solutions) > 0 {
-		res.Confidence = confidence(ranked)
-		if res.Confidence < clearMargin {
-			res.Warnings = append(res.Warnings, fmt.Sprintf("the first cell beats the next lattice by a factor of only %.2f in its figure of merit: check the next solutions", res.Confidence))
-		}
-		if ranked[0].strong {
-			res.Warnings = append(res.Warnings, "the first cell leaves a strong line unindexed: a second phase, or not the right cell")
+	lw := map[cell.System]bool{}
+	for _, s := range low {
+		lw[s] = true
+	}
+	// The zone method also finds the higher descriptions of the
+	// lattices it finds; they join the pool.
+	for s := range want {
+		if s.LaueOrder() > cell.Orthorhombic.LaueOrder() {
+			lw[s] = true
 		}
 	}
-	return res, nil
+	ks, _, err := zoneSearch(sr.ctx, ls, sr.all, pool, o, lw, need, sr.zeros, sr.tick)
+	if err != nil {
+		return nil, err
+	}
+	if res != nil {
+		res.Searched = append(res.Searched, low...)
+		if len(high) > 0 {
+			res.Stop = "no cell of a higher system explained the lines acceptably; every system asked for was searched"
+		}
+	}
+	return append(pool, ks...), nil
 }
 
-// clearMargin is the score ratio over the next lattice below which the
-// first solution carries a warning.
-const clearMargin = 1.5
+// strongCut is the intensity, relative to the strongest line, above
+// which a line can hardly be foreign (see foreignMean: a foreign line
+// that strong is e^-2 as likely as a weak one).
+const strongCut = 0.1
+
+// leavesStrong reports whether a cand leaves a line of the scan stronger
+// than strongCut unexplained (no calculated line within its window).
+func leavesStrong(k *cand, all []obs) bool {
+	w := k.whole
+	if w == nil {
+		return false
+	}
+	for i, l := range all {
+		if l.rel >= strongCut && w.ref[i] < 0 {
+			return true
+		}
+	}
+	return false
+}
+
+// strongFirst returns the first n lines stronger than strongCut.
+func strongFirst(all []obs, n int) []obs {
+	var out []obs
+	for _, l := range all {
+		if l.rel >= strongCut {
+			out = append(out, l)
+			if len(out) == n {
+				break
+			}
+		}
+	}
+	return out
+}
+
+// clearLevel is the probability below which the first solution carries
+// a warning: one answer in ten or more would be another cell.
+const clearLevel = 0.9
 
 // acceptLevel is the significance level at which positions are judged
 // inconsistent with a cell (a χ² test of the refined positions).

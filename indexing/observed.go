@@ -14,6 +14,7 @@ type obs struct {
 	tt, esd float64 // degrees 2θ
 	tol     float64 // matching window, degrees 2θ
 	rel     float64 // intensity relative to the strongest line; −1 unknown
+	fwhm    float64 // degrees 2θ; 0 unknown
 }
 
 // qOf returns Q = (2 sin θ / λ)² of a line at tt degrees 2θ after
@@ -54,7 +55,7 @@ func prepare(lines []cell.Line, o Options) []obs {
 		if top > 0 && l.Intensity > 0 {
 			rel = l.Intensity / top
 		}
-		out = append(out, obs{tt: l.TwoTheta, esd: l.ESD, tol: math.Max(3*l.ESD, o.Tolerance), rel: rel})
+		out = append(out, obs{tt: l.TwoTheta, esd: l.ESD, tol: math.Max(3*l.ESD, o.Tolerance), rel: rel, fwhm: l.FWHM})
 	}
 	sort.Slice(out, func(i, j int) bool { return out[i].tt < out[j].tt })
 	// Lines closer than their window are one line for indexing.

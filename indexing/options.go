@@ -45,6 +45,10 @@ type Options struct {
 	// MaxSolutions is how many ranked solutions are returned. Zero means
 	// 10.
 	MaxSolutions int
+	// MinTwoTheta and MaxTwoTheta are the measured range, degrees 2θ:
+	// where lines could have been seen. Zero means the range of the
+	// lines.
+	MinTwoTheta, MaxTwoTheta float64
 }
 
 // Resolved returns the options with every zero field at its default.

@@ -16,12 +16,8 @@ type Result struct {
 	Searched []cell.System
 	Stop     string
 	// Bounds are the limits of the search.
-	Bounds Bounds
-	// Confidence is how clearly the first solution beats the next
-	// lattice: the ratio of their scores (+Inf when no other lattice
-	// was found).
-	Confidence float64
-	Warnings   []string
+	Bounds   Bounds
+	Warnings []string
 }
 
 // Bounds are the limits within which the search is exhaustive.
@@ -46,6 +42,12 @@ type Solution struct {
 	Cell   cell.Cell
 	Volume float64 // Å³
 	Zero   float64 // zero offset added to calculated angles, degrees 2θ
+
+	// Probability is the chance that this is the lattice of the lines,
+	// given that it is one of the candidates found or none (see
+	// probabilities); LogEvidence is the natural log of the lines'
+	// probability density under the cell (see evidence).
+	Probability, LogEvidence float64
 
 	// M is de Wolff's figure of merit M_N over the first N lines (M20
 	// when N = 20); FigureLines is that N.

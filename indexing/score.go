@@ -21,7 +21,6 @@ type fit struct {
 	meanDQ   float64   // mean |ΔQ| of the indexed lines
 	lastQ    float64   // Q of the N-th line
 	zeroFree bool
-	later    float64 // (indexed/all)⁴ over every line, 0 when not computed
 }
 
 // assignAll indexes lines with windows widened by extra degrees.

@@ -34,7 +34,7 @@ func searchSystem(ctx context.Context, s cell.System, want map[cell.System]bool,
 			qs[i] = qOf(l.tt, z, o.Wavelength)
 			ws[i] = dQ(l.tt, l.tol+screenExtra, o.Wavelength)
 		}
-		maxCalc := 4*float64(len(first)) + 20
+		maxCalc := float64(maxCalcLines(len(first)))
 		seeds(s, cen, qs, ws, z, o, func(t trial) {
 			if density(&t, qs[len(qs)-1]) > maxCalc || !screen(&t, qs, ws, o.MaxImpurities) {
 				return
@@ -273,13 +273,16 @@ func settle(t trial, ls []obs, o Options) *fit {
 	return f
 }
 
+// maxCalcLines is the most calculated lines, up to the last of n
+// observed lines, of a cell worth considering: 4 per observed line plus
+// 20. A cell with more indexes lines largely by chance. It bounds the
+// search (trials beyond it are not screened) and the ranking (cells
+// beyond it are not ranked, whichever search found them).
+func maxCalcLines(n int) int { return 4*n + 20 }
+
 // density estimates the number of calculated lines up to q from the
 // volume of the reciprocal sphere, (4π/3) q^(3/2) V, over the order of the
-// Laue group (primitive lattice). A trial with more than 4 calculated
-// lines per observed line plus 20 indexes lines largely by chance and is
-// not screened: a bound of the search, chosen by measurement (6 found no
-// other first cell on the benchmarks or the property test, and took 1.5
-// times as long).
+// Laue group (primitive lattice).
 func density(t *trial, q float64) float64 {
 	var v, order float64
 	switch t.sys {
@@ -336,14 +339,10 @@ func better(a, b *fit) bool {
 
 // score is M_N times (indexed/N)⁴: each line left unindexed costs about a
 // fifth of the figure among 20 lines, so that a cell which explains fewer
-// lines must be much sharper to rank above one that explains them all. In
-// the final ranking the same factor over all lines applies as well.
+// lines must be much sharper to rank above one that explains them all.
 func (f *fit) score() float64 {
 	r := float64(f.indexed) / float64(len(f.m))
 	s := f.m20 * r * r * r * r
-	if f.later > 0 {
-		s *= f.later
-	}
 	return s
 }
 

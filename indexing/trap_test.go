@@ -65,7 +65,7 @@ func first(t *testing.T, name string, ls []cell.Line, lambda float64, want cell.
 			t.Logf("  %d: %v", i+2, o)
 		}
 	} else {
-		t.Logf("%s (%d lines): %v, confidence %.2f", name, len(ls), s, res.Confidence)
+		t.Logf("%s (%d lines): %v, probability %.3f", name, len(ls), s, s.Probability)
 	}
 	return res
 }

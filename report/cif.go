@@ -3,7 +3,6 @@ package report
 import (
 	"fmt"
 	"io"
-	"math"
 	"path/filepath"
 	"strings"
 	"time"
@@ -145,9 +144,7 @@ func WriteCIF(w io.Writer, a *analysis.Analysis, date time.Time) error {
 		p("\n%s_indexing_systems_searched %s\n", LocalPrefix, cifString(strings.Join(names, " ")))
 		p("%s_indexing_max_volume %g\n", LocalPrefix, r.Bounds.MaxVolume)
 		p("%s_indexing_figure_of_merit_M %.1f\n", LocalPrefix, c.M)
-		if !math.IsInf(r.Confidence, 1) && r.Confidence > 0 {
-			p("%s_indexing_confidence %.2f\n", LocalPrefix, r.Confidence)
-		}
+		p("%s_indexing_probability %.4f\n", LocalPrefix, c.Probability)
 		p("%s_indexing_stop %s\n", LocalPrefix, cifString(r.Stop))
 	}
 	p("\n_diffrn_radiation_wavelength %s\n", ftoa(a.Radiation.Lambda1))

@@ -55,23 +55,19 @@ type Document struct {
 // solution beats the next lattice (the ratio of their scores; absent when
 // no other lattice was found) and its warnings.
 type SearchInfo struct {
-	Systems    []cell.System `json:"systems"`
-	Stop       string        `json:"stop"`
-	MaxEdge    float64       `json:"max_edge"`
-	MaxVolume  float64       `json:"max_volume"`
-	ZeroRange  float64       `json:"zero_range"`
-	LinesUsed  int           `json:"lines_used"`
-	Confidence float64       `json:"confidence,omitempty"`
-	Warnings   []string      `json:"warnings,omitempty"`
+	Systems   []cell.System `json:"systems"`
+	Stop      string        `json:"stop"`
+	MaxEdge   float64       `json:"max_edge"`
+	MaxVolume float64       `json:"max_volume"`
+	ZeroRange float64       `json:"zero_range"`
+	LinesUsed int           `json:"lines_used"`
+	Warnings  []string      `json:"warnings,omitempty"`
 }
 
 // NewSearchInfo describes an indexing result.
 func NewSearchInfo(r *indexing.Result) *SearchInfo {
 	si := &SearchInfo{Systems: r.Searched, Stop: r.Stop, MaxEdge: r.Bounds.MaxEdge, MaxVolume: r.Bounds.MaxVolume,
 		ZeroRange: r.Bounds.ZeroRange, LinesUsed: r.LinesUsed, Warnings: r.Warnings}
-	if !math.IsInf(r.Confidence, 0) {
-		si.Confidence = r.Confidence
-	}
 	return si
 }
 
@@ -214,6 +210,11 @@ type Calc struct {
 type Solution struct {
 	Rank int `json:"rank"`
 	CellValues
+	// Probability is the chance that the cell is the lattice of the
+	// lines among the candidates found (indexing.Solution.Probability);
+	// LogEvidence the log of the lines' probability density under it.
+	Probability float64 `json:"probability"`
+	LogEvidence float64 `json:"log_evidence"`
 	// Zero is the zero offset of the indexing, or the refined zero
 	// shift, degrees 2θ.
 	Zero        float64  `json:"zero_shift"`
@@ -485,6 +486,7 @@ func NewSolution(a *analysis.Analysis, c *analysis.Candidate) Solution {
 	s := c.Solution
 	j := Solution{
 		Rank: c.Rank, CellValues: NewCellValues(c.Cell(), c.Covariance().ESD(), v, ve), Zero: s.Zero,
+		Probability: s.Probability, LogEvidence: s.LogEvidence,
 		M: s.M, FigureLines: s.FigureLines, FN: s.FN, FNMeanDiff: s.FNMeanDiff, FNPossible: s.FNPossible,
 		Indexed: s.Indexed, Unindexed: s.Unindexed, Conditions: s.Conditions, Lines: []Line{}, Calculated: []Calc{},
 		Parameters: s.Parameters, ChiSquare: s.ChiSquare, DOF: s.DOF, FromReduced: s.FromReduced,

@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"fmt"
 	"io"
-	"math"
 	"path/filepath"
 	"reticle/indexing"
 	"strings"
@@ -400,7 +399,8 @@ func (x *pdfWriter) candidates(a *analysis.Analysis) {
 }
 
 // SearchText describes an indexing search in one paragraph: the systems
-// searched, the bounds, why it stopped, the confidence and the warnings.
+// searched, the bounds, why it stopped, the first cell's probability and
+// the warnings.
 func SearchText(r *indexing.Result) string {
 	var names []string
 	for _, s := range r.Searched {
@@ -409,11 +409,7 @@ func SearchText(r *indexing.Result) string {
 	t := fmt.Sprintf("Searched %s (first %d lines; edges up to %g Å, volumes up to %g Å³, zero offset up to %g°): %s.",
 		strings.Join(names, ", "), r.LinesUsed, r.Bounds.MaxEdge, r.Bounds.MaxVolume, r.Bounds.ZeroRange, r.Stop)
 	if len(r.Solutions) > 0 {
-		if math.IsInf(r.Confidence, 1) {
-			t += " No other lattice explains the lines."
-		} else {
-			t += fmt.Sprintf(" The first cell's score is %.2f times the next lattice's.", r.Confidence)
-		}
+		t += fmt.Sprintf(" The first cell's probability, among the candidates found, is %s.", Percent(r.Solutions[0].Probability))
 	}
 	for _, w := range r.Warnings {
 		t += " Warning: " + w + "."

@@ -137,3 +137,15 @@ func RefinementRows(r *refine.Result) []Row {
 	}
 	return rows
 }
+
+// Percent prints a probability as a percentage with one decimal; the
+// ends print as "> 99.9 %" and "< 0.1 %" rather than as a certainty.
+func Percent(p float64) string {
+	switch {
+	case p > 0.999:
+		return "> 99.9 %"
+	case p < 0.001:
+		return "< 0.1 %"
+	}
+	return fmt.Sprintf("%.1f %%", 100*p)
+}

@@ -86,11 +86,11 @@ func printCandidates(w io.Writer, a *analysis.Analysis) {
 		return
 	}
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-	fmt.Fprintf(tw, "#\tcell\tV (Å³)\tM%d\tF%d\tindexed\t\n", a.Candidates[0].FigureLines, a.Candidates[0].FigureLines)
+	fmt.Fprintf(tw, "#\tcell\tV (Å³)\tprobability\tM%d\tF%d\tindexed\t\n", a.Candidates[0].FigureLines, a.Candidates[0].FigureLines)
 	for _, c := range a.Candidates {
 		v, ve := c.Volume()
-		fmt.Fprintf(tw, "%d\t%s\t%s\t%.1f\t%.1f(%.4f,%d)\t%d/%d\t\n", c.Rank, cell.Format(c.Cell(), c.Covariance().ESD()),
-			esd.Format(v, ve), c.M, c.FN, c.FNMeanDiff, c.FNPossible, c.Indexed, c.Indexed+c.Unindexed)
+		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%.1f\t%.1f(%.4f,%d)\t%d/%d\t\n", c.Rank, cell.Format(c.Cell(), c.Covariance().ESD()),
+			esd.Format(v, ve), report.Percent(c.Probability), c.M, c.FN, c.FNMeanDiff, c.FNPossible, c.Indexed, c.Indexed+c.Unindexed)
 	}
 	tw.Flush()
 	best := a.ChosenCandidate()
