@@ -470,7 +470,7 @@ func (k *cand) occam(ls []obs, lambda float64, t []float64, near []int, calcOf f
 	}
 	c := nr
 	if k.zeroFree {
-		z := o.ZeroRange + 2*zeroStep
+		z := o.zeroBound()
 		logPrior -= math.Log(2 * z)
 		sd[c] = 2 * z / math.Sqrt(12)
 		c++

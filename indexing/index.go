@@ -78,7 +78,14 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 	for z := zeroStep; z <= o.ZeroRange+1e-9; z += zeroStep {
 		zeros = append(zeros, z, -z)
 	}
-	res := &Result{Wavelength: o.Wavelength, LinesUsed: n, Bounds: Bounds{MaxEdge: o.MaxEdge, MaxVolume: o.MaxVolume, ZeroRange: o.ZeroRange}}
+	if o.ZeroRange > 0 {
+		for _, z := range harmonicZeros(all[:min(len(all), 2*o.Lines)], o) {
+			zeros = append(zeros, z)
+			o.zeroLimit = math.Max(o.zeroLimit, math.Abs(z))
+			notes = append(notes, fmt.Sprintf("harmonic lines (orders of one reflection) put the zero offset near %+.3f°, beyond the %g° searched; it was searched too", z, o.ZeroRange))
+		}
+	}
+	res := &Result{Wavelength: o.Wavelength, LinesUsed: n, Bounds: Bounds{MaxEdge: o.MaxEdge, MaxVolume: o.MaxVolume, ZeroRange: math.Max(o.ZeroRange, o.zeroLimit)}}
 	if n < minZeroLines {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("only %d lines: a cell from so few lines is a hypothesis to check against more data", n))
 	}

@@ -152,7 +152,7 @@ func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System
 			return nil, err
 		}
 		k := &cand{c: red.Cell, zero: latticeZero[i], zeroFree: o.ZeroRange > 0}
-		if !k.settle(first, o.Wavelength, screenExtra, need) || math.Abs(k.zero) > o.ZeroRange+2*zeroStep {
+		if !k.settle(first, o.Wavelength, screenExtra, need) || math.Abs(k.zero) > o.zeroBound() {
 			continue
 		}
 		k.figures(first, o.Wavelength)
@@ -197,7 +197,7 @@ func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System
 					k.c = cc
 					k.assign(first, o.Wavelength, 0)
 				}
-				if math.Abs(k.zero) > o.ZeroRange+2*zeroStep || k.c.Volume() > o.MaxVolume {
+				if math.Abs(k.zero) > o.zeroBound() || k.c.Volume() > o.MaxVolume {
 					continue
 				}
 				k.figures(first, o.Wavelength)

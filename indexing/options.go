@@ -1,6 +1,10 @@
 package indexing
 
-import "reticle/cell"
+import (
+	"math"
+
+	"reticle/cell"
+)
 
 // Options control the search. The zero value of every field means its
 // documented default.
@@ -49,6 +53,16 @@ type Options struct {
 	// where lines could have been seen. Zero means the range of the
 	// lines.
 	MinTwoTheta, MaxTwoTheta float64
+
+	// zeroLimit is the largest zero offset the search reached beyond
+	// ZeroRange (see harmonicZeros), degrees 2θ; zero for none.
+	zeroLimit float64
+}
+
+// zeroBound returns the largest zero offset, degrees 2θ, a cell may
+// refine to: the range searched and a grid step either side of it.
+func (o Options) zeroBound() float64 {
+	return math.Max(o.ZeroRange, o.zeroLimit) + 2*zeroStep
 }
 
 // Resolved returns the options with every zero field at its default.

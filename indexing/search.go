@@ -259,7 +259,7 @@ func settle(t trial, ls []obs, o Options) *fit {
 		}
 		prevM, prevL = f.m, f.l
 	}
-	if math.Abs(f.zero) > o.ZeroRange+2*zeroStep {
+	if math.Abs(f.zero) > o.zeroBound() {
 		return nil
 	}
 	f.assignAll(ls, o.Wavelength, 0)
