@@ -4,7 +4,9 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"math"
 	"sort"
+	"strconv"
 
 	"reticle/cell"
 	"reticle/density"
@@ -167,6 +169,9 @@ func Analyse(ctx context.Context, e *Extraction, s Settings, progress Progress) 
 		Scan: e.Scan, Extraction: e, Settings: s.Clone(), Radiation: pr.Radiation,
 		Warnings: append(append([]string(nil), e.Scan.Warnings...), pr.Warnings...),
 	}
+	if w := radiationDisagrees(e.Scan, s); w != "" {
+		a.Warnings = append(a.Warnings, w)
+	}
 	for _, p := range e.peaks() {
 		a.Peaks = append(a.Peaks, Peak{Peak: p, Rejected: within(p.TwoTheta, s.Rejected)})
 	}
@@ -292,4 +297,17 @@ func RefineCell(ctx context.Context, e *Extraction, c cell.Cell, s Settings) (*r
 		return nil, fmt.Errorf("%s: %w", e.Scan.Path, err)
 	}
 	return r, nil
+}
+
+// radiationDisagrees says so when the settings give a wavelength that
+// differs (by more than 1e-4 relative) from the one the file states.
+func radiationDisagrees(scan *peaks.Scan, s Settings) string {
+	if s.Radiation == nil || scan.Wavelength <= 0 {
+		return ""
+	}
+	file := scan.Radiation()
+	if math.Abs(file.Lambda1-s.Radiation.Lambda1) <= 1e-4*file.Lambda1 {
+		return ""
+	}
+	return fmt.Sprintf("the file states the radiation %s; the %s Å given was used", file.Name, strconv.FormatFloat(s.Radiation.Lambda1, 'f', -1, 64))
 }

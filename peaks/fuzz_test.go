@@ -43,6 +43,7 @@ func FuzzParseCIF(f *testing.F) {
 	f.Add(pdcif{angles: "corrected", intensity: "_pd_proc_intensity_net", weights: true}.text())
 	f.Add(pdcif{angles: "scan", intensity: "_pd_meas_counts_total", rangeOff: 0.3, before: "data_a\n_cell_length_a 3\n"}.text())
 	f.Add("data_tof\nloop_\n_pd_meas_time_of_flight\n_pd_meas_counts_total\n1 2\n")
+	f.Add("data_p\n_diffrn_radiation_probe neutron\n_pd_proc_wavelength 1.5\nloop_\n_a\n_b\n1 2 3\n" + quirkPoints("_pd_proc_2theta_scan"))
 	f.Fuzz(func(t *testing.T, text string) {
 		s, err := Parse("fuzz.cif", []byte(text))
 		checkScan(t, s, err)

@@ -3,6 +3,7 @@ package peaks
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 
 	"reticle/esd"
@@ -82,6 +83,7 @@ type cifBlock struct {
 	line  int
 	items map[string]cifValue   // lower-case tag → single value
 	loops map[string][]cifValue // lower-case tag → looped column
+	notes []string              // problems outside the pattern that did not stop the read
 }
 
 // parseCIFBlocks reads every data_ block of a CIF file.
@@ -122,6 +124,12 @@ func parseCIFBlocks(file, text string) ([]*cifBlock, error) {
 				i++
 			}
 			if len(vals)%len(tags) != 0 {
+				// A broken loop of the pattern cannot be read; one of
+				// metadata costs only its own items.
+				if !patternLoop(tags) {
+					b.notes = append(b.notes, fmt.Sprintf("line %d: a loop of %d items (%s, …) has %d values, not a multiple; it was skipped", t.line, len(tags), tags[0], len(vals)))
+					continue
+				}
 				return nil, &ParseError{File: file, Line: t.line, Err: fmt.Errorf("%w: loop of %d tags has %d values, not a multiple", ErrCIF, len(tags), len(vals))}
 			}
 			for k, v := range vals {
@@ -132,7 +140,11 @@ func parseCIFBlocks(file, text string) ([]*cifBlock, error) {
 			if i+1 >= len(toks) || (!toks[i+1].quoted && isCIFReserved(toks[i+1].text)) {
 				return nil, &ParseError{File: file, Line: t.line, Text: t.text, Err: fmt.Errorf("%w: tag without a value", ErrCIF)}
 			}
-			b.items[low] = cifValue{toks[i+1].text, toks[i+1].line}
+			if old, ok := b.items[low]; ok {
+				b.notes = append(b.notes, fmt.Sprintf("line %d: %s is given again (first on line %d); the first value was kept", t.line, t.text, old.line))
+			} else {
+				b.items[low] = cifValue{toks[i+1].text, toks[i+1].line}
+			}
 			i += 2
 		case !t.quoted && (strings.HasPrefix(low, "save_") || strings.HasPrefix(low, "global_")):
 			i++
@@ -144,6 +156,49 @@ func parseCIFBlocks(file, text string) ([]*cifBlock, error) {
 		return nil, &ParseError{File: file, Err: fmt.Errorf("%w: no data_ block", ErrCIF)}
 	}
 	return blocks, nil
+}
+
+// patternLoop reports whether a loop's tags hold a pattern: angles,
+// intensities or their weights.
+func patternLoop(tags []string) bool {
+	for _, t := range tags {
+		if isAngleTag(t) || slices.Contains(cifIntensities, t) || t == "_pd_proc_ls_weight" {
+			return true
+		}
+	}
+	return false
+}
+
+// isAngleTag reports whether a looped item holds the 2θ of each point:
+// one of the powder dictionary's (cifAngleColumns), or a name that mixes
+// them, as some programs write (_pd_proc_2theta_scan,
+// _pd_meas_2theta_corrected): a _pd_meas_ or _pd_proc_ item about 2θ
+// that is neither a range item nor an uncertainty.
+func isAngleTag(t string) bool {
+	if slices.Contains(cifAngleColumns, t) {
+		return true
+	}
+	return (strings.HasPrefix(t, "_pd_meas_") || strings.HasPrefix(t, "_pd_proc_")) &&
+		strings.Contains(t, "2theta") && !strings.Contains(t, "range") && !strings.HasSuffix(t, "_su") && !strings.Contains(t, "fixed")
+}
+
+// angleColumn returns the block's looped 2θ column: a name of the
+// dictionary first, else a mixed name (see isAngleTag).
+func (b *cifBlock) angleColumn() ([]cifValue, string) {
+	if x, t := b.firstLoop(cifAngleColumns); x != nil {
+		return x, t
+	}
+	var tags []string
+	for t := range b.loops {
+		if isAngleTag(t) {
+			tags = append(tags, t)
+		}
+	}
+	slices.Sort(tags)
+	if len(tags) == 0 {
+		return nil, ""
+	}
+	return b.loops[tags[0]], tags[0]
 }
 
 // isCIFReserved reports whether an unquoted word starts a new tag, loop or
@@ -164,6 +219,10 @@ func (b *cifBlock) value(tag string) (cifValue, bool) {
 	}
 	return cifValue{}, false
 }
+
+// cifNull reports whether a CIF value is unknown ('?') or inapplicable
+// ('.').
+func cifNull(s string) bool { return s == "?" || s == "." }
 
 // cifNumber parses a CIF number with an optional standard uncertainty in
 // parentheses, "1.54056(2)" → 1.54056, 0.00002. The uncertainty is 0 when
@@ -210,7 +269,7 @@ func (b *cifBlock) hasPattern() bool {
 	if y, _ := b.firstLoop(cifIntensities); y == nil {
 		return false
 	}
-	if x, _ := b.firstLoop(cifAngleColumns); x != nil {
+	if x, _ := b.angleColumn(); x != nil {
 		return true
 	}
 	for _, r := range cifAngleRanges {
@@ -280,6 +339,10 @@ func parseCIF(file string, data []byte, opt ReadOptions) (*Scan, error) {
 		}
 	}
 	s := &Scan{Format: "pdcif", Block: b.name}
+	s.Warnings = append(s.Warnings, b.notes...)
+	if len(blocks) > 1 && len(withPattern) == 1 {
+		s.Warnings = append(s.Warnings, fmt.Sprintf("the file holds %d data blocks; the pattern of block %s was read", len(blocks), b.name))
+	}
 	for _, c := range withPattern {
 		s.Blocks = append(s.Blocks, c.name)
 	}
@@ -296,6 +359,9 @@ func parseCIF(file string, data []byte, opt ReadOptions) (*Scan, error) {
 				break
 			}
 		}
+	}
+	if rb != b {
+		s.Warnings = append(s.Warnings, rb.notes...)
 	}
 	if err := cifRadiation(file, rb, s); err != nil {
 		return nil, err
@@ -320,8 +386,16 @@ func parseCIF(file string, data []byte, opt ReadOptions) (*Scan, error) {
 	if len(weights) != len(ycol) {
 		weights = nil
 	}
-	dropped := 0
+	sucol := b.loops[ytag+"_su"]
+	if len(sucol) != len(ycol) {
+		sucol = nil
+	}
+	dropped, nulls, nullWeights := 0, 0, 0
 	for i, v := range ycol {
+		if cifNull(v.text) || math.IsNaN(xs[i]) {
+			nulls++
+			continue
+		}
 		y, su, err := cifNumber(v.text)
 		if err != nil {
 			errs.Add(&ParseError{File: file, Line: v.line, Text: v.text, Err: fmt.Errorf("%s: %w", ytag, err)})
@@ -330,7 +404,21 @@ func parseCIF(file string, data []byte, opt ReadOptions) (*Scan, error) {
 			}
 			continue
 		}
+		if su == 0 && sucol != nil {
+			if cifNull(sucol[i].text) {
+				nullWeights++
+			} else if e, _, err := cifNumber(sucol[i].text); err == nil && e > 0 {
+				su = e
+			} else {
+				errs.Add(&ParseError{File: file, Line: sucol[i].line, Text: sucol[i].text, Err: fmt.Errorf("%s_su: want an uncertainty above 0: %w", ytag, ErrText)})
+			}
+		}
 		if su == 0 && weights != nil {
+			if cifNull(weights[i].text) {
+				nullWeights++
+				pts = append(pts, point{x: xs[i], y: y, line: v.line})
+				continue
+			}
 			w, _, err := cifNumber(weights[i].text)
 			switch {
 			case err != nil || w < 0:
@@ -354,6 +442,12 @@ func parseCIF(file string, data []byte, opt ReadOptions) (*Scan, error) {
 	}
 	if dropped > 0 {
 		s.Warnings = append(s.Warnings, fmt.Sprintf("%d points with zero weight (_pd_proc_ls_weight) were left out", dropped))
+	}
+	if nulls > 0 {
+		s.Warnings = append(s.Warnings, fmt.Sprintf("%d of the points had an unknown (?) or inapplicable (.) angle or intensity and were left out", nulls))
+	}
+	if nullWeights > 0 {
+		s.Warnings = append(s.Warnings, fmt.Sprintf("%d of the points had no weight or uncertainty (? or .) and take counting noise", nullWeights))
 	}
 	if hasESD {
 		for i := range pts {
@@ -386,7 +480,7 @@ func blockNames(bs []*cifBlock) string {
 // note.
 func cifAngles(file string, b *cifBlock, s *Scan, ycol []cifValue, ytag string) ([]float64, error) {
 	xs := make([]float64, len(ycol))
-	xcol, xtag := b.firstLoop(cifAngleColumns)
+	xcol, xtag := b.angleColumn()
 	var rng [3]float64
 	var rtag string
 	for _, r := range cifAngleRanges {
@@ -416,8 +510,15 @@ func cifAngles(file string, b *cifBlock, s *Scan, ycol []cifValue, ytag string) 
 		if len(xcol) != len(ycol) {
 			return nil, &ParseError{File: file, Line: xcol[0].line, Err: fmt.Errorf("%w: %s has %d values, %s has %d", ErrCIF, xtag, len(xcol), ytag, len(ycol))}
 		}
+		if !slices.Contains(cifAngleColumns, xtag) {
+			s.Warnings = append(s.Warnings, fmt.Sprintf("the angles were read from %s, which is not a name of the powder dictionary (%s)", xtag, strings.Join(cifAngleColumns, ", ")))
+		}
 		var errs ErrorList
 		for i, v := range xcol {
+			if cifNull(v.text) {
+				xs[i] = math.NaN() // the point is left out
+				continue
+			}
 			x, _, err := cifNumber(v.text)
 			if err != nil {
 				errs.Add(&ParseError{File: file, Line: v.line, Text: v.text, Err: fmt.Errorf("%s: %w", xtag, err)})
@@ -466,11 +567,18 @@ func cifRadiation(file string, b *cifBlock, s *Scan) error {
 	lams := b.loops["_diffrn_radiation_wavelength"]
 	wts := b.loops["_diffrn_radiation_wavelength_wt"]
 	if len(lams) == 0 {
-		for _, tag := range []string{"_diffrn_radiation_wavelength", "_pd_proc_wavelength"} {
-			if v, ok := b.items[tag]; ok {
-				lams = []cifValue{v}
-				break
+		// The wavelength the data were processed with (refined against
+		// a standard) before the one stated for the source.
+		stated, sok := b.items["_diffrn_radiation_wavelength"]
+		proc, pok := b.items["_pd_proc_wavelength"]
+		switch {
+		case pok && !cifNull(proc.text):
+			lams = []cifValue{proc}
+			if sok && stated.text != proc.text && !cifNull(stated.text) {
+				s.Warnings = append(s.Warnings, fmt.Sprintf("the file states the wavelength %s Å (_diffrn_radiation_wavelength) and %s Å (_pd_proc_wavelength, the one the data were processed with); the second was used", stated.text, proc.text))
 			}
+		case sok:
+			lams = []cifValue{stated}
 		}
 	}
 	var ls, ws []float64
@@ -507,6 +615,13 @@ func cifRadiation(file string, b *cifBlock, s *Scan) error {
 			}
 		}
 		s.Wavelength, s.Wavelength2, s.Ratio2 = ls[i1], ls[i2], ws[i2]/ws[i1]
+	}
+	if p := strings.ToLower(b.items["_diffrn_radiation_probe"].text); p != "" && !cifNull(p) {
+		s.Probe = p
+		if p != "x-ray" {
+			// Neutrons and electrons of one wavelength: no K lines.
+			s.NoKBeta = true
+		}
 	}
 	typ := strings.ToLower(b.items["_diffrn_radiation_type"].text)
 	mono := strings.ToLower(b.items["_diffrn_radiation_monochromator"].text)

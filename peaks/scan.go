@@ -34,6 +34,10 @@ type Scan struct {
 	Wavelength, Wavelength2, Ratio2 float64
 	// Anode is the tube target named in the file ("Cu"), empty when none.
 	Anode string
+	// Probe is the radiation the file names (a CIF's
+	// _diffrn_radiation_probe: "x-ray", "neutron", "electron"); empty
+	// when it names none.
+	Probe string
 	// KAlpha1Only is set when the file says the incident beam was
 	// K-alpha1 alone (a primary monochromator); NoKBeta when it says a
 	// monochromator removed K-beta.
@@ -150,6 +154,8 @@ func (s *Scan) finish(file string, pts []point, hasESD bool) error {
 func ftoa(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 
 // Radiation returns the radiation the scan states:
+//   - a neutron or electron probe (a CIF's _diffrn_radiation_probe) of a
+//     stated wavelength: that single line;
 //   - a doublet the file lists (two wavelengths with their weights);
 //   - a stated wavelength equal (to 1e-4 Å) to an anode's K-alpha1 or to
 //     its weighted K-alpha mean (2λ₁ + λ₂)/3, when the file does not say
@@ -169,6 +175,11 @@ func (s *Scan) Radiation() Radiation {
 }
 
 func (s *Scan) radiation() Radiation {
+	if s.Wavelength > 0 && s.Probe != "" && s.Probe != "x-ray" {
+		r := SingleLine(s.Wavelength)
+		r.Name = fmt.Sprintf("%s Å (%s)", ftoa(s.Wavelength), s.Probe)
+		return r
+	}
 	if s.Wavelength > 0 && s.Wavelength2 > 0 {
 		r := Radiation{Name: fmt.Sprintf("%s Å / %s Å", ftoa(s.Wavelength), ftoa(s.Wavelength2)), Lambda1: s.Wavelength, Lambda2: s.Wavelength2, Ratio2: s.Ratio2}
 		if r.Ratio2 <= 0 {
