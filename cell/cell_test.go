@@ -295,3 +295,36 @@ func FuzzParse(f *testing.F) {
 		}
 	})
 }
+
+// TestSublattices: a three-dimensional lattice has 1, 7, 13 and 35
+// sublattices of index 1 to 4 (the subgroups of index n of Z³, the
+// sequence A001001 of the OEIS, from memory), each basis has
+// determinant n, and no two generate the same sublattice.
+func TestSublattices(t *testing.T) {
+	for n, want := range map[int]int{1: 1, 2: 7, 3: 13, 4: 35} {
+		bs := Sublattices(n)
+		if len(bs) != want {
+			t.Errorf("index %d: %d sublattices, want %d", n, len(bs), want)
+		}
+		for i, b := range bs {
+			if d := b.Det(); math.Abs(d-float64(n)) > 1e-9 {
+				t.Errorf("index %d: basis %v has determinant %g", n, b, d)
+			}
+			for _, c := range bs[i+1:] {
+				// One lattice: each basis is an integer combination
+				// of the other's vectors.
+				inv, _ := c.Inverse()
+				m := b.Mul(inv)
+				whole := true
+				for _, row := range m {
+					for _, x := range row {
+						whole = whole && math.Abs(x-math.Round(x)) < 1e-9
+					}
+				}
+				if whole {
+					t.Errorf("index %d: %v and %v are one sublattice", n, b, c)
+				}
+			}
+		}
+	}
+}

@@ -67,3 +67,36 @@ func (m Matrix) Apply(v [3]float64) [3]float64 {
 	}
 	return r
 }
+
+// Sublattices returns the bases of every sublattice of index m of a
+// lattice, as matrices whose rows give the new basis vectors in the old
+// basis: the Hermite normal forms of determinant m (upper triangular,
+// diagonal d₁d₂d₃ = m, each entry above the diagonal from 0 to the
+// diagonal entry of its column less one), one per sublattice (there are
+// 7 of index 2, 13 of index 3 and 35 of index 4 in three dimensions).
+func Sublattices(m int) []Matrix {
+	var out []Matrix
+	for d1 := 1; d1 <= m; d1++ {
+		if m%d1 != 0 {
+			continue
+		}
+		for d2 := 1; d2 <= m/d1; d2++ {
+			if (m/d1)%d2 != 0 {
+				continue
+			}
+			d3 := m / d1 / d2
+			for a := 0; a < d2; a++ {
+				for b := 0; b < d3; b++ {
+					for c := 0; c < d3; c++ {
+						out = append(out, Matrix{
+							{float64(d1), float64(a), float64(b)},
+							{0, float64(d2), float64(c)},
+							{0, 0, float64(d3)},
+						})
+					}
+				}
+			}
+		}
+	}
+	return out
+}

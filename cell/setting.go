@@ -159,9 +159,17 @@ func Settings(red Reduced, s System, tol Tolerance) []Setting {
 		len2[i] = dot(g, v, v)
 	}
 	cosTol := math.Sin(tol.Angle * deg) // |cos| of an angle within tol of 90°
-	perp := func(i, j int) bool {
-		return math.Abs(dot(g, vs[i], vs[j])) <= cosTol*math.Sqrt(len2[i]*len2[j])
+	// The cosines of every pair, worked out once: the searches below
+	// test each pair many times.
+	n := len(vs)
+	cosines := make([]float64, n*n)
+	for i := range vs {
+		for j := i; j < n; j++ {
+			c := dot(g, vs[i], vs[j]) / math.Sqrt(len2[i]*len2[j])
+			cosines[i*n+j], cosines[j*n+i] = c, c
+		}
 	}
+	perp := func(i, j int) bool { return math.Abs(cosines[i*n+j]) <= cosTol }
 	equal := func(i, j int) bool {
 		return math.Abs(math.Sqrt(len2[i])-math.Sqrt(len2[j])) <= tol.Length*math.Sqrt(len2[i])
 	}
@@ -182,7 +190,6 @@ func Settings(red Reduced, s System, tol Tolerance) []Setting {
 		}
 	}
 	neg := func(v [3]float64) [3]float64 { return [3]float64{-v[0], -v[1], -v[2]} }
-	n := len(vs)
 	switch s {
 	case Cubic, Tetragonal, Orthorhombic:
 		for i := 0; i < n; i++ {
@@ -200,9 +207,7 @@ func Settings(red Reduced, s System, tol Tolerance) []Setting {
 			}
 		}
 	case Hexagonal, Rhombohedral:
-		cos120 := func(i, j int) bool {
-			return math.Abs(dot(g, vs[i], vs[j])/math.Sqrt(len2[i]*len2[j])+0.5) <= cosTol
-		}
+		cos120 := func(i, j int) bool { return math.Abs(cosines[i*n+j]+0.5) <= cosTol }
 		for i := 0; i < n; i++ {
 			for j := 0; j < n; j++ {
 				if j == i || !equal(i, j) {
@@ -212,7 +217,7 @@ func Settings(red Reduced, s System, tol Tolerance) []Setting {
 				if !cos120(i, j) {
 					// The other sign of v makes 120° when this one
 					// makes 60°.
-					if math.Abs(dot(g, vs[i], vs[j])/math.Sqrt(len2[i]*len2[j])-0.5) > cosTol {
+					if math.Abs(cosines[i*n+j]-0.5) > cosTol {
 						continue
 					}
 					v = neg(v)

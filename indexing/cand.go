@@ -143,6 +143,7 @@ func (k *cand) refineW(ls []obs, lambda float64, wt []float64, dispSD float64) b
 	zero, disp := k.zero, k.disp
 	a := mat.NewDense(rows, np, nil)
 	b := mat.NewVecDense(rows, nil)
+	grad := make([]float64, np)
 	var x mat.VecDense
 	for iter := 0; iter < 4; iter++ {
 		f := cell.FormOf(k.c.System, r)
@@ -152,34 +153,18 @@ func (k *cand) refineW(ls []obs, lambda float64, wt []float64, dispSD float64) b
 			if j < 0 {
 				continue
 			}
-			h := k.calc[j].h
-			q := f.Q(h)
-			tt := ttOf(q, lambda)
-			if !(q > 0) || math.IsNaN(tt) {
+			tt, ok := k.gradient(k.calc[j].h, f, basis, lambda, grad)
+			if !ok {
 				return false
 			}
-			dd := cell.DTwoThetaDQ(q, lambda)
-			t := cell.Terms(h)
 			w := 1 / math.Sqrt(o.esd*o.esd+weightFloor*weightFloor)
 			if wt != nil {
 				w = math.Sqrt(wt[i])
 			}
-			for p, bv := range basis {
-				var v float64
-				for e := range t {
-					v += bv[e] * t[e]
-				}
-				a.Set(row, p, v*dd*w)
-			}
-			c := nr
-			if k.zeroFree {
-				a.Set(row, c, w)
-				c++
+			for p, g := range grad {
+				a.Set(row, p, g*w)
 			}
 			cos := math.Cos(tt * deg / 2)
-			if k.dispFree {
-				a.Set(row, c, cos*w)
-			}
 			b.SetVec(row, (o.tt-zero-disp*cos-tt)*w)
 			row++
 		}
@@ -208,6 +193,37 @@ func (k *cand) refineW(ls []obs, lambda float64, wt []float64, dispSD float64) b
 	}
 	k.c, k.zero, k.disp = c, zero, disp
 	return true
+}
+
+// gradient sets grad to the derivatives of the calculated angle of h
+// with respect to the cand's parameters (the free reciprocal
+// coefficients of basis under the form f, then the zero offset and the
+// displacement shift when free), degrees 2θ per unit, and returns the
+// angle's Bragg value; false when h has no reflection.
+func (k *cand) gradient(h cell.HKL, f cell.QForm, basis []cell.QForm, lambda float64, grad []float64) (float64, bool) {
+	q := f.Q(h)
+	tt := ttOf(q, lambda)
+	if !(q > 0) || math.IsNaN(tt) {
+		return tt, false
+	}
+	dd := cell.DTwoThetaDQ(q, lambda)
+	t := cell.Terms(h)
+	for p, bv := range basis {
+		var v float64
+		for e := range t {
+			v += bv[e] * t[e]
+		}
+		grad[p] = v * dd
+	}
+	c := len(basis)
+	if k.zeroFree {
+		grad[c] = 1
+		c++
+	}
+	if k.dispFree {
+		grad[c] = math.Cos(tt * deg / 2)
+	}
+	return tt, true
 }
 
 // settle indexes and refines until the assignment is stable: first with
@@ -323,6 +339,12 @@ func countUpTo(cl []calcQ, q float64) int {
 	}
 	return n
 }
+
+// precision is the smallest discrepancy, degrees 2θ, that the figures of
+// merit credit: about the repeatability of a peak position on a laboratory
+// diffractometer (common practice; sub-millidegree fits of simulated or
+// synchrotron data would otherwise reward extra parameters).
+const precision = 0.002
 
 // minDOF is the fewest degrees of freedom (indexed lines less refined
 // parameters) of a cell worth reporting.

@@ -136,13 +136,17 @@ const reach = 15
 // freedom and scale s.
 func studentT(d, s float64) float64 {
 	const c = 0.375 // Γ(5/2)/(Γ(2)·√(4π)) for ν = 4
-	x := d * d / (errDOF * s * s)
-	return c / s * math.Pow(1+x, -(errDOF+1)/2.0)
+	u := 1 + d*d/(errDOF*s*s)
+	return c / (s * u * u * math.Sqrt(u)) // (1 + d²/νs²)^(−5/2)
 }
 
 // emRounds is the number of expectation-maximisation rounds: p, ρ and σ
 // settle to a few parts in a thousand well before it.
 const emRounds = 25
+
+// splitRounds is the number of rounds of a split's fit, which starts
+// from the one-class fit's p and ρ.
+const splitRounds = 12
 
 // A calcLine is a calculated line in the range. Lines closer than the
 // resolution form a group, which shows as one peak: the group is one
@@ -328,7 +332,7 @@ func twoClass(ls []obs, nears [][]near, mk []float64, classA []bool, na, nb int,
 	}
 	pa, pb := p, p
 	var sa, sb float64
-	for round := 0; round <= emRounds; round++ {
+	for round := 0; round <= splitRounds; round++ {
 		sa, sb = 0, 0
 		for i := range ls {
 			a, b := pa*ga[i], pb*gb[i]
@@ -336,7 +340,7 @@ func twoClass(ls []obs, nears [][]near, mk []float64, classA []bool, na, nb int,
 			sa += a / tot
 			sb += b / tot
 		}
-		if round == emRounds {
+		if round == splitRounds {
 			break
 		}
 		pa = math.Min(1, sa/float64(na))
@@ -487,27 +491,11 @@ func (k *cand) occam(ls []obs, lambda float64, t []float64, near []int, calcOf f
 		if t[i] < 1e-6 || near[i] < 0 {
 			continue
 		}
-		hkl := k.calc[calcOf(i)].h
-		q := f.Q(hkl)
-		dd := cell.DTwoThetaDQ(q, lambda)
-		if math.IsNaN(dd) || math.IsInf(dd, 0) {
+		if _, ok := k.gradient(k.calc[calcOf(i)].h, f, basis, lambda, row); !ok {
 			continue
 		}
-		tm := cell.Terms(hkl)
-		for p, bv := range basis {
-			var v float64
-			for e := range tm {
-				v += bv[e] * tm[e]
-			}
-			row[p] = v * dd * sd[p]
-		}
-		c := nr
-		if k.zeroFree {
-			row[c] = sd[c]
-			c++
-		}
-		if k.dispFree {
-			row[c] = sd[c] * math.Cos(ttOf(q, lambda)*deg/2)
+		for p := range row {
+			row[p] *= sd[p]
 		}
 		w := t[i] / l.variance(sys)
 		for a := 0; a < d; a++ {
@@ -540,43 +528,58 @@ const dispRange = 0.5
 // that varies as cos θ from a cell error only over many lines.
 const minDispLines = 12
 
-// weigh computes the cand's evidence over all lines once: the cell is
-// refined again against every line it indexes (the search refined it on
-// the first ones), and its evidence taken there. With enough lines a
-// displacement shift (cos θ) is tried as well, the cell refined by
-// iteratively reweighted least squares with the evidence's own weights
-// (each line's chance of belonging to the cell, times its weight under
-// the t distribution, over its variance) and the shift restrained by its
-// prior; it is kept when it raises the evidence (its Occam factor
-// charged).
+// weigh computes the cand's evidence over all lines once. The search
+// refined the cell on the first lines; here it is refined on all of
+// them by iteratively reweighted least squares with the evidence's own
+// weights (each line's chance of belonging to the cell, times its weight
+// under the t distribution, over its variance; each line at its nearest
+// calculated line), so that a line no calculated line explains moves
+// nothing. With enough lines a displacement shift (cos θ) is tried as
+// well, restrained by its prior. The refinement of highest evidence is
+// kept (the shift's Occam factor charged).
 func (k *cand) weigh(all []obs, sp span, o Options) {
 	if k.whole != nil {
 		return
 	}
-	g := &cand{c: k.c, zero: k.zero, zeroFree: k.zeroFree, qTop: qOf(math.Min(sp.hi+0.5, 179), k.zero-0.5, o.Wavelength)}
+	top := qOf(math.Min(sp.hi+0.5, 179), k.zero-0.5, o.Wavelength)
+	g := &cand{c: k.c, zero: k.zero, zeroFree: k.zeroFree, qTop: top}
 	g.assign(all, o.Wavelength, 0)
-	if g.indexed > g.nparams() && g.refine(all, o.Wavelength) {
-		g.assign(all, o.Wavelength, 0)
-	} else {
-		g.c, g.zero = k.c, k.zero
-		g.assign(all, o.Wavelength, 0)
-	}
 	k.whole, k.ev = g, g.evidence(all, o.Wavelength, sp, o)
-	if !g.zeroFree || g.indexed < minDispLines {
-		return
+	disps := []bool{false}
+	if k.zeroFree && len(all) >= minDispLines {
+		disps = append(disps, true)
 	}
-	h := &cand{c: g.c, zero: g.zero, zeroFree: true, dispFree: true, qTop: g.qTop}
-	h.assign(all, o.Wavelength, 0)
-	ev := k.ev
-	for round := 0; round < 3; round++ {
-		if !h.refineW(all, o.Wavelength, ev.weights, dispRange/3) || math.Abs(h.disp) > dispRange {
-			return
+	for _, disp := range disps {
+		h, ev := k.whole, k.ev
+		for round := 0; round < 3; round++ {
+			next := &cand{c: h.c, zero: h.zero, disp: h.disp, zeroFree: h.zeroFree, dispFree: disp, qTop: top}
+			next.assignNearest(all, o.Wavelength)
+			if !next.refineW(all, o.Wavelength, ev.weights, dispRange/3) || math.Abs(next.disp) > dispRange || math.Abs(next.zero) > o.zeroBound() {
+				break
+			}
+			next.assign(all, o.Wavelength, 0)
+			h, ev = next, next.evidence(all, o.Wavelength, sp, o)
+			if ev.logE() > k.ev.logE() {
+				k.whole, k.ev = h, ev
+			}
 		}
-		h.assign(all, o.Wavelength, 0)
-		ev = h.evidence(all, o.Wavelength, sp, o)
 	}
-	if ev.logE() > k.ev.logE() {
-		k.whole, k.ev = h, ev
+}
+
+// assignNearest assigns every line to its nearest calculated line, with
+// no window (for a refinement whose weights judge the lines).
+func (k *cand) assignNearest(ls []obs, lambda float64) {
+	n := len(ls)
+	k.ref, k.qc = make([]int, n), make([]float64, n)
+	k.setCalc(qOf(math.Min(ls[n-1].tt+ls[n-1].tol+1, 179), k.zero-0.5, lambda))
+	k.indexed = 0
+	for i, o := range ls {
+		j := k.nearest(qOf(o.tt, k.shift(o.tt), lambda), math.Inf(1))
+		k.ref[i] = j
+		if j >= 0 {
+			k.qc[i] = k.calc[j].q
+			k.indexed++
+		}
 	}
 }
 

@@ -116,9 +116,12 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 			ranked = rankCands(pool, first, all, o)
 		}
 	}
-	need := sr.need(first)
-	if sc := append(supercells(ranked, first, o, need), subcells(ranked, first, o, need)...); len(sc) > 0 {
-		pool = append(pool, sc...)
+	if len(ranked) > 0 {
+		more, err := derivatives(ctx, ranked, first, all, o, want, sr.need(first))
+		if err != nil {
+			return nil, err
+		}
+		pool = append(pool, more...)
 		ranked = rankCands(pool, first, all, o)
 	}
 	probs := probabilities(ranked, all, spanOf(o, all))
@@ -220,7 +223,7 @@ func (sr *searcher) run(ls []obs, res *Result) ([]*cand, error) {
 	// The higher systems are searched at once, one goroutine each; their
 	// results are pooled in a fixed order, so the outcome does not depend
 	// on the schedule.
-	pools := make([][]*fit, len(high))
+	pools := make([][]*cand, len(high))
 	errs := make([]error, len(high))
 	var wg sync.WaitGroup
 	oh := o
@@ -229,7 +232,7 @@ func (sr *searcher) run(ls []obs, res *Result) ([]*cand, error) {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			pools[gi], errs[gi] = searchSystem(sr.ctx, s, want, ls, sr.zeros, oh, sr.tick)
+			pools[gi], errs[gi] = searchSystem(sr.ctx, s, want, ls, sr.zeros, oh, need, sr.tick)
 		}()
 	}
 	wg.Wait()
@@ -238,11 +241,8 @@ func (sr *searcher) run(ls []obs, res *Result) ([]*cand, error) {
 		if errs[gi] != nil {
 			return nil, errs[gi]
 		}
-		for _, f := range pools[gi] {
-			if !want[f.sys] {
-				continue
-			}
-			if k := candOf(f, ls, o, need); k != nil {
+		for _, k := range pools[gi] {
+			if want[k.c.System] {
 				pool = append(pool, k)
 			}
 		}
@@ -367,17 +367,8 @@ func searchedOf(high []cell.System, want map[cell.System]bool) []cell.System {
 
 // solutionOf builds the report of a cand over all lines.
 func solutionOf(k0 *cand, all, first []obs, o Options) Solution {
-	// Refine once more with every line, not only the first N.
-	k := &cand{c: k0.c, zero: k0.zero, zeroFree: k0.zeroFree}
-	k.assign(all, o.Wavelength, 0)
-	if !k.refine(all, o.Wavelength) {
-		k.c, k.zero = k0.c, k0.zero
-	} else {
-		k.assign(all, o.Wavelength, 0)
-		if !k.refine(all, o.Wavelength) {
-			k.c, k.zero = k0.c, k0.zero
-		}
-	}
+	// The cell as the evidence refined it on every line.
+	k := k0.whole
 	c := k.c
 	lambda := o.Wavelength
 	ttmax := all[len(all)-1].tt + 1
@@ -387,14 +378,13 @@ func solutionOf(k0 *cand, all, first []obs, o Options) Solution {
 		refs = refs[:2000]
 	}
 	s := Solution{
-		Cell: c, Volume: c.Volume(), Zero: k.zero,
+		Cell: c, Volume: c.Volume(), Zero: k.zero, Displacement: k.disp,
 		M: k0.m, FigureLines: len(first), FN: k0.fn, FNMeanDiff: k0.fnDelta, FNPossible: k0.nCalc,
 		Calculated: refs, Parameters: k0.nparams(),
 	}
 	if k0.dof > 0 {
 		s.ChiSquare, s.DOF = k0.chi2, k0.dof
 	}
-	k.assign(all, lambda, 0)
 	for i, l := range all {
 		il := IndexedLine{TwoTheta: l.tt, ESD: l.esd}
 		if j := k.ref[i]; j >= 0 {
@@ -403,7 +393,8 @@ func solutionOf(k0 *cand, all, first []obs, o Options) Solution {
 			if r < len(refs) {
 				il.Indexed = true
 				il.HKL = refs[r].HKL
-				il.TwoThetaCalc = ttOf(refs[r].Q, lambda) + k.zero
+				tt := ttOf(refs[r].Q, lambda)
+				il.TwoThetaCalc = tt + k.shift(tt)
 				il.Delta = l.tt - il.TwoThetaCalc
 			}
 		}

@@ -2,14 +2,135 @@ package indexing
 
 import (
 	"math"
+	"slices"
+	"sort"
 )
 
-// poissonTail returns P(X ≥ k) for a Poisson variable of mean lambda.
-func poissonTail(k int, lambda float64) float64 {
-	term, sum := math.Exp(-lambda), 0.0
-	for j := 0; j < k; j++ {
-		sum += term
-		term *= lambda / float64(j+1)
+// rankCands orders the cands by their evidence over all lines (see
+// evidence), most probable first, leaves out those with more calculated
+// lines than maxCalcLines and all but the weighKeep best by the
+// search's figure, and lists each lattice once: of
+// descriptions with the same calculated lines up to the last of the
+// first lines (within lineTolerance), the one with fewest parameters,
+// then the larger cell.
+func rankCands(ks []*cand, ls, all []obs, o Options) []*cand {
+	sp := spanOf(o, all)
+	var kept []*cand
+	for _, k := range ks {
+		if k.nCalc <= maxCalcLines(len(ls)) {
+			kept = append(kept, k)
+		}
 	}
-	return math.Max(0, 1-sum)
+	ks = bestCands(kept, weighKeep)
+	for _, k := range ks {
+		k.weigh(all, sp, o)
+	}
+	sort.SliceStable(ks, func(i, j int) bool { return moreLikely(ks[i], ks[j]) })
+	qmax := qOf(ls[len(ls)-1].tt, 0, o.Wavelength) * 1.001
+	tol := lineTolerance(resolution(all), o.Wavelength)
+	var out []*cand
+	var lines [][]float64
+	for _, k := range ks {
+		q := linesOf(k.whole, qmax, tol)
+		if q == nil {
+			continue
+		}
+		if i := slices.IndexFunc(lines, func(p []float64) bool { return sameLines(p, q, tol) }); i >= 0 {
+			// The same lines: the description of fewer parameters
+			// stands for them (its extra freedom fits noise); of as
+			// many, the larger cell, whose lines beyond the range the
+			// smaller one's would not all be (cubic I and cubic P of
+			// a/√2 agree up to h² + k² + l² = 14).
+			if pk, po := k.nparams(), out[i].nparams(); pk < po || pk == po && k.c.Volume() > out[i].c.Volume()*(1+1e-6) {
+				out[i], lines[i] = k, q
+			}
+			continue
+		}
+		out = append(out, k)
+		lines = append(lines, q)
+		if len(out) == rankKeep {
+			break
+		}
+	}
+	sort.SliceStable(out, func(i, j int) bool { return moreLikely(out[i], out[j]) })
+	return out
+}
+
+// weighKeep is how many cells, best by the search's figure (cand.score)
+// and one per cell, have their evidence taken: twice the lattices the
+// ranking keeps.
+const weighKeep = 2 * rankKeep
+
+// rankKeep is how many distinct lattices the ranking keeps.
+const rankKeep = 40
+
+// moreLikely orders cands by evidence, then fewer parameters, then
+// smaller volume, then deterministically by their cells.
+func moreLikely(a, b *cand) bool {
+	if ea, eb := a.ev.logE(), b.ev.logE(); ea != eb {
+		return ea > eb
+	}
+	if pa, pb := a.nparams(), b.nparams(); pa != pb {
+		return pa < pb
+	}
+	return betterCand(a, b)
+}
+
+// sameLinesTol is the relative difference in Q within which two
+// calculated lines are one when descriptions of a lattice are compared,
+// at least: the rounding of cells refined independently from the same
+// lines.
+const sameLinesTol = 2e-4
+
+// lineTolerance returns the difference in Q, Å⁻², within which two
+// calculated lines near Q are one: the resolution res (degrees 2θ at an
+// angle; see resolution), and not less than sameLinesTol. Descriptions
+// whose lines part by less than the lines' width would show the same
+// peaks, so the data cannot tell them apart (a lattice only nearly of a
+// higher symmetry whose splittings the scan resolves stays a lattice of
+// its own).
+func lineTolerance(res func(float64) float64, lambda float64) func(q float64) float64 {
+	return func(q float64) float64 {
+		tol := sameLinesTol * q
+		if tt := ttOf(q, lambda); !math.IsNaN(tt) {
+			tol = math.Max(tol, dQ(tt, res(tt), lambda))
+		}
+		return tol
+	}
+}
+
+// linesOf returns the distinct calculated Q of a cand up to qmax, lines
+// within tol of the first of a run merged; nil when there are too many
+// to compare.
+func linesOf(k *cand, qmax float64, tol func(float64) float64) []float64 {
+	var out []float64
+	start := math.Inf(-1)
+	for _, r := range k.calc {
+		if r.q > qmax {
+			break
+		}
+		if r.q-start <= tol(r.q) {
+			continue
+		}
+		start = r.q
+		out = append(out, r.q)
+		if len(out) > 20000 {
+			return nil
+		}
+	}
+	return out
+}
+
+// sameLines reports whether two sorted lists of Q match value for value
+// within tol.
+func sameLines(a, b []float64, tol func(float64) float64) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for i := range a {
+		if math.Abs(a[i]-b[i]) > tol(a[i]) {
+			return false
+		}
+	}
+	return true
 }

@@ -42,6 +42,10 @@ type Solution struct {
 	Cell   cell.Cell
 	Volume float64 // Å³
 	Zero   float64 // zero offset added to calculated angles, degrees 2θ
+	// Displacement is the coefficient of a shift Displacement·cos θ,
+	// degrees 2θ, added to calculated angles when the lines ask for one
+	// (see cand.weigh); zero otherwise.
+	Displacement float64
 
 	// Probability is the chance that this is the lattice of the lines,
 	// given that it is one of the candidates found or none (see

@@ -2,27 +2,45 @@ package indexing
 
 import (
 	"context"
-	"reticle/cell"
-
 	"math"
-	"slices"
 	"sort"
+
+	"reticle/cell"
 )
 
 // searchSystem seeds, screens and settles the lattices of one system (and
-// its centring variants) over the zero offsets; tick is called after each
+// its centring variants) over the zero offsets, as cands settled on the
+// first lines with need of them indexed; tick is called after each
 // offset.
-func searchSystem(ctx context.Context, s cell.System, want map[cell.System]bool, first []obs, zeros []float64, o Options, tick func()) ([]*fit, error) {
+func searchSystem(ctx context.Context, s cell.System, want map[cell.System]bool, first []obs, zeros []float64, o Options, need int, tick func()) ([]*cand, error) {
 	cen := cell.P
 	if s == cell.Hexagonal && !want[cell.Hexagonal] {
 		cen = cell.R
 	}
-	var fits []*fit
-	// The fits kept, by lattice: the same lattice settled from another
+	zeroFree := o.ZeroRange > 0
+	settle := func(c cell.Cell, zero float64) *cand {
+		k := &cand{c: c, zero: zero, zeroFree: zeroFree}
+		if !k.settle(first, o.Wavelength, screenExtra, need) || math.Abs(k.zero) > o.zeroBound() ||
+			k.c.A > o.MaxEdge || k.c.C > o.MaxEdge || k.c.Volume() > o.MaxVolume {
+			return nil
+		}
+		k.figures(first, o.Wavelength)
+		if !(k.m > 0) {
+			return nil
+		}
+		return k
+	}
+	var ks []*cand
+	// The cells kept, by lattice: the same lattice settled from another
 	// seed or zero offset replaces the kept one when its figure is better
 	// (a seed at a poor zero offset can settle into a poorer minimum).
 	settled := map[[2]int64]int{}
 	tried := map[[3]int64]bool{}
+	type screened struct {
+		t   trial
+		fig float64
+	}
+	var trials []screened
 	for _, z := range zeros {
 		if err := ctx.Err(); err != nil {
 			return nil, err
@@ -36,48 +54,58 @@ func searchSystem(ctx context.Context, s cell.System, want map[cell.System]bool,
 		}
 		maxCalc := float64(maxCalcLines(len(first)))
 		seeds(s, cen, qs, ws, z, o, func(t trial) {
-			if density(&t, qs[len(qs)-1]) > maxCalc || !screen(&t, qs, ws, o.MaxImpurities) {
+			if density(&t, qs[len(qs)-1]) > maxCalc {
+				return
+			}
+			fig, ok := screen(&t, qs, ws, o.MaxImpurities)
+			if !ok {
 				return
 			}
 			// Seeds of one lattice from different lines agree to
-			// about 1e-3; settle one of them.
+			// about 1e-3; one of them is kept.
 			ck := [3]int64{int64(math.Round(math.Log(t.pa) * 700)), int64(math.Round(math.Log(t.pc+1e-300) * 700)), int64(math.Round(t.zero * 1000))}
 			if tried[ck] {
 				return
 			}
 			tried[ck] = true
-			if f := settle(t, first, o); f != nil {
-				k := [2]int64{int64(math.Round(math.Log(f.pa) * 5000)), int64(math.Round(math.Log(f.pc+1e-300) * 5000))}
-				f.figures(first, o.Wavelength)
-				if f.m20 > 0 {
-					if i, ok := settled[k]; !ok {
-						settled[k] = len(fits)
-						fits = append(fits, f)
-					} else if f.m20 > fits[i].m20 {
-						fits[i] = f
-					}
-				}
-			}
+			trials = append(trials, screened{t, fig})
 		})
 		tick()
 	}
-	fits = best(fits, keep)
-	pool := append([]*fit(nil), fits...)
+	// The best screened trials are settled: the figure of a trial as
+	// seeded tells a lattice from chance well enough to leave most
+	// trials out (settleKeep).
+	sort.SliceStable(trials, func(i, j int) bool { return trials[i].fig > trials[j].fig })
+	for _, st := range trials[:min(len(trials), settleKeep)] {
+		if k := settle(st.t.cell(), st.t.zero); k != nil {
+			key := [2]int64{int64(math.Round(math.Log(k.c.A) * 10000)), int64(math.Round(math.Log(k.c.C) * 10000))}
+			if i, ok := settled[key]; !ok {
+				settled[key] = len(ks)
+				ks = append(ks, k)
+			} else if k.m > ks[i].m {
+				ks[i] = k
+			}
+		}
+	}
+	ks = bestCands(ks, keep)
+	pool := append([]*cand(nil), ks...)
 	// Centring variants of the primitive lattices.
-	for _, f := range fits {
-		for _, v := range variants(f.sys, want) {
-			t := f.trial
-			t.sys, t.cen = v.sys, v.cen
-			if g := settle(t, first, o); g != nil {
-				g.figures(first, o.Wavelength)
-				if g.m20 > 0 {
-					pool = append(pool, g)
-				}
+	for _, k := range ks {
+		for _, v := range variants(k.c.System, want) {
+			c := k.c
+			c.System, c.Centring = v.sys, v.cen
+			if g := settle(c, k.zero); g != nil {
+				pool = append(pool, g)
 			}
 		}
 	}
 	return pool, nil
 }
+
+// settleKeep is how many screened trials of each system are settled,
+// best figure first: four times the cells kept (keep), since a trial
+// settles into the same cell as others or into none.
+const settleKeep = 4 * keep
 
 // variant is a system and centring to try on a lattice found primitive.
 type variant struct {
@@ -223,54 +251,31 @@ func seeds(s cell.System, cen cell.Centring, qs, ws []float64, z float64, o Opti
 }
 
 // screen reports whether the trial indexes all but maxImp of the lines of
-// Q values qs within windows ws.
-func screen(t *trial, qs, ws []float64, maxImp int) bool {
+// Q values qs within windows ws, and gives its figure: de Wolff's M_N of
+// the trial as it stands (Q_N over twice the mean discrepancy of the
+// lines it indexes, each at least a tenth of its window, and the
+// estimated number of calculated lines, see density), times (indexed/N)⁴
+// as the ranking of cells within a search does (see cand.score).
+func screen(t *trial, qs, ws []float64, maxImp int) (float64, bool) {
 	miss := 0
+	var sum float64
 	for i, q := range qs {
-		if _, _, _, ok := t.assign(q, ws[i]); !ok {
+		_, _, qc, ok := t.assign(q, ws[i])
+		if !ok {
 			miss++
 			if miss > maxImp {
-				return false
+				return 0, false
 			}
+			continue
 		}
+		sum += math.Max(math.Abs(q-qc), ws[i]/10)
 	}
-	return true
-}
-
-// settle refines a trial: index with widened windows, refine parameters and
-// zero, index with the true windows, refine again. It returns nil when too
-// many lines stay unindexed.
-func settle(t trial, ls []obs, o Options) *fit {
-	f := &fit{trial: t}
-	zeroFree := o.ZeroRange > 0
-	f.assignAll(ls, o.Wavelength, screenExtra)
-	if f.indexed < len(ls)-o.MaxImpurities || !f.refine(ls, o.Wavelength, zeroFree) {
-		return nil
-	}
-	// Index and refine until the assignment stops changing.
-	var prevM, prevL []int
-	for pass := 0; pass < 6; pass++ {
-		f.assignAll(ls, o.Wavelength, 0)
-		if f.indexed < len(ls)-o.MaxImpurities || !f.refine(ls, o.Wavelength, zeroFree) {
-			return nil
-		}
-		if slices.Equal(f.m, prevM) && slices.Equal(f.l, prevL) {
-			break
-		}
-		prevM, prevL = f.m, f.l
-	}
-	if math.Abs(f.zero) > o.zeroBound() {
-		return nil
-	}
-	f.assignAll(ls, o.Wavelength, 0)
-	if f.indexed < len(ls)-o.MaxImpurities {
-		return nil
-	}
-	c := f.cell()
-	if c.A > o.MaxEdge || c.C > o.MaxEdge || c.Volume() > o.MaxVolume {
-		return nil
-	}
-	return f
+	n := len(qs)
+	idx := float64(n - miss)
+	qn := qs[n-1]
+	m := qn / (2 * sum / idx * math.Max(density(t, qn), 1))
+	r := idx / float64(n)
+	return m * r * r * r * r, true
 }
 
 // maxCalcLines is the most calculated lines, up to the last of n
@@ -294,61 +299,4 @@ func density(t *trial, q float64) float64 {
 		v, order = 2/math.Sqrt(3)/(t.pa*math.Sqrt(t.pc)), 24
 	}
 	return 4 * math.Pi / 3 * q * math.Sqrt(q) * v / order
-}
-
-// best returns up to n fits of highest M, distinct cells only.
-func best(fs []*fit, n int) []*fit { return bestDistinct(fs, n, better, same) }
-
-// bestDistinct orders xs by better (stably) and returns up to n of them,
-// the first of each group that same says are one.
-func bestDistinct[T any](xs []T, n int, better, same func(a, b T) bool) []T {
-	sort.SliceStable(xs, func(i, j int) bool { return better(xs[i], xs[j]) })
-	var out []T
-	for _, x := range xs {
-		dup := false
-		for _, y := range out {
-			if same(x, y) {
-				dup = true
-				break
-			}
-		}
-		if !dup {
-			out = append(out, x)
-			if len(out) == n {
-				break
-			}
-		}
-	}
-	return out
-}
-
-// better orders fits by their score, then by indexed lines, then
-// deterministically by their parameters.
-func better(a, b *fit) bool {
-	if sa, sb := a.score(), b.score(); sa != sb {
-		return sa > sb
-	}
-	if a.indexed != b.indexed {
-		return a.indexed > b.indexed
-	}
-	if a.pa != b.pa {
-		return a.pa < b.pa
-	}
-	return a.pc < b.pc
-}
-
-// score is M_N times (indexed/N)⁴: each line left unindexed costs about a
-// fifth of the figure among 20 lines, so that a cell which explains fewer
-// lines must be much sharper to rank above one that explains them all.
-func (f *fit) score() float64 {
-	r := float64(f.indexed) / float64(len(f.m))
-	s := f.m20 * r * r * r * r
-	return s
-}
-
-// same reports whether two fits are one cell: same system and centring,
-// parameters within 2e-4.
-func same(a, b *fit) bool {
-	return a.sys == b.sys && a.cen == b.cen &&
-		math.Abs(a.pa-b.pa) <= 4e-4*a.pa && math.Abs(a.pc-b.pc) <= 4e-4*math.Max(a.pc, 1e-300)
 }

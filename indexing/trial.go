@@ -4,7 +4,6 @@ import (
 	"reticle/cell"
 
 	"math"
-	"sort"
 )
 
 // A trial is a lattice to test: its system, centring, linear Q parameters
@@ -54,46 +53,6 @@ func (t *trial) assign(q, w float64) (m, l int, qc float64, ok bool) {
 		}
 	}
 	return m, l, qc, ok
-}
-
-// countCalc returns the number of distinct calculated Q values up to qmax
-// (merged within 1e-9 relative).
-func (t *trial) countCalc(qmax float64) int {
-	var qs []float64
-	if t.sys == cell.Cubic {
-		n := 0
-		for k := 1; float64(k)*t.pa <= qmax; k++ {
-			if cubicAllowed(t.cen, k) {
-				n++
-			}
-		}
-		return n
-	}
-	for ll := 0; t.pc*float64(ll*ll) <= qmax; ll++ {
-		for mm := 0; t.pa*float64(mm)+t.pc*float64(ll*ll) <= qmax; mm++ {
-			if planeAllowed(t.sys, t.cen, mm, ll) {
-				qs = append(qs, t.pa*float64(mm)+t.pc*float64(ll*ll))
-			}
-		}
-		if len(qs) > 100000 {
-			break
-		}
-	}
-	return distinct(qs)
-}
-
-func distinct(qs []float64) int {
-	if len(qs) == 0 {
-		return 0
-	}
-	sort.Float64s(qs)
-	n := 1
-	for i := 1; i < len(qs); i++ {
-		if qs[i]-qs[i-1] > 1e-9*qs[i] {
-			n++
-		}
-	}
-	return n
 }
 
 // cell returns the trial's conventional cell.

@@ -4,6 +4,7 @@ import (
 	"context"
 	"math"
 	"slices"
+	"sort"
 	"sync"
 
 	"reticle/cell"
@@ -170,61 +171,69 @@ func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System
 		if err != nil {
 			continue
 		}
-		for _, s := range []cell.System{cell.Cubic, cell.Tetragonal, cell.Hexagonal, cell.Rhombohedral, cell.Orthorhombic, cell.Monoclinic, cell.Triclinic} {
-			if !want[s] {
-				continue
-			}
-			if s == cell.Triclinic {
-				out = append(out, t)
-				continue
-			}
-			sts := cell.Settings(red, s, settingTol)
-			if len(sts) > 2 {
-				sts = sts[:2]
-			}
-			for _, st := range sts {
-				c := st.Cell
-				c.System = s
-				if c.A > o.MaxEdge || c.B > o.MaxEdge || c.C > o.MaxEdge {
-					continue
-				}
-				k := &cand{c: c, zero: t.zero, zeroFree: t.zeroFree}
-				if !k.settle(first, o.Wavelength, 0, need) {
-					continue
-				}
-				// The refined cell in its system's conventional setting.
-				if cc, _, err := cell.Conventional(k.c); err == nil {
-					k.c = cc
-					k.assign(first, o.Wavelength, 0)
-				}
-				if math.Abs(k.zero) > o.zeroBound() || k.c.Volume() > o.MaxVolume {
-					continue
-				}
-				k.figures(first, o.Wavelength)
-				if k.m > 0 {
-					out = append(out, k)
-				}
-			}
+		if want[cell.Triclinic] {
+			out = append(out, t)
 		}
+		out = append(out, describeLattice(red, t.zero, t.zeroFree, first, o, want, need, settingTol)...)
 	}
 	return out, nil
 }
 
-// candOf turns a fit of the two-parameter search into a cand.
-func candOf(f *fit, first []obs, o Options, need int) *cand {
-	k := &cand{c: f.cell(), zero: f.zero, zeroFree: f.zeroFree}
-	if !k.settle(first, o.Wavelength, 0, need) {
-		return nil
+// describeLattice returns the lattice of a reduced cell described in
+// every wanted system other than triclinic whose metric it has within
+// tol (at most the two best settings of each, cell.Settings), each
+// settled on the lines and put in its system's conventional setting.
+func describeLattice(red cell.Reduced, zero float64, zeroFree bool, first []obs, o Options, want map[cell.System]bool, need int, tol cell.Tolerance) []*cand {
+	var out []*cand
+	for _, s := range []cell.System{cell.Cubic, cell.Tetragonal, cell.Hexagonal, cell.Rhombohedral, cell.Orthorhombic, cell.Monoclinic} {
+		if !want[s] {
+			continue
+		}
+		sts := cell.Settings(red, s, tol)
+		if len(sts) > 2 {
+			sts = sts[:2]
+		}
+		for _, st := range sts {
+			c := st.Cell
+			c.System = s
+			if c.A > o.MaxEdge || c.B > o.MaxEdge || c.C > o.MaxEdge {
+				continue
+			}
+			k := &cand{c: c, zero: zero, zeroFree: zeroFree}
+			if !k.settle(first, o.Wavelength, 0, need) {
+				continue
+			}
+			// The refined cell in its system's conventional setting.
+			if cc, _, err := cell.Conventional(k.c); err == nil {
+				k.c = cc
+				k.assign(first, o.Wavelength, 0)
+			}
+			if math.Abs(k.zero) > o.zeroBound() || k.c.Volume() > o.MaxVolume {
+				continue
+			}
+			k.figures(first, o.Wavelength)
+			if k.m > 0 {
+				out = append(out, k)
+			}
+		}
 	}
-	k.figures(first, o.Wavelength)
-	if !(k.m > 0) {
-		return nil
-	}
-	return k
+	return out
 }
 
 // bestCands returns up to n cands of highest score, one per cell.
-func bestCands(ks []*cand, n int) []*cand { return bestDistinct(ks, n, betterCand, sameCand) }
+func bestCands(ks []*cand, n int) []*cand {
+	sort.SliceStable(ks, func(i, j int) bool { return betterCand(ks[i], ks[j]) })
+	var out []*cand
+	for _, k := range ks {
+		if !slices.ContainsFunc(out, func(x *cand) bool { return sameCand(k, x) }) {
+			out = append(out, k)
+			if len(out) == n {
+				break
+			}
+		}
+	}
+	return out
+}
 
 // betterCand orders cands by score, then indexed lines, then volume,
 // then deterministically by their cells.
