@@ -285,6 +285,7 @@ func (u *ui) cellColumns() []cellColumn {
 	}
 	return append(cols,
 		cellColumn{"V (Å³)", 110, func(_ *ui, c *analysis.Candidate) string { v, e := c.Volume(); return esd.Format(v, e) }},
+		cellColumn{"probability", 90, func(_ *ui, c *analysis.Candidate) string { return report.Percent(c.Probability) }},
 		cellColumn{"M_N", 64, func(_ *ui, c *analysis.Candidate) string { return fmt.Sprintf("%.1f", c.M) }},
 		cellColumn{"F_N", 64, func(_ *ui, c *analysis.Candidate) string { return fmt.Sprintf("%.1f", c.FN) }},
 		cellColumn{"indexed", 70, func(_ *ui, c *analysis.Candidate) string {

@@ -363,10 +363,10 @@ func (x *pdfWriter) candidates(a *analysis.Analysis) {
 	for _, p := range params {
 		if free[p.name] || p.name == "c" {
 			shown = append(shown, p)
-			cols = append(cols, column{p.title, 17, "R"})
+			cols = append(cols, column{p.title, 15, "R"})
 		}
 	}
-	cols = append(cols, column{"V (Å³)", 17, "R"}, column{fmt.Sprintf("M%d", a.Candidates[0].FigureLines), 12, "R"},
+	cols = append(cols, column{"V (Å³)", 15, "R"}, column{"probability", 15, "R"}, column{fmt.Sprintf("M%d", a.Candidates[0].FigureLines), 12, "R"},
 		column{fmt.Sprintf("F%d", a.Candidates[0].FigureLines), 12, "R"}, column{"indexed", 13, "R"}, column{"Z", 10, "R"}, column{"", 13, "L"})
 	var rows [][]string
 	for i, c := range a.Candidates {
@@ -387,12 +387,12 @@ func (x *pdfWriter) candidates(a *analysis.Analysis) {
 		for _, p := range shown {
 			row = append(row, fmt.Sprintf("%.4f", p.get(ce)))
 		}
-		row = append(row, fmt.Sprintf("%.2f", v), fmt.Sprintf("%.1f", c.M), fmt.Sprintf("%.1f", c.FN), fmt.Sprintf("%d/%d", c.Indexed, c.Indexed+c.Unindexed), z, mark)
+		row = append(row, fmt.Sprintf("%.2f", v), Percent(c.Probability), fmt.Sprintf("%.1f", c.M), fmt.Sprintf("%.1f", c.FN), fmt.Sprintf("%d/%d", c.Indexed, c.Indexed+c.Unindexed), z, mark)
 		rows = append(rows, row)
 	}
 	x.table(cols, rows)
 	x.pdf.SetFont(fontSans, "I", 7.5)
-	x.pdf.MultiCell(0, 3.6, fmt.Sprintf("M_N after de Wolff (1968) and F_N after Smith & Snyder (1979), over the first %d lines; a Z marked (not whole) does not fit the measured density.", a.Candidates[0].FigureLines), "", "L", false)
+	x.pdf.MultiCell(0, 3.6, fmt.Sprintf("probability: the chance that the cell is the lattice of the lines, of the candidates found or none (the evidence of the line positions under each cell, normalised); M_N after de Wolff (1968) and F_N after Smith & Snyder (1979), over the first %d lines; a Z marked (not whole) does not fit the measured density.", a.Candidates[0].FigureLines), "", "L", false)
 	if r := a.Search; r != nil {
 		x.pdf.MultiCell(0, 3.6, SearchText(r), "", "L", false)
 	}
