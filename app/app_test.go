@@ -91,7 +91,7 @@ func TestWorkflow(t *testing.T) {
 	u := newTestUI(t, "")
 	// A high threshold leaves the weak lines out, so that one can be
 	// added by hand.
-	u.openWith(demoScan, analysis.Settings{Threshold: 14}, 0)
+	u.openWith(demoScan, analysis.Settings{Threshold: 14}, 0, nil)
 	u.wait()
 	doc := u.m.A
 	if doc == nil || len(doc.Candidates) == 0 {

@@ -142,9 +142,12 @@ func (u *ui) restoreSession(s *report.Session) {
 	}
 	u.m.Settings = s.Settings
 	u.syncFields()
-	u.openWith(s.Scan.Path, s.Settings, s.Solution)
-	if scan := u.m.Scan(); s.Scan.SHA256 != "" && scan != nil && scan.SHA256 != s.Scan.SHA256 {
-		dialog.ShowInformation("The scan has changed",
-			fmt.Sprintf("%s is not the file the session was saved with (its SHA-256 differs).\nThe peaks and cells shown come from the file as it is now.", s.Scan.Path), u.win)
-	}
+	// The scan is read on a worker: its SHA-256 is compared once it is
+	// open, not with the scan open before.
+	u.openWith(s.Scan.Path, s.Settings, s.Solution, func() {
+		if scan := u.m.Scan(); s.Scan.SHA256 != "" && scan != nil && scan.SHA256 != s.Scan.SHA256 {
+			dialog.ShowInformation("The scan has changed",
+				fmt.Sprintf("%s is not the file the session was saved with (its SHA-256 differs).\nThe peaks and cells shown come from the file as it is now.", s.Scan.Path), u.win)
+		}
+	})
 }

@@ -70,7 +70,7 @@ func (u *ui) scanStep() fyne.CanvasObject {
 		}
 		s := u.m.Settings.Clone()
 		s.Radiation = rad
-		u.openWith(u.m.Path, s, 0)
+		u.openWith(u.m.Path, s, 0, nil)
 	})
 	recentBox := container.NewVBox()
 	u.fillRecent(recentBox)

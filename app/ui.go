@@ -198,16 +198,17 @@ func (u *ui) open(path string) {
 			s.Radiation = &r
 		}
 	}
-	u.openWith(path, s, 0)
+	u.openWith(path, s, 0, nil)
 }
 
 // openWith opens a scan with given settings; solution is the rank to
-// select after the analysis (0: the best).
+// select after the analysis (0: the best); then, when not nil, runs on
+// the UI thread once the scan is open.
 //
 // Reading and extraction run on a worker, with the progress bar and the
 // Stop button, so that a scan of a million points does not hold the
 // window; the scan open so far stays until the new one is ready.
-func (u *ui) openWith(path string, s analysis.Settings, solution int) {
+func (u *ui) openWith(path string, s analysis.Settings, solution int, then func()) {
 	var ext *analysis.Extraction
 	u.work(fmt.Sprintf("reading %s…", path), func(ctx context.Context, p analysis.Progress) (err error) {
 		ext, err = analysis.ReadExtract(ctx, path, s, p)
@@ -223,6 +224,9 @@ func (u *ui) openWith(path string, s analysis.Settings, solution int) {
 		}
 		u.m.Opened(path, ext, s)
 		u.opened(path, solution)
+		if then != nil {
+			then()
+		}
 	})
 }
 
