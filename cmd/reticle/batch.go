@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"context"
 	"fmt"
 	"io"
 	"os"
@@ -58,8 +59,10 @@ func expandInputs(args []string) []string {
 // bar there. Each work(i) writes only its own results, so the caller
 // prints them in input order afterwards. order, when not nil, is the
 // order in which to start the items (the largest first keeps every core
-// busy to the end).
-func forEach(n, jobs int, stderr io.Writer, label string, order []int, work func(i int)) {
+// busy to the end). Once ctx is cancelled no item is started; done
+// reports the items whose work finished before that.
+func forEach(ctx context.Context, n, jobs int, stderr io.Writer, label string, order []int, work func(i int)) (done []bool) {
+	done = make([]bool, n)
 	// --jobs N holds the whole run to N cores, since each analysis also
 	// spreads its own work over the cores it may use.
 	if jobs < runtime.GOMAXPROCS(0) {
@@ -82,24 +85,56 @@ func forEach(n, jobs int, stderr io.Writer, label string, order []int, work func
 			defer wg.Done()
 			for i := range next {
 				work(i)
+				if ctx.Err() == nil {
+					done[i] = true
+				}
 				if bar != nil {
 					bar.Increment()
 				}
 			}
 		}()
 	}
+feed:
 	for k := 0; k < n; k++ {
+		i := k
 		if order != nil {
-			next <- order[k]
-		} else {
-			next <- k
+			i = order[k]
+		}
+		select {
+		case next <- i:
+		case <-ctx.Done():
+			break feed
 		}
 	}
 	close(next)
 	wg.Wait()
 	if bars != nil {
-		bars.Wait()
+		if ctx.Err() != nil {
+			bars.Shutdown()
+		} else {
+			bars.Wait()
+		}
 	}
+	return done
+}
+
+// interrupted says which scans a command had finished when it was
+// stopped, and returns exitInterrupted. Nothing else is written: a
+// report's files are written under a temporary name and renamed, so a
+// scan not finished leaves none.
+func interrupted(c command, files []string, done []bool, stderr io.Writer) int {
+	var fin []string
+	for i, f := range files {
+		if done[i] {
+			fin = append(fin, f)
+		}
+	}
+	fmt.Fprintf(stderr, "reticle %s: stopped; %d of %d scans were finished", commandNames[c], len(fin), len(files))
+	if len(fin) > 0 {
+		fmt.Fprintf(stderr, ": %s", strings.Join(fin, ", "))
+	}
+	fmt.Fprintln(stderr)
+	return exitInterrupted
 }
 
 // isTerminal reports whether f is a character device (a terminal).

@@ -1,14 +1,17 @@
 package main
 
 import (
+	"context"
 	"encoding/csv"
 	"encoding/json"
+	"fmt"
 	"io"
 	"os"
 	"path/filepath"
 	"runtime"
 	"strings"
 	"testing"
+	"time"
 )
 
 // TestBatch: a folder of scans with one unreadable file, analysed two at
@@ -104,7 +107,7 @@ func TestJobsHoldCores(t *testing.T) {
 		t.Skip("one core: nothing to hold back")
 	}
 	seen := make([]int, 3)
-	forEach(len(seen), 1, io.Discard, "test", nil, func(i int) { seen[i] = runtime.GOMAXPROCS(0) })
+	forEach(context.Background(), len(seen), 1, io.Discard, "test", nil, func(i int) { seen[i] = runtime.GOMAXPROCS(0) })
 	for i, c := range seen {
 		if c != 1 {
 			t.Errorf("item %d ran with %d cores, want 1", i, c)
@@ -113,8 +116,67 @@ func TestJobsHoldCores(t *testing.T) {
 	if after := runtime.GOMAXPROCS(0); after != before {
 		t.Errorf("after the run: %d cores, want %d", after, before)
 	}
-	forEach(2, before, io.Discard, "test", nil, func(i int) { seen[i] = runtime.GOMAXPROCS(0) })
+	forEach(context.Background(), 2, before, io.Discard, "test", nil, func(i int) { seen[i] = runtime.GOMAXPROCS(0) })
 	if seen[0] != before {
 		t.Errorf("with --jobs %d: %d cores", before, seen[0])
+	}
+}
+
+// TestInterrupt: a batch report whose context is cancelled (Ctrl-C)
+// after the first scan stops within a second, names the scans finished,
+// exits with 130, and leaves in the output folder the finished scan's
+// files only: no empty or temporary file.
+func TestInterrupt(t *testing.T) {
+	dir := t.TempDir()
+	data, err := os.ReadFile(demo)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var files []string
+	for i := 0; i < 6; i++ {
+		f := filepath.Join(dir, fmt.Sprintf("kiln-%d.xy", i))
+		if err := os.WriteFile(f, data, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		files = append(files, f)
+	}
+	out := filepath.Join(dir, "out")
+	ctx, cancel := context.WithCancel(context.Background())
+	var errb strings.Builder
+	finished := make(chan int)
+	go func() {
+		var o strings.Builder
+		finished <- reportAt(ctx, append([]string{"--out", out, "--jobs", "1"}, files...), &o, &errb, time.Date(2026, 1, 2, 3, 4, 5, 0, time.UTC))
+	}()
+	// Stop once the first scan's report is written.
+	deadline := time.Now().Add(60 * time.Second)
+	for {
+		ents, _ := os.ReadDir(out)
+		if len(ents) >= 4 || time.Now().After(deadline) {
+			break
+		}
+		time.Sleep(20 * time.Millisecond)
+	}
+	stopped := time.Now()
+	cancel()
+	code := <-finished
+	if d := time.Since(stopped); d > time.Second {
+		t.Errorf("stopped %v after the cancel, want within 1 s", d)
+	}
+	if code != exitInterrupted || !strings.Contains(errb.String(), "stopped;") || !strings.Contains(errb.String(), "of 6 scans were finished") {
+		t.Errorf("status %d, message %q", code, errb.String())
+	}
+	ents, err := os.ReadDir(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, e := range ents {
+		fi, _ := e.Info()
+		if fi.Size() == 0 || strings.HasPrefix(e.Name(), ".") || strings.Contains(e.Name(), "tmp") {
+			t.Errorf("left behind: %s (%d bytes)", e.Name(), fi.Size())
+		}
+	}
+	if len(ents) == 0 || len(ents)%4 != 0 {
+		t.Errorf("%d files in the output folder, want the four of each finished scan", len(ents))
 	}
 }

@@ -15,7 +15,7 @@ import (
 	"reticle/report"
 )
 
-func cmdIndexRun(args []string, stdout, stderr io.Writer) int {
+func cmdIndexRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	r, files, code, ok := start(cmdIndex, args, stderr)
 	if !ok {
 		return code
@@ -27,10 +27,13 @@ func cmdIndexRun(args []string, stdout, stderr io.Writer) int {
 	files = expandInputs(files)
 	as := make([]*analysis.Analysis, len(files))
 	rows := make([]report.SummaryRow, len(files))
-	forEach(len(files), r.jobs, stderr, "indexing", largestFirst(files), func(i int) {
-		a, sha, err := analyse(files[i], r.settings)
+	done := forEach(ctx, len(files), r.jobs, stderr, "indexing", largestFirst(files), func(i int) {
+		a, sha, err := analyse(ctx, files[i], r.settings)
 		as[i], rows[i] = a, report.NewSummaryRow(files[i], sha, a, err)
 	})
+	if ctx.Err() != nil {
+		return interrupted(cmdIndex, files, done, stderr)
+	}
 	var docs []*report.Document
 	status := 0
 	for i, a := range as {
@@ -57,7 +60,7 @@ func cmdIndexRun(args []string, stdout, stderr io.Writer) int {
 // analyse reads and analyses one scan; sha is the SHA-256 of the file's
 // bytes whenever they could be read, so that a scan that fails is still
 // identified in the summary.
-func analyse(path string, s analysis.Settings) (a *analysis.Analysis, sha string, err error) {
+func analyse(ctx context.Context, path string, s analysis.Settings) (a *analysis.Analysis, sha string, err error) {
 	scan, err := analysis.Read(path, s)
 	if err != nil {
 		if data, rerr := os.ReadFile(path); rerr == nil {
@@ -65,7 +68,7 @@ func analyse(path string, s analysis.Settings) (a *analysis.Analysis, sha string
 		}
 		return nil, sha, err
 	}
-	a, err = analysis.Run(context.Background(), scan, s, nil)
+	a, err = analysis.Run(ctx, scan, s, nil)
 	if err != nil {
 		return nil, scan.SHA256, err
 	}

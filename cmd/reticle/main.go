@@ -14,11 +14,14 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"io"
 	"os"
+	"os/signal"
 	"runtime/debug"
 	"strings"
+	"syscall"
 )
 
 func main() {
@@ -34,8 +37,17 @@ func main() {
 			debug.SetMemoryLimit(maxHeap)
 		}
 	}
-	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
+	// Ctrl-C (or a termination request) cancels the work in progress:
+	// a batch stops, says which scans were finished, and exits with 130.
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	code := runContext(ctx, os.Args[1:], os.Stdout, os.Stderr)
+	stop()
+	os.Exit(code)
 }
+
+// exitInterrupted is the exit status of a command stopped by Ctrl-C
+// (128 + SIGINT, the shells' convention).
+const exitInterrupted = 130
 
 // maxHeap is the heap size, in bytes, beyond which the command collects
 // garbage as often as it must to stay there.
@@ -54,21 +66,26 @@ func usage() string {
 
 // run executes one command line and returns the process exit status.
 func run(args []string, stdout, stderr io.Writer) int {
+	return runContext(context.Background(), args, stdout, stderr)
+}
+
+// runContext is run with a context that cancels the work.
+func runContext(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	if len(args) == 0 {
 		fmt.Fprint(stderr, usage())
 		return 2
 	}
 	switch args[0] {
 	case "peaks":
-		return cmdPeaksRun(args[1:], stdout, stderr)
+		return cmdPeaksRun(ctx, args[1:], stdout, stderr)
 	case "index":
-		return cmdIndexRun(args[1:], stdout, stderr)
+		return cmdIndexRun(ctx, args[1:], stdout, stderr)
 	case "refine":
-		return cmdRefineRun(args[1:], stdout, stderr)
+		return cmdRefineRun(ctx, args[1:], stdout, stderr)
 	case "contents":
 		return cmdContentsRun(args[1:], stdout, stderr)
 	case "report":
-		return cmdReportRun(args[1:], stdout, stderr)
+		return cmdReportRun(ctx, args[1:], stdout, stderr)
 	case "help", "-h", "--help":
 		fmt.Fprint(stdout, usage())
 		return 0

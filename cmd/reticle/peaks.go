@@ -19,7 +19,7 @@ type scanJSON struct {
 	Peaks    []report.Peak       `json:"peaks"`
 }
 
-func cmdPeaksRun(args []string, stdout, stderr io.Writer) int {
+func cmdPeaksRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	r, files, code, ok := start(cmdPeaks, args, stderr)
 	if !ok {
 		return code
@@ -30,8 +30,13 @@ func cmdPeaksRun(args []string, stdout, stderr io.Writer) int {
 	}
 	var docs []scanJSON
 	status := 0
-	for _, path := range files {
-		e, err := analysis.ReadExtract(context.Background(), path, r.settings, nil)
+	done := make([]bool, len(files))
+	for i, path := range files {
+		e, err := analysis.ReadExtract(ctx, path, r.settings, nil)
+		if ctx.Err() != nil {
+			return interrupted(cmdPeaks, files, done, stderr)
+		}
+		done[i] = true
 		if err != nil {
 			fmt.Fprintf(stderr, "reticle peaks: %v\n", err)
 			status = 1

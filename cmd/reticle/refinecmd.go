@@ -34,7 +34,7 @@ type refineDocJSON struct {
 	text string
 }
 
-func cmdRefineRun(args []string, stdout, stderr io.Writer) int {
+func cmdRefineRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	r, files, code, ok := start(cmdRefine, args, stderr)
 	if !ok {
 		return code
@@ -50,7 +50,7 @@ func cmdRefineRun(args []string, stdout, stderr io.Writer) int {
 	var docs []refineDocJSON
 	status := 0
 	for _, path := range files {
-		doc, err := refineFile(path, r)
+		doc, err := refineFile(ctx, path, r)
 		if err != nil {
 			fmt.Fprintf(stderr, "reticle refine: %v\n", err)
 			status = 1
@@ -72,8 +72,7 @@ func cmdRefineRun(args []string, stdout, stderr io.Writer) int {
 }
 
 // refineFile extracts a scan's peaks and refines the cell against them.
-func refineFile(path string, r *request) (refineDocJSON, error) {
-	ctx := context.Background()
+func refineFile(ctx context.Context, path string, r *request) (refineDocJSON, error) {
 	e, err := analysis.ReadExtract(ctx, path, r.settings, nil)
 	if err != nil {
 		return refineDocJSON{}, err

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"io"
@@ -12,12 +13,12 @@ import (
 	"reticle/report"
 )
 
-func cmdReportRun(args []string, stdout, stderr io.Writer) int {
-	return reportAt(args, stdout, stderr, time.Now())
+func cmdReportRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
+	return reportAt(ctx, args, stdout, stderr, time.Now())
 }
 
 // reportAt is cmdReportRun with the date of the records given.
-func reportAt(args []string, stdout, stderr io.Writer, date time.Time) int {
+func reportAt(ctx context.Context, args []string, stdout, stderr io.Writer, date time.Time) int {
 	r, files, code, ok := start(cmdReport, args, stderr)
 	if !ok {
 		return code
@@ -80,10 +81,10 @@ func reportAt(args []string, stdout, stderr io.Writer, date time.Time) int {
 	}
 	outs := make([]outcome, len(files))
 	rows := make([]report.SummaryRow, len(files))
-	forEach(len(files), r.jobs, stderr, "reporting", largestFirst(files), func(i int) {
+	done := forEach(ctx, len(files), r.jobs, stderr, "reporting", largestFirst(files), func(i int) {
 		path := files[i]
 		o := &outs[i]
-		a, sha, err := analyse(path, settings)
+		a, sha, err := analyse(ctx, path, settings)
 		if wantSHA != "" && sha != "" && sha != wantSHA {
 			o.note = fmt.Sprintf("warning: %s has changed since the session was saved (SHA-256 %s, session %s)", path, sha, wantSHA)
 		}
@@ -101,6 +102,18 @@ func reportAt(args []string, stdout, stderr io.Writer, date time.Time) int {
 		}
 		rows[i] = report.NewSummaryRow(path, sha, a, nil)
 	})
+	if ctx.Err() != nil {
+		for i, o := range outs {
+			if done[i] {
+				for _, f := range []string{o.written.PDF, o.written.CIF, o.written.CSV, o.written.JSON} {
+					if f != "" {
+						fmt.Fprintln(stdout, f)
+					}
+				}
+			}
+		}
+		return interrupted(cmdReport, files, done, stderr)
+	}
 	status := 0
 	for _, o := range outs {
 		if o.note != "" {

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"context"
 	"os"
 	"path/filepath"
 	"reticle/report"
@@ -15,7 +16,7 @@ func TestReportCommand(t *testing.T) {
 	date := time.Date(2026, 12, 1, 9, 0, 0, 0, time.UTC)
 	var out, errb bytes.Buffer
 	args := []string{"--out", dir, "--sample", "kiln 07", "--formula", "MgAl2O4", "--density", "3.58(2)", demo}
-	if code := reportAt(args, &out, &errb, date); code != 0 {
+	if code := reportAt(context.Background(), args, &out, &errb, date); code != 0 {
 		t.Fatalf("exit %d: %s", code, errb.String())
 	}
 	files := strings.Fields(out.String())
@@ -32,14 +33,14 @@ func TestReportCommand(t *testing.T) {
 	// Again without --force: refused, nothing changed.
 	out.Reset()
 	errb.Reset()
-	if code := reportAt(args, &out, &errb, date); code != 1 || !strings.Contains(errb.String(), "--force") {
+	if code := reportAt(context.Background(), args, &out, &errb, date); code != 1 || !strings.Contains(errb.String(), "--force") {
 		t.Errorf("second run: exit %d, %q", code, errb.String())
 	}
 	// Regenerated from the report's own JSON, into another directory.
 	dir2 := t.TempDir()
 	out.Reset()
 	errb.Reset()
-	if code := reportAt([]string{"--out", dir2, "--session", jsonPath}, &out, &errb, date); code != 0 {
+	if code := reportAt(context.Background(), []string{"--out", dir2, "--session", jsonPath}, &out, &errb, date); code != 0 {
 		t.Fatalf("--session: exit %d: %s", code, errb.String())
 	}
 	again, _ := os.ReadFile(filepath.Join(dir2, "kiln-07.json"))
