@@ -58,6 +58,21 @@ func DTwoThetaDQ(q, lambda float64) float64 {
 	return lambda / (2 * math.Sqrt(q) * math.Sqrt(1-s*s)) / deg
 }
 
+// AtWavelength returns the angle in degrees 2θ at which the d-spacing
+// seen at twoTheta with wavelength lambda is seen with wavelength lambda2
+// (a K-alpha2 line beside its K-alpha1 line), and its derivative with
+// respect to twoTheta; +Inf and 0 when λ₂ reaches no reflection.
+func AtWavelength(twoTheta, lambda, lambda2 float64) (float64, float64) {
+	r := lambda2 / lambda
+	th := twoTheta * deg / 2
+	s := r * math.Sin(th)
+	if s >= 1 {
+		return math.Inf(1), 0
+	}
+	th2 := math.Asin(s)
+	return 2 * th2 / deg, r * math.Cos(th) / math.Cos(th2)
+}
+
 // A Line is one observed powder line: its position (the K-alpha1 or single
 // wavelength position of a peak) and the esd of that position, both in
 // degrees 2θ. Indexing and refinement work from Lines.

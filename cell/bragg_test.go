@@ -46,3 +46,25 @@ func TestBragg(t *testing.T) {
 		t.Error("impossible reflections must give NaN")
 	}
 }
+
+// TestAtWavelength: the K-alpha2 angle of a K-alpha1 line is that of the
+// same d-spacing at the other wavelength (Cu, Hölzer et al. 1997, from
+// memory), and the derivative matches a central difference.
+func TestAtWavelength(t *testing.T) {
+	const l1, l2 = 1.5405929, 1.5444274
+	for _, tt := range []float64{20, 44.5, 90, 150} {
+		got, d := AtWavelength(tt, l1, l2)
+		if want := TwoTheta(DSpacing(tt, l1), l2); math.Abs(got-want) > 1e-9 {
+			t.Errorf("2θ %g: %g, want %g", tt, got, want)
+		}
+		h := 1e-5
+		a, _ := AtWavelength(tt+h, l1, l2)
+		b, _ := AtWavelength(tt-h, l1, l2)
+		if fd := (a - b) / (2 * h); math.Abs(fd-d) > 1e-6 {
+			t.Errorf("2θ %g: derivative %g, difference %g", tt, d, fd)
+		}
+	}
+	if got, _ := AtWavelength(179, l1, 1.6); !math.IsInf(got, 1) {
+		t.Errorf("beyond 180°: %g", got)
+	}
+}

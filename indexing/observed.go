@@ -19,19 +19,10 @@ type obs struct {
 
 // qOf returns Q = (2 sin θ / λ)² of a line at tt degrees 2θ after
 // removing the zero offset z.
-func qOf(tt, z, lambda float64) float64 {
-	s := 2 * math.Sin((tt-z)*deg/2) / lambda
-	return s * s
-}
+func qOf(tt, z, lambda float64) float64 { return cell.QOf(tt-z, lambda) }
 
 // ttOf returns the angle in degrees 2θ of Q, NaN beyond 180°.
-func ttOf(q, lambda float64) float64 {
-	s := lambda * math.Sqrt(q) / 2
-	if s > 1 {
-		return math.NaN()
-	}
-	return 2 * math.Asin(s) / deg
-}
+func ttOf(q, lambda float64) float64 { return cell.TwoThetaOfQ(q, lambda) }
 
 // dQ returns the Q window that a 2θ window of tol degrees spans at tt:
 // dQ = Q cot θ · Δ2θ (radians).

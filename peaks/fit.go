@@ -3,6 +3,8 @@ package peaks
 import (
 	"math"
 	"sort"
+
+	"reticle/cell"
 )
 
 // A component is one peak being fitted: its current parameters and esds.
@@ -45,14 +47,7 @@ func (md *model) companion2(x float64) (float64, float64) {
 	if !md.rad.Doublet() {
 		return x, 0
 	}
-	r := md.rad.Lambda2 / md.rad.Lambda1
-	th := x * deg / 2
-	s := r * math.Sin(th)
-	if s >= 1 {
-		return math.Inf(1), 0
-	}
-	th2 := math.Asin(s)
-	return 2 * th2 / deg, r * math.Cos(th) / math.Cos(th2)
+	return cell.AtWavelength(x, md.rad.Lambda1, md.rad.Lambda2)
 }
 
 // addProfile adds a component's line (with its K-alpha2 line) to out over

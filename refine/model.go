@@ -51,13 +51,12 @@ func (m *model) eval(r []float64, h cell.HKL, corr shifts) point {
 	for j := range t {
 		q += r[j] * t[j]
 	}
-	s := m.lambda * math.Sqrt(q) / 2
-	if !(q > 0) || !(s < 1) {
+	if !(q > 0) || !(m.lambda*math.Sqrt(q)/2 < 1) {
 		return point{}
 	}
-	th := math.Asin(s)
+	th := cell.TwoThetaOfQ(q, m.lambda) * deg / 2
 	// dθ/dQ in radians per Å⁻².
-	dthdq := m.lambda / (4 * math.Sqrt(q) * math.Cos(th))
+	dthdq := cell.DTwoThetaDQ(q, m.lambda) * deg / 2
 	sh, dsh := corr.shift(th, m.radius)
 	dtt := 2/deg + dsh // d(2θ)/dθ, degrees per radian
 	pt := point{tt: 2*th/deg + sh, dR: make([]float64, len(t)), dCorr: partials(th, m.radius), inside: true}
