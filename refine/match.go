@@ -56,7 +56,7 @@ func RefineLines(ctx context.Context, c cell.Cell, lines []Observation, opt Opti
 		return nil, fmt.Errorf("refine: no lines: %w", ErrTooFew)
 	}
 	if err := c.Check(); err != nil {
-		return nil, fmt.Errorf("refine: %w: %v", ErrCell, err)
+		return nil, fmt.Errorf("refine: %w: %w", ErrCell, err)
 	}
 	sorted := append([]Observation(nil), lines...)
 	sort.SliceStable(sorted, func(i, j int) bool { return sorted[i].TwoTheta < sorted[j].TwoTheta })

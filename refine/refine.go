@@ -27,7 +27,7 @@ func Refine(ctx context.Context, c cell.Cell, obs []Observation, opt Options) (*
 		return nil, fmt.Errorf("refine: %w: goniometer radius %g mm", ErrOptions, opt.Radius)
 	}
 	if err := c.Check(); err != nil {
-		return nil, fmt.Errorf("refine: %w: %v", ErrCell, err)
+		return nil, fmt.Errorf("refine: %w: %w", ErrCell, err)
 	}
 	if !opt.blended {
 		obs = blendESDs(c, obs, opt.Wavelength)

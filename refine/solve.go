@@ -34,7 +34,7 @@ func leastSquares(ctx context.Context, n int, x0 []float64, f residualFunc, maxI
 		qr.Factorize(j)
 		var dx mat.VecDense
 		if err := qr.SolveVecTo(&dx, false, mat.NewVecDense(n, r)); err != nil {
-			return nil, 0, nil, fmt.Errorf("%w: %v", ErrSingular, err)
+			return nil, 0, nil, fmt.Errorf("%w: %w", ErrSingular, err)
 		}
 		// ‖J·dx‖ is the step measured in standard deviations: below
 		// 1e-10 the minimum is found to far better than its uncertainty.
@@ -99,7 +99,7 @@ func leastSquares(ctx context.Context, n int, x0 []float64, f residualFunc, maxI
 	}
 	inv := mat.NewSymDense(p, nil)
 	if err := ch.InverseTo(inv); err != nil {
-		return nil, 0, nil, fmt.Errorf("%w: %v", ErrSingular, err)
+		return nil, 0, nil, fmt.Errorf("%w: %w", ErrSingular, err)
 	}
 	cov = mat.NewSymDense(p, nil)
 	for a := 0; a < p; a++ {

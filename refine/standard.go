@@ -63,7 +63,7 @@ func LookupStandard(name string) (Standard, error) {
 func fitStandard(ctx context.Context, opt Options, obs []Observation, idx []int) (*StandardFit, shifts, *mat.SymDense, error) {
 	st := opt.Standard
 	if err := st.Cell.Check(); err != nil {
-		return nil, shifts{}, nil, fmt.Errorf("refine: standard %s: %w: %v", st.Name, ErrCell, err)
+		return nil, shifts{}, nil, fmt.Errorf("refine: standard %s: %w: %w", st.Name, ErrCell, err)
 	}
 	var fitted []int
 	for _, i := range idx {

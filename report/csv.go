@@ -103,7 +103,7 @@ func ReadCSV(r io.Reader) ([]PeakRow, error) {
 	cr.FieldsPerRecord = len(csvHeader)
 	head, err := cr.Read()
 	if err != nil {
-		return nil, fmt.Errorf("%w: %v", ErrCSV, err)
+		return nil, fmt.Errorf("%w: %w", ErrCSV, err)
 	}
 	for i, h := range csvHeader {
 		if head[i] != h {
@@ -117,7 +117,7 @@ func ReadCSV(r io.Reader) ([]PeakRow, error) {
 			return rows, nil
 		}
 		if err != nil {
-			return nil, fmt.Errorf("%w: %v", ErrCSV, err)
+			return nil, fmt.Errorf("%w: %w", ErrCSV, err)
 		}
 		var row PeakRow
 		nums := []*float64{nil, &row.TwoTheta, &row.TwoThetaESD, &row.D, &row.DESD, &row.Height, &row.HeightESD,
