@@ -7,7 +7,6 @@ import (
 	"math"
 	"math/rand/v2"
 	"os"
-	"sort"
 	"strings"
 	"sync"
 	"testing"
@@ -169,54 +168,11 @@ func blindOne(lat synth.Lattice, seed uint64) blindResult {
 	_, hi := scan.Range()
 	qmax := cell.QOf(hi, cs.Lambda)
 	for i, c := range a.Candidates[:min(3, len(a.Candidates))] {
-		ok := c.Cell().System == cs.Truth.System && sameLines(cs.Truth, c.Cell(), qmax)
+		ok := c.Cell().System == cs.Truth.System && synth.SameLines(cs.Truth, c.Cell(), qmax, 20)
 		if i == 0 {
 			r.first, r.prob, r.got = ok, c.Probability, fmt.Sprintf("%v (%.3f)", c.Cell(), c.Probability)
 		}
 		r.top3 = r.top3 || ok
 	}
 	return r
-}
-
-// sameLines reports whether two cells allow the same d-spacings among the
-// truth's first 20 lines up to qmax, within 0.1 % (the public scorer's
-// test).
-func sameLines(truth, got cell.Cell, qmax float64) bool {
-	tq := distinct(truth, qmax)
-	if len(tq) > 20 {
-		tq = tq[:20]
-	}
-	if len(tq) == 0 {
-		return false
-	}
-	top := tq[len(tq)-1] * 1.001
-	gq := distinct(got, top)
-	near := func(q float64, set []float64) bool {
-		i := sort.SearchFloat64s(set, q*(1-2e-3))
-		return i < len(set) && set[i] <= q*(1+2e-3)
-	}
-	for _, q := range tq {
-		if !near(q, gq) {
-			return false
-		}
-	}
-	for _, q := range gq {
-		if !near(q, tq) {
-			return false
-		}
-	}
-	return true
-}
-
-// distinct lists a cell's distinct Q up to qmax, sorted.
-func distinct(c cell.Cell, qmax float64) []float64 {
-	var out []float64
-	for _, r := range cell.Reflections(c, qmax) {
-		if len(out) > 5000 {
-			break
-		}
-		out = append(out, r.Q)
-	}
-	sort.Float64s(out)
-	return out
 }

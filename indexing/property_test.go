@@ -2,6 +2,7 @@ package indexing
 
 import (
 	"reticle/cell"
+	"reticle/internal/synth"
 
 	"context"
 	"math"
@@ -58,36 +59,7 @@ func randomCase(rng *rand.Rand, c cell.Cell) ([]cell.Line, float64, float64) {
 // 20th and no others, within 0.1 % in d (as the public benchmark's scorer
 // judges it).
 func sameLattice(truth, got cell.Cell, lambda, ttmax float64) bool {
-	qmax := qOf(ttmax, 0, lambda) * 1.001
-	tq := truthClusters(truth, qmax)
-	gq := truthClusters(got, qmax)
-	near := func(q float64, set []float64) bool {
-		for _, x := range set {
-			if math.Abs(q-x) <= 2e-3*q {
-				return true
-			}
-		}
-		return false
-	}
-	for _, q := range tq {
-		if !near(q, gq) {
-			return false
-		}
-	}
-	for _, q := range gq {
-		if !near(q, tq) {
-			return false
-		}
-	}
-	return true
-}
-
-func truthClusters(c cell.Cell, qmax float64) []float64 {
-	var out []float64
-	for _, r := range cell.Reflections(c, qmax) {
-		out = append(out, r.Q)
-	}
-	return out
+	return synth.SameLines(truth, got, qOf(ttmax, 0, lambda)*1.001, 0)
 }
 
 // randomCell draws a cell of the system and centring with a volume

@@ -311,3 +311,33 @@ func highest(red cell.Reduced, tol cell.Tolerance) (cell.Cell, bool) {
 func (c Case) String() string {
 	return fmt.Sprintf("truth %v; %s", c.Truth, strings.Join(c.Conditions, "; "))
 }
+
+// SameLines reports whether two cells allow the same d-spacings, within
+// 0.1 % in d, among the first n of the truth's lines up to qmax (Å⁻²; n
+// = 0: all of them) and no others up to the last of those: the test of
+// the public benchmark's scorer, which takes any cell of the lattice.
+func SameLines(truth, got cell.Cell, qmax float64, n int) bool {
+	tq := distinctQ(truth, qmax)
+	if n > 0 && len(tq) > n {
+		tq = tq[:n]
+	}
+	if len(tq) == 0 {
+		return false
+	}
+	gq := distinctQ(got, tq[len(tq)-1]*1.001)
+	near := func(q float64, set []float64) bool {
+		i := sort.SearchFloat64s(set, q*(1-2e-3))
+		return i < len(set) && set[i] <= q*(1+2e-3)
+	}
+	for _, q := range tq {
+		if !near(q, gq) {
+			return false
+		}
+	}
+	for _, q := range gq {
+		if !near(q, tq) {
+			return false
+		}
+	}
+	return true
+}
