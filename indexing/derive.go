@@ -75,8 +75,11 @@ func derivatives(ctx context.Context, ranked []*cand, first, all []obs, o Option
 		for _, m := range deriveIndices {
 			for _, h := range cell.Sublattices(m) {
 				// A subcell: a sublattice of the reciprocal lattice.
+				// It must index every line the cell indexes: a
+				// subcell is the answer only when the larger cell's
+				// extra lines are not needed.
 				if gs, ok := h.Mul(gr).Mul(h.T()).Inverse(); ok {
-					out = append(out, derived(gs, seen, w, first, o, want, need)...)
+					out = append(out, derived(gs, seen, w, first, o, want, max(need, k.indexed))...)
 				}
 			}
 		}
