@@ -2,6 +2,7 @@ package indexing
 
 import (
 	"context"
+	"math"
 	"testing"
 
 	"reticle/cell"
@@ -61,5 +62,40 @@ func TestDerivativesHigher(t *testing.T) {
 	ranked = rankCands(append(ranked, more...), first, all, o)
 	if got := ranked[0].c; got.System != cell.Orthorhombic {
 		t.Errorf("first %v, want orthorhombic", got)
+	}
+}
+
+// TestDemandingLines: a tetragonal P cell whose lines are those of its
+// I lattice but for two weak ones of h + k + l odd (as the oxygen of a
+// tetragonal zirconia-like structure gives; cell invented) is reported P
+// with those lines named as the ones that demand it.
+func TestDemandingLines(t *testing.T) {
+	c := cell.Must(cell.Tetragonal, cell.P, 3.64, 5.27)
+	keep := map[cell.HKL]bool{{1, 0, 2}: true, {1, 1, 1}: true}
+	absent := func(h cell.HKL) bool {
+		odd := (h[0]+h[1]+h[2])%2 != 0
+		return odd && !keep[cell.HKL{abs(h[0]), abs(h[1]), abs(h[2])}] && !keep[cell.HKL{abs(h[1]), abs(h[0]), abs(h[2])}]
+	}
+	ls := modelLines(c, cuKa1, 110, absent, 0.01, 0, 9)
+	var want []float64
+	for i := range ls {
+		q := qOf(ls[i].TwoTheta, 0.01, cuKa1)
+		for _, h := range []cell.HKL{{1, 0, 2}, {1, 1, 1}} {
+			if math.Abs(q-c.Q(h)) < 2e-3*q {
+				ls[i].Intensity *= 0.05 // weak
+				want = append(want, ls[i].TwoTheta)
+			}
+		}
+	}
+	res, err := Index(context.Background(), ls, Options{Wavelength: cuKa1}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := res.Solutions[0]
+	if s.Cell.System != cell.Tetragonal || s.Cell.Centring != cell.P {
+		t.Fatalf("first %v, want tetragonal P", s.Cell)
+	}
+	if len(s.Demanding) != len(want) || s.Index != 2 {
+		t.Errorf("demanding lines %v (index %d), want %v (2)", s.Demanding, s.Index, want)
 	}
 }

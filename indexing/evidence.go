@@ -300,11 +300,19 @@ func (k *cand) evidence(ls []obs, lambda float64, sp span, o Options) lineFit {
 			terms = append(terms, math.Log(0.5/float64(len(splits)))+one)
 			continue
 		}
-		l2, dem := twoClass(ls, nears, mk, classA, na, nb, f.p, f.rho, R, minRho)
+		l2, dem, weak := twoClass(ls, nears, mk, classA, na, nb, f.p, f.rho, R, minRho)
 		terms = append(terms, math.Log(0.5/float64(len(splits)))+l2)
 		if l2 > f.bestSplit || f.splitUsed == nil {
-			f.bestSplit, f.splitUsed, f.demanding = l2, &splits[si], dem
+			f.bestSplit, f.splitUsed, f.demanding = l2, &splits[si], nil
+			if weak {
+				f.demanding = dem
+			}
 		}
+	}
+	// The lines of a weak class B demand this cell over the smaller
+	// one only when the split is the better model, its prior cost paid.
+	if f.splitUsed != nil && f.bestSplit+math.Log(0.5/float64(len(splits))) <= terms[0] {
+		f.demanding = nil
 	}
 	f.logL = logSumExp(terms)
 	f.logOccam = k.occam(ls, lambda, t, nearest, func(i int) int { return calc[nearest[i]].j }, f.sys, o)
@@ -316,8 +324,10 @@ func (k *cand) evidence(ls []obs, lambda float64, sp span, o Options) lineFit {
 // line (na and nb in each), and returns the log-likelihood with each p
 // integrated out, and the lines that class B explains better than the
 // foreign rate and class A together (the lines demanding the split's
-// larger cell).
-func twoClass(ls []obs, nears [][]near, mk []float64, classA []bool, na, nb int, p, rho, R, minRho float64) (float64, []int) {
+// larger cell), and whether class B is the weaker (its p below half of
+// class A's: a superstructure's lines, or those of a weak centring
+// violation).
+func twoClass(ls []obs, nears [][]near, mk []float64, classA []bool, na, nb int, p, rho, R, minRho float64) (float64, []int, bool) {
 	n := len(ls)
 	ga := make([]float64, n)
 	gb := make([]float64, n)
@@ -356,7 +366,7 @@ func twoClass(ls []obs, nears [][]near, mk []float64, classA []bool, na, nb int,
 			dem = append(dem, i)
 		}
 	}
-	return ll + occamP(sa, na) + occamP(sb, nb), dem
+	return ll + occamP(sa, na) + occamP(sb, nb), dem, pb < pa/2
 }
 
 // occamP is the log of the factor by which integrating a detection

@@ -135,6 +135,12 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 		// lines for one, see clustersOf).
 		sol := solutionOf(k, all, first, o)
 		sol.Probability, sol.LogEvidence = probs[i], k.ev.logE()
+		if sp := k.ev.splitUsed; sp != nil && len(k.ev.demanding) > 0 {
+			sol.Index = sp.index()
+			for _, j := range k.ev.demanding {
+				sol.Demanding = append(sol.Demanding, all[j].tt)
+			}
+		}
 		if !slices.ContainsFunc(res.Solutions, func(s Solution) bool { return sameCell(s.Cell, sol.Cell, 2e-3) }) {
 			res.Solutions = append(res.Solutions, sol)
 		}

@@ -52,6 +52,14 @@ type Solution struct {
 	// probabilities); LogEvidence is the natural log of the lines'
 	// probability density under the cell (see evidence).
 	Probability, LogEvidence float64
+	// Demanding are the observed lines, degrees 2θ, that this lattice
+	// explains and one with Index times its lattice points (a
+	// derivative lattice: a supercell's subcell, or the lattice of a
+	// centring of this cell) would not: the lines that demand this
+	// lattice, when its extra lines are a weak class (see split.go).
+	// Empty when none do.
+	Demanding []float64
+	Index     int
 
 	// M is de Wolff's figure of merit M_N over the first N lines (M20
 	// when N = 20); FigureLines is that N.

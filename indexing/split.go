@@ -18,6 +18,16 @@ type split struct {
 	m int
 }
 
+// index returns the split's index: class A's cell has 1/index the
+// volume.
+func (s split) index() int {
+	n := 1
+	for range s.v {
+		n *= s.m
+	}
+	return n
+}
+
 // in reports whether h is in class A.
 func (s split) in(h cell.HKL) bool {
 	for _, v := range s.v {

@@ -215,6 +215,11 @@ type Solution struct {
 	// LogEvidence the log of the lines' probability density under it.
 	Probability float64 `json:"probability"`
 	LogEvidence float64 `json:"log_evidence"`
+	// DemandingLines are the lines (degrees 2θ) that demand this
+	// lattice over one with DemandingIndex times its lattice points
+	// (indexing.Solution.Demanding).
+	DemandingLines []float64 `json:"demanding_lines,omitempty"`
+	DemandingIndex int       `json:"demanding_index,omitempty"`
 	// Zero is the zero offset of the indexing, or the refined zero
 	// shift, degrees 2θ.
 	Zero        float64  `json:"zero_shift"`
@@ -486,7 +491,7 @@ func NewSolution(a *analysis.Analysis, c *analysis.Candidate) Solution {
 	s := c.Solution
 	j := Solution{
 		Rank: c.Rank, CellValues: NewCellValues(c.Cell(), c.Covariance().ESD(), v, ve), Zero: s.Zero,
-		Probability: s.Probability, LogEvidence: s.LogEvidence,
+		Probability: s.Probability, LogEvidence: s.LogEvidence, DemandingLines: s.Demanding, DemandingIndex: s.Index,
 		M: s.M, FigureLines: s.FigureLines, FN: s.FN, FNMeanDiff: s.FNMeanDiff, FNPossible: s.FNPossible,
 		Indexed: s.Indexed, Unindexed: s.Unindexed, Conditions: s.Conditions, Lines: []Line{}, Calculated: []Calc{},
 		Parameters: s.Parameters, ChiSquare: s.ChiSquare, DOF: s.DOF, FromReduced: s.FromReduced,

@@ -112,6 +112,13 @@ func printCandidates(w io.Writer, a *analysis.Analysis) {
 		fmt.Fprintf(tw, "%.4f\t%s\t%.4f\t%+.4f\t\n", l.TwoTheta, report.HKLText(l.HKL), calc, delta)
 	}
 	tw.Flush()
+	if len(best.Demanding) > 0 {
+		var tts []string
+		for _, tt := range best.Demanding {
+			tts = append(tts, fmt.Sprintf("%.4f", tt))
+		}
+		fmt.Fprintf(w, "lines that demand this lattice over one with %d times its lattice points (a centring or a smaller cell): %s°\n", best.Index, strings.Join(tts, ", "))
+	}
 	if len(best.Conditions) > 0 {
 		fmt.Fprintf(w, "observed conditions: %s\n", strings.Join(best.Conditions, "; "))
 	}
