@@ -42,6 +42,9 @@ type cand struct {
 	ev    lineFit // evidence over all lines (see weigh)
 	whole *cand   // the cand refined over all lines, for the evidence
 	qTop  float64 // the least Q the calculated lines reach, Å⁻² (0: the lines')
+	// weighAlways: the ranking takes the cand's evidence whatever its
+	// figure on the first lines (a cell of the strong lines).
+	weighAlways bool
 }
 
 // nparams returns the number of refined parameters: the system's free

@@ -91,7 +91,7 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 	}
 	res.Warnings = append(res.Warnings, notes...)
 	sr := &searcher{ctx: ctx, o: o, want: want, all: all, zeros: zeros, progress: progress}
-	pool, err := sr.run(first, res)
+	pool, err := sr.run(first, res, true)
 	if err != nil {
 		return nil, err
 	}
@@ -99,18 +99,25 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 	// A foreign phase with more lines than the sample's own can fill the
 	// first lines and crowd out the sample's cell, whose lines are the
 	// strong ones: when the best cell leaves a strong line unexplained,
-	// the strong lines are searched again on their own.
+	// the strong lines are searched again on their own, in the systems
+	// of the seeds (the zone method over the few strong lines of a low
+	// symmetry finds what it found over all of them, at its cost again).
 	if len(ranked) > 0 && leavesStrong(ranked[0], all) {
 		if strong := strongFirst(all, o.Lines); len(strong) >= fewest && len(strong) < n {
-			more, err := sr.run(strong, nil)
+			more, err := sr.run(strong, nil, false)
 			if err != nil {
 				return nil, err
 			}
-			// Their assignments and figures are taken on the first
-			// lines, as every other cand's.
+			// The best of them, by their figure on the strong lines,
+			// are ranked whatever their figure on the first lines
+			// (which a foreign phase fills); their assignments and
+			// figures are then taken on the first lines, as every
+			// other cand's.
+			more = bestCands(more, strongKeep)
 			for _, k := range more {
 				k.assign(first, o.Wavelength, 0)
 				k.figures(first, o.Wavelength)
+				k.weighAlways = true
 			}
 			pool = append(pool, more...)
 			ranked = rankCands(pool, first, all, o)
@@ -206,8 +213,9 @@ func (sr *searcher) need(ls []obs) int {
 // unless one of those explains the lines acceptably, orthorhombic,
 // monoclinic and triclinic by the zone method. It returns the cells
 // found, settled on ls. res, when not nil, records what was searched
-// and why the search stopped.
-func (sr *searcher) run(ls []obs, res *Result) ([]*cand, error) {
+// and why the search stopped. Without zones the lower systems are
+// not searched.
+func (sr *searcher) run(ls []obs, res *Result, zones bool) ([]*cand, error) {
 	o, want := sr.o, sr.want
 	n := len(ls)
 	need := sr.need(ls)
@@ -219,7 +227,7 @@ func (sr *searcher) run(ls []obs, res *Result) ([]*cand, error) {
 	}
 	var low []cell.System
 	for _, s := range lowSystems {
-		if want[s] && n >= minLines(s) {
+		if zones && want[s] && n >= minLines(s) {
 			low = append(low, s)
 		}
 	}
@@ -293,6 +301,10 @@ func (sr *searcher) run(ls []obs, res *Result) ([]*cand, error) {
 	}
 	return append(pool, ks...), nil
 }
+
+// strongKeep is how many cells of the search on the strong lines are
+// always ranked.
+const strongKeep = 10
 
 // strongCut is the intensity, relative to the strongest line, above
 // which a line can hardly be foreign (see foreignMean: a foreign line

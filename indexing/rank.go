@@ -9,7 +9,7 @@ import (
 // rankCands orders the cands by their evidence over all lines (see
 // evidence), most probable first, leaves out those with more calculated
 // lines than maxCalcLines and all but the weighKeep best by the
-// search's figure, and lists each lattice once: of
+// search's figure (and those marked weighAlways), and lists each lattice once: of
 // descriptions with the same calculated lines up to the last of the
 // first lines (within lineTolerance), the one with fewest parameters,
 // then the larger cell.
@@ -21,7 +21,12 @@ func rankCands(ks []*cand, ls, all []obs, o Options) []*cand {
 			kept = append(kept, k)
 		}
 	}
-	ks = bestCands(kept, weighKeep)
+	ks = bestCands(slices.Clone(kept), weighKeep)
+	for _, k := range kept {
+		if k.weighAlways && !slices.Contains(ks, k) {
+			ks = append(ks, k)
+		}
+	}
 	for _, k := range ks {
 		k.weigh(all, sp, o)
 	}
