@@ -3,7 +3,9 @@ package indexing
 import (
 	"context"
 	"math/rand/v2"
+	"slices"
 	"testing"
+	"time"
 
 	"reticle/cell"
 )
@@ -40,6 +42,47 @@ func BenchmarkIndex20(b *testing.B) {
 					b.Fatal(err)
 				}
 			}
+		})
+	}
+}
+
+// BenchmarkIndexSpread times the default search on 15 random cells of
+// each lattice kind of BenchmarkIndex20 (the property test's generator,
+// fixed seeds) and reports the median and the slowest scan, seconds; run
+// it with -cpu 1 -benchtime 1x for one core.
+func BenchmarkIndexSpread(b *testing.B) {
+	for _, c := range []struct {
+		s   cell.System
+		cen cell.Centring
+	}{
+		{cell.Cubic, cell.F}, {cell.Tetragonal, cell.I}, {cell.Hexagonal, cell.P}, {cell.Rhombohedral, cell.R},
+		{cell.Orthorhombic, cell.P}, {cell.Monoclinic, cell.P}, {cell.Triclinic, cell.P},
+	} {
+		const n = 15
+		type scan struct {
+			ls     []cell.Line
+			lambda float64
+		}
+		var scans []scan
+		for seed := range uint64(n) {
+			rng := rand.New(rand.NewPCG(uint64(c.s)+100, seed))
+			ls, lambda, _ := randomCase(rng, randomCell(rng, c.s, c.cen))
+			scans = append(scans, scan{ls[:min(len(ls), 22)], lambda})
+		}
+		b.Run(c.s.String(), func(b *testing.B) {
+			ts := make([]float64, n)
+			for i := 0; i < b.N; i++ {
+				for j, sc := range scans {
+					t0 := time.Now()
+					if _, err := Index(context.Background(), sc.ls, Options{Wavelength: sc.lambda}, nil); err != nil {
+						b.Fatal(err)
+					}
+					ts[j] = time.Since(t0).Seconds()
+				}
+			}
+			slices.Sort(ts)
+			b.ReportMetric(ts[n/2], "median-s")
+			b.ReportMetric(ts[n-1], "worst-s")
 		})
 	}
 }

@@ -262,6 +262,8 @@ func zoneLattices(ctx context.Context, zs []zone, qs, ws []float64, need int, o 
 		rowsOf[i] = z.rows()
 	}
 	xs := make([]vote, 0, 4096)
+	top := newCutoff(formKeep, minFormFigure, qs, ws, need)
+	lines := newLineSet(qs, ws, qmax)
 	for i := range zs {
 		if err := ctx.Err(); err != nil {
 			return nil, err
@@ -306,9 +308,18 @@ func zoneLattices(ctx context.Context, zs []zone, qs, ws []float64, need int, o 
 						// Basis order (u, p, q): A = u·u, B = p·p,
 						// C = q·q, D = 2p·q, E = 2u·q, F = 2u·p.
 						f := cell.QForm{g[0], g[1], g[2], 2 * g[3], 2 * g[5], 2 * g[4]}
-						m := f.Reciprocal()
-						det := m.Det()
-						if !(det > minDet) {
+						if !(f.Reciprocal().Det() > minDet) {
+							continue
+						}
+						// The count first: most lattices fail it, and
+						// a repeated lattice fails it again (the cutoff
+						// only rises).
+						n, fig := lines.count(f, top.limit())
+						if n < need || fig < minFormFigure {
+							continue
+						}
+						score := fig * math.Pow(0.84, float64(len(qs)-n))
+						if !top.admits(score) {
 							continue
 						}
 						key, ok := reducedKey(f)
@@ -316,15 +327,10 @@ func zoneLattices(ctx context.Context, zs []zone, qs, ws []float64, need int, o 
 							continue
 						}
 						seen[key] = true
-						// The first lines first: few calculated lines
-						// reject most forms cheaply.
-						if m := min(10, len(qs)); m < len(qs) {
-							if n1, _ := countForm(f, qs[m-1]+ws[m-1], qs[:m], ws[:m]); n1 < m-(len(qs)-need) {
-								continue
-							}
-						}
-						if n, m := countForm(f, qmax, qs, ws); n >= need && m >= minFormFigure {
-							out = append(out, scored{f, m * math.Pow(0.84, float64(len(qs)-n))})
+						top.add(score)
+						out = append(out, scored{f, score})
+						if len(out) > 8*formKeep {
+							out = bestForms(out, formKeep)
 						}
 					}
 				}
@@ -385,9 +391,13 @@ type vote struct {
 // within their windows, one per cluster (the mean of its members).
 func agreed(vs []vote, min int) []float64 {
 	slices.SortFunc(vs, func(a, b vote) int {
-		// A total order, so that the outcome is the same whatever the sort.
-		if c := cmp.Compare(a.x, b.x); c != 0 {
-			return c
+		// A total order, so that the outcome is the same whatever the
+		// sort (x is never NaN).
+		switch {
+		case a.x < b.x:
+			return -1
+		case a.x > b.x:
+			return 1
 		}
 		if c := cmp.Compare(a.line, b.line); c != 0 {
 			return c
@@ -438,12 +448,43 @@ func reducedKey(f cell.QForm) ([6]int64, bool) {
 	return k, true
 }
 
+// A lineSet holds the lines (Q qs, windows ws, sorted) that countForm
+// compares lattices with, and a lookup from Q to the lines.
+type lineSet struct {
+	qs, ws []float64
+	qmax   float64
+	scale  float64
+	// start[b] is the first line at or above the bottom of bucket b of
+	// [0, qmax]: a lookup that replaces a search per reflection.
+	start [lineBuckets + 1]int
+	best  []float64 // countForm's scratch: each line's least discrepancy
+}
+
+const lineBuckets = 64
+
+func newLineSet(qs, ws []float64, qmax float64) *lineSet {
+	l := &lineSet{qs: qs, ws: ws, qmax: qmax, scale: lineBuckets / qmax * (1 - 1e-12), best: make([]float64, len(qs))}
+	for b, j := 0, 0; b <= lineBuckets; b++ {
+		for j < len(qs) && qs[j]*l.scale < float64(b) {
+			j++
+		}
+		l.start[b] = j
+	}
+	return l
+}
+
 // countForm counts the lines within their window of a Q of the form and
 // gives a figure of merit of de Wolff's kind (discrepancies floored at a
 // tenth of the window); it gives up (returning 0) when the form has more
 // than maxFormLines lines below qmax, too many to tell a lattice from
-// chance.
-func countForm(f cell.QForm, qmax float64, qs, ws []float64) (int, float64) {
+// chance, or more than ncMax calculated lines up to the last line.
+func countForm(f cell.QForm, qmax float64, qs, ws []float64, ncMax int) (int, float64) {
+	return newLineSet(qs, ws, qmax).count(f, ncMax)
+}
+
+// count is countForm on the set's lines.
+func (ls *lineSet) count(f cell.QForm, ncMax int) (int, float64) {
+	qs, ws, qmax := ls.qs, ls.ws, ls.qmax
 	g, ok := f.Reciprocal().Inverse()
 	if !ok || !(g[0][0] > 0 && g[1][1] > 0 && g[2][2] > 0) {
 		return 0, 0
@@ -457,21 +498,11 @@ func countForm(f cell.QForm, qmax float64, qs, ws []float64) (int, float64) {
 	// Each calculated Q is looked up among the lines (sorted) rather
 	// than the calculated list sorted: the nearest discrepancy of every
 	// line and the number of calculated lines up to the last line.
-	best := make([]float64, len(qs))
+	best := ls.best
 	for i := range best {
 		best[i] = math.Inf(1)
 	}
-	// start[b] is the first line at or above the bottom of bucket b of
-	// [0, qmax]: a lookup that replaces a search per reflection.
-	const buckets = 64
-	scale := buckets / qmax * (1 - 1e-12)
-	var start [buckets + 1]int
-	for b, j := 0, 0; b <= buckets; b++ {
-		for j < len(qs) && qs[j]*scale < float64(b) {
-			j++
-		}
-		start[b] = j
-	}
+	start, scale := &ls.start, ls.scale
 	qn := qs[len(qs)-1] * (1 + 1e-9)
 	nc, total := 0, 0
 	for h := 0; h <= hm; h++ {
@@ -506,7 +537,9 @@ func countForm(f cell.QForm, qmax float64, qs, ws []float64) (int, float64) {
 				}
 				total++
 				if q <= qn {
-					nc++
+					if nc++; nc > ncMax {
+						return 0, 0
+					}
 				}
 				// The first line at or above q: from its bucket on.
 				j := start[int(q*scale)]
