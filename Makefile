@@ -4,7 +4,8 @@
 # they are missing (Debian or Ubuntu: apt-get, with sudo when not root;
 # elsewhere it prints what to install), builds, and runs the program on the
 # bundled demo scan. `make test` checks formatting, vets and runs every test,
-# including the seed corpus of every fuzz target.
+# again under the race detector for the packages that run work in
+# goroutines, and the seed corpus of every fuzz target.
 
 GO        ?= go
 DEMO      := assets/demo/kiln-trial-07.xy
@@ -16,7 +17,7 @@ SYSTEM_PKGS := gcc pkg-config libgl1-mesa-dev xorg-dev
 TEST_PKGS := $(SYSTEM_PKGS) poppler-utils
 FUZZTIME  ?= 10s
 
-.PHONY: run test test-long build deps test-deps install-pkgs screenshot fmt-check vet static unit fuzz-seeds fuzz bench bench-score clean
+.PHONY: run test test-long race build deps test-deps install-pkgs screenshot fmt-check vet static unit fuzz-seeds fuzz bench bench-score clean
 
 # Fyne cannot parse the C/POSIX locale: use English for those only.
 run: deps build
@@ -42,7 +43,7 @@ screenshot: deps build
 	fi; \
 	kill $$xpid; exit $$status
 
-test: test-deps fmt-check vet static unit fuzz-seeds
+test: test-deps fmt-check vet static unit race fuzz-seeds
 
 fmt-check:
 	@out=$$(gofmt -l $$(git ls-files '*.go' 2>/dev/null || find . -name '*.go')); \
@@ -57,6 +58,10 @@ static:
 
 unit:
 	LANG=en_US.UTF-8 $(GO) test -count=1 ./...
+
+# The race detector on the packages that run work in goroutines.
+race:
+	LANG=en_US.UTF-8 $(GO) test -race -count=1 ./app/... ./analysis/... ./report/... ./cmd/...
 
 # The full-size property and Monte Carlo tests (RETICLE_LONG=1), which
 # take far longer than make test's.

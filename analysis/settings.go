@@ -182,6 +182,10 @@ func within(tt float64, list []float64) bool {
 	return false
 }
 
+// IsRejected reports whether the peak at tt (degrees 2θ) is left out of
+// the indexing.
+func (s Settings) IsRejected(tt float64) bool { return within(tt, s.Rejected) }
+
 // Reject leaves the peak at tt (degrees 2θ) out of the indexing, or takes
 // it back when it was left out.
 func (s *Settings) Reject(tt float64) {

@@ -10,6 +10,7 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+	"time"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/test"
@@ -40,6 +41,9 @@ func newTestUI(t testing.TB, autosave string) *ui {
 	}
 	t.Setenv("RETICLE_AUTOSAVE", autosave)
 	u := newUI(a)
+	// Edits recompute at once however slow the run (the race detector
+	// slows it many times); TestSlowRun tests the other case.
+	u.autoLimit = time.Hour
 	u.win.Resize(fyne.NewSize(1280, 860))
 	u.win.Show()
 	return u

@@ -1,7 +1,9 @@
 package main
 
 import (
+	"bytes"
 	"context"
+	"encoding/json"
 	"errors"
 	"fmt"
 	"time"
@@ -25,6 +27,8 @@ type Model struct {
 	// LastRun is how long the last analysis took; edits recompute the
 	// candidates automatically while it stays below AutoLimit.
 	LastRun time.Duration
+	// analysed are the settings the analysis A was computed with.
+	analysed analysis.Settings
 
 	undo, redo []snapshot
 }
@@ -79,18 +83,46 @@ func (m *Model) Analyse(ctx context.Context, progress analysis.Progress) error {
 	if err != nil {
 		return err
 	}
-	m.Apply(a, time.Since(t0))
+	m.Apply(a, time.Since(t0), m.Settings)
 	return nil
 }
 
-// Apply takes the result of an analysis that took the given time (run on
-// a copy of the state, off the UI thread), keeping the chosen cell.
-func (m *Model) Apply(a *analysis.Analysis, took time.Duration) {
+// Apply takes the result of an analysis that took the given time, run on
+// a copy of the state off the UI thread with the settings used, keeping
+// the chosen cell. Edits made since then stay what the view shows (see
+// sync), and the result is marked stale.
+func (m *Model) Apply(a *analysis.Analysis, took time.Duration, used analysis.Settings) {
 	m.A, m.LastRun = a, took
+	m.analysed = used.Clone()
 	if m.Selected >= len(a.Candidates) {
 		m.Selected = 0
 	}
 	a.Chosen = m.Selected
+	m.sync()
+}
+
+// sync shows the edits of the settings on the peaks of the last result
+// at once, before the candidates are found again: a peak the user
+// rejected is shown rejected whatever the result was computed from.
+func (m *Model) sync() {
+	if m.A == nil {
+		return
+	}
+	for i := range m.A.Peaks {
+		m.A.Peaks[i].Rejected = m.Settings.IsRejected(m.A.Peaks[i].TwoTheta)
+	}
+}
+
+// Stale reports whether the settings were edited after the analysis shown
+// was started: its candidates and refinement are not yet those of the
+// present settings.
+func (m *Model) Stale() bool {
+	if m.A == nil {
+		return false
+	}
+	a, err1 := json.Marshal(m.analysed)
+	b, err2 := json.Marshal(m.Settings)
+	return err1 != nil || err2 != nil || !bytes.Equal(a, b)
 }
 
 // Solution returns the chosen candidate, or nil.
@@ -115,6 +147,7 @@ func (m *Model) TogglePeak(i int) error {
 	}
 	m.push()
 	m.Settings.Reject(m.A.Peaks[i].TwoTheta)
+	m.sync()
 	return nil
 }
 
@@ -139,6 +172,7 @@ func (m *Model) AddPeak(tt float64) (peaks.Peak, error) {
 func (m *Model) Change(edit func(*analysis.Settings)) {
 	m.push()
 	edit(&m.Settings)
+	m.sync()
 }
 
 // ToggleExcluded leaves an indexed line out of the refinement, or takes it
@@ -193,6 +227,7 @@ func (m *Model) restore(s snapshot) error {
 	if m.A != nil && m.Selected < len(m.A.Candidates) {
 		m.A.Chosen = m.Selected
 	}
+	m.sync()
 	return nil
 }
 

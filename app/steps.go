@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"path/filepath"
 	"slices"
@@ -529,19 +530,32 @@ func (u *ui) refineTyped(text string) {
 		u.showError("The cell is not usable", err, "Type the system, the centring and the free parameters, e.g. tetragonal I a=3.98 c=9.55 or monoclinic C a=9.41 b=5.38 c=6.12 beta=102.4; every cell the program shows can be pasted here.")
 		return
 	}
-	r, err := analysis.RefineCell(context.Background(), u.m.Ext, c, u.m.Settings)
-	if err != nil {
-		u.showError("The typed cell could not be refined", err, "Check that the cell is close to the lines (within about 1 % in d) and that the wavelength on the Scan step is right.")
-		return
-	}
-	var b strings.Builder
-	fmt.Fprintf(&b, "typed cell %s\n", text)
-	b.WriteString(report.Text(report.RefinementRows(r)))
-	for _, w := range r.Warnings {
-		fmt.Fprintf(&b, "note: %s\n", w)
-	}
-	u.paramsText.SetText(b.String())
-	u.setStatus("typed cell refined: %s", cell.Format(r.Cell, r.ESD))
+	// Off the UI thread, on copies: the bootstrap of the corrections'
+	// choice takes a while.
+	ext, settings := u.m.Ext.Clone(), u.m.Settings.Clone()
+	var r *refine.Result
+	u.work("refining the typed cell…", func(ctx context.Context, _ analysis.Progress) (err error) {
+		r, err = analysis.RefineCell(ctx, ext, c, settings)
+		return err
+	}, func(err error) {
+		if errors.Is(err, context.Canceled) {
+			u.setStatus("stopped; the typed cell was not refined")
+			return
+		}
+		if err != nil {
+			u.showError("The typed cell could not be refined", err, "Check that the cell is close to the lines (within about 1 % in d) and that the wavelength on the Scan step is right.")
+			return
+		}
+		var b strings.Builder
+		fmt.Fprintf(&b, "typed cell %s\n", text)
+		b.WriteString(report.Text(report.RefinementRows(r)))
+		for _, w := range r.Warnings {
+			fmt.Fprintf(&b, "note: %s\n", w)
+		}
+		u.paramsText.SetText(b.String())
+		u.progress.Set(1)
+		u.setStatus("typed cell refined: %s", cell.Format(r.Cell, r.ESD))
+	})
 }
 
 // paramsSummary describes the chosen candidate's refinement.

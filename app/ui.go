@@ -80,11 +80,19 @@ type ui struct {
 	running sync.WaitGroup
 
 	autosave string // path of the autosave file; empty: none
+	// autoLimit is the analysis time below which edits recompute the
+	// candidates at once (AutoLimit; tests change it).
+	autoLimit time.Duration
+	// onUI runs a function on the UI thread and waits for it
+	// (fyne.DoAndWait; tests serialise it with their own actions).
+	onUI func(func())
+	// analyse runs the analysis (analysis.Analyse; tests slow it down).
+	analyse func(context.Context, *analysis.Extraction, analysis.Settings, analysis.Progress) (*analysis.Analysis, error)
 }
 
 // newUI builds the window; it opens nothing.
 func newUI(a fyne.App) *ui {
-	u := &ui{app: a, m: &Model{}, progress: binding.NewFloat()}
+	u := &ui{app: a, m: &Model{}, progress: binding.NewFloat(), autoLimit: AutoLimit, analyse: analysis.Analyse, onUI: fyne.DoAndWait}
 	// The theme first, so that every widget is made in it.
 	u.applyTheme(a.Preferences().StringWithFallback("theme", "light"))
 	u.win = a.NewWindow("Reticle")
@@ -253,7 +261,7 @@ func (u *ui) work(status string, job func(context.Context, analysis.Progress) er
 		err := job(ctx, func(stage analysis.Stage, n, total int) {
 			u.progress.Set(analysis.Fraction(stage, n, total))
 		})
-		fyne.DoAndWait(func() {
+		u.onUI(func() {
 			u.mu.Lock()
 			current := gen == u.gen
 			u.mu.Unlock()
@@ -296,7 +304,7 @@ func (u *ui) recomputeThen(after func()) {
 	var took time.Duration
 	u.work("finding cells…", func(ctx context.Context, p analysis.Progress) (err error) {
 		t0 := time.Now()
-		a, err = analysis.Analyse(ctx, ext, settings, p)
+		a, err = u.analyse(ctx, ext, settings, p)
 		took = time.Since(t0)
 		return err
 	}, func(err error) {
@@ -308,12 +316,14 @@ func (u *ui) recomputeThen(after func()) {
 			u.showError("The analysis failed", err, "Check the settings on the Scan step (wavelength) and the peaks kept on the Peaks step.")
 			return
 		}
-		u.m.Apply(a, took)
+		u.m.Apply(a, took, settings)
 		u.progress.Set(1)
 		u.refreshAll()
 		u.saveAutosave()
 		n := len(a.Candidates)
-		if n == 0 {
+		if u.m.Stale() {
+			u.setStatus("edited during the run: press Recompute (F5) on the Cells step to update the candidates (the last run took %.1f s)", took.Seconds())
+		} else if n == 0 {
 			u.setStatus("%d lines: no cell explains them within the search bounds (%.0f ms)", len(a.Lines), took.Seconds()*1000)
 		} else {
 			c := u.m.Solution().Cell()
@@ -332,7 +342,7 @@ func (u *ui) wait() { u.running.Wait() }
 // run was fast, otherwise the Recompute button is offered.
 func (u *ui) edited() {
 	u.updateButtons()
-	if u.m.LastRun < AutoLimit {
+	if u.m.LastRun < u.autoLimit {
 		u.recompute()
 		return
 	}

@@ -92,6 +92,7 @@ func TestTypedCell(t *testing.T) {
 	text := u.cellText()
 	u.cellEntry.SetText(text)
 	u.cellEntry.OnSubmitted(text)
+	u.wait()
 	if got := u.paramsText.Text; !strings.Contains(got, "typed cell "+text) || !strings.Contains(got, "cubic F") {
 		t.Fatalf("typed %q: %q (status %q)", text, got, u.status.Text)
 	}
