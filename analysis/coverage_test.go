@@ -24,10 +24,27 @@ import (
 // asks for ±3 %; the default run of 24 scans only guards against gross
 // errors (within 1 esd 45–90 %, within 2 esd at least 80 %). The log also
 // gives the median relative error of the refined edges.
+//
+// The same scans without any instrument error (clean) are measured and
+// logged too; there the esds are cautious (most refined values lie within
+// 1 esd), since the choice of corrections is part of the procedure whose
+// scatter they give, and only their lower limits are checked.
 func TestCoverage(t *testing.T) {
+	for _, c := range []struct {
+		name  string
+		clean bool
+	}{{"laboratory", false}, {"clean", true}} {
+		t.Run(c.name, func(t *testing.T) { coverage(t, c.clean) })
+	}
+}
+
+func coverage(t *testing.T, clean bool) {
 	n, tol1, tol2 := 24, [2]float64{0.45, 0.90}, 0.80
 	if os.Getenv("RETICLE_LONG") != "" {
 		n, tol1, tol2 = 300, [2]float64{0.683 - 0.03, 0.683 + 0.03}, 0.954-0.03
+	}
+	if clean {
+		tol1[1] = 1
 	}
 	cells := []cell.Cell{
 		cell.Must(cell.Cubic, cell.F, 5.6402),
@@ -47,6 +64,9 @@ func TestCoverage(t *testing.T) {
 		c := cells[i%len(cells)]
 		in := synth.Instrument{Lambda1: rad.Lambda1, Lambda2: rad.Lambda2, Ratio2: rad.Ratio2,
 			Zero: 0.1 * (rng.Float64() - 0.5), Displacement: 0.1 * (rng.Float64() - 0.5)}
+		if clean {
+			in.Zero, in.Displacement = 0, 0
+		}
 		s := synth.Simulate(synth.Spec{Phases: []synth.Phase{{Cell: c}}, Instrument: in, From: 15, To: 120, Step: 0.02, Peak: 4000}, rng)
 		scan, err := peaks.Parse(fmt.Sprintf("coverage%03d.xy", i), s.Text("Monte Carlo scan (internal/synth)"))
 		if err != nil {
@@ -85,7 +105,7 @@ func TestCoverage(t *testing.T) {
 	w1, w2 := within(1), within(2)
 	sort.Float64s(rel)
 	t.Logf("%d scans, %d parameters: within 1 esd %.1f %%, within 2 esd %.1f %%, within 3 esd %.1f %%; median relative error of the edges %.3g", n, len(z), 100*w1, 100*w2, 100*within(3), rel[len(rel)/2])
-	if w1 < tol1[0] || w1 > tol1[1] || w2 < tol2 || n >= 300 && w2 > 0.954+0.03 {
+	if w1 < tol1[0] || w1 > tol1[1] || w2 < tol2 || n >= 300 && !clean && w2 > 0.954+0.03 {
 		t.Errorf("coverage %.3f / %.3f outside the limits (%.3f–%.3f within 1 esd, at least %.3f within 2)", w1, w2, tol1[0], tol1[1], tol2)
 	}
 }
