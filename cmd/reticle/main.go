@@ -26,12 +26,10 @@ import (
 
 func main() {
 	if os.Getenv("GOGC") == "" {
-		// A command lives for one scan or one batch: collecting when the
-		// heap has grown by four times the live data, not once, saves
-		// about 4 % of the time of reticle peaks on a laboratory scan and
-		// more in a batch, whose analyses allocate side by side; a
-		// million-point scan then peaks at 176–214 MB instead of 120–146.
-		// Past maxHeap the collector works as often as it must instead.
+		// A command lives for one scan or one batch: the collector runs
+		// when the heap has grown by four times the live data, not once,
+		// trading memory for time (BENCHMARKS.md), and past maxHeap as
+		// often as it must.
 		debug.SetGCPercent(400)
 		if os.Getenv("GOMEMLIMIT") == "" {
 			debug.SetMemoryLimit(maxHeap)
