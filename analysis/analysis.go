@@ -123,6 +123,22 @@ func (a *Analysis) ChosenCandidate() *Candidate {
 	return &a.Candidates[a.Chosen]
 }
 
+// RelativeHeight returns the height of peak i as a percentage of the
+// highest peak's, I/I₀ (K-beta companions, which are not lines of the
+// sample's radiation, are not counted as the highest).
+func (a *Analysis) RelativeHeight(i int) float64 {
+	top := 0.0
+	for _, p := range a.Peaks {
+		if !p.Companion() {
+			top = math.Max(top, p.Height)
+		}
+	}
+	if i < 0 || i >= len(a.Peaks) || !(top > 0) {
+		return math.NaN()
+	}
+	return 100 * a.Peaks[i].Height / top
+}
+
 // Choose makes candidate k (0-based) the chosen one.
 func (a *Analysis) Choose(k int) error {
 	if k < 0 || k >= len(a.Candidates) {

@@ -199,3 +199,18 @@ func TestCheck(t *testing.T) {
 		}
 	}
 }
+
+// TestRelativeHeight: I/I₀ is the height over the highest peak's, K-beta
+// companions left out of the highest.
+func TestRelativeHeight(t *testing.T) {
+	mk := func(h float64, f peaks.Flags) Peak { return Peak{Peak: peaks.Peak{Height: h, Flags: f, Parent: -1}} }
+	a := &Analysis{Peaks: []Peak{mk(400, 0), mk(1000, peaks.FlagKBeta), mk(800, 0), mk(200, 0)}}
+	for i, want := range []float64{50, 125, 100, 25} {
+		if got := a.RelativeHeight(i); math.Abs(got-want) > 1e-12 {
+			t.Errorf("peak %d: I/I0 %g, want %g", i+1, got, want)
+		}
+	}
+	if got := a.RelativeHeight(4); !math.IsNaN(got) {
+		t.Errorf("a peak beyond the list: %g, want NaN", got)
+	}
+}

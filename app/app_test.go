@@ -8,6 +8,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 	"time"
@@ -17,7 +18,8 @@ import (
 	"fyne.io/fyne/v2/widget"
 
 	"reticle/analysis"
-	"reticle/report"
+	"reticle/figure"
+	"reticle/session"
 )
 
 // cellColumnText returns the text of the candidate table's cell in row
@@ -119,18 +121,18 @@ func TestWorkflow(t *testing.T) {
 	if i < 0 || len(u.m.A.Lines) != lines+1 {
 		t.Fatalf("click at %.3f° added nothing (%d lines, status %q)", weak, len(u.m.A.Lines), u.status.Text)
 	}
-	if text, _ := u.peakCell(i+1, 9); !strings.Contains(text, "user-added") {
+	if text, _ := u.peakCell(i+1, peakCol(t, "flags")); !strings.Contains(text, "user-added") {
 		t.Errorf("the added peak's flags are %q", text)
 	}
-	if hkl, _ := u.peakCell(i+1, 8); hkl != "3 3 1" {
+	if hkl, _ := u.peakCell(i+1, peakCol(t, "hkl")); hkl != "3 3 1" {
 		t.Errorf("the added peak indexes as %q, want 3 3 1", hkl)
 	}
 	// Reject the first peak by clicking its marker.
 	first := u.m.A.Peaks[0]
-	mp := u.plot.pixel(first.TwoTheta, report.PeakMarkerY(first, u.plot.opt.Scale, u.plot.span))
+	mp := u.plot.pixel(first.TwoTheta, figure.MarkerY(first, u.plot.opt.Scale, u.plot.span))
 	u.plot.Tapped(&fyne.PointEvent{Position: mp})
 	u.wait()
-	if note, kept := u.peakCell(1, 9); !strings.Contains(note, "rejected") {
+	if note, kept := u.peakCell(1, peakCol(t, "flags")); !strings.Contains(note, "rejected") {
 		t.Fatalf("clicking the first marker did not reject it: note %q, kept %v", note, kept)
 	}
 	if len(u.m.A.Lines) != lines {
@@ -139,7 +141,7 @@ func TestWorkflow(t *testing.T) {
 	shot(t, u, "2-edited")
 	u.undo()
 	u.wait()
-	if note, _ := u.peakCell(1, 9); strings.Contains(note, "rejected") || len(u.m.A.Lines) != lines+1 {
+	if note, _ := u.peakCell(1, peakCol(t, "flags")); strings.Contains(note, "rejected") || len(u.m.A.Lines) != lines+1 {
 		t.Fatalf("undo left the peak rejected (%q, %d lines)", note, len(u.m.A.Lines))
 	}
 	// Select the second candidate, then the first again.
@@ -206,7 +208,7 @@ func TestSessionRestore(t *testing.T) {
 		t.Fatalf("no autosave: %v", err)
 	}
 	v := newTestUI(t, autosave)
-	s, err := report.ReadSession(autosave)
+	s, err := session.Read(autosave)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -301,7 +303,7 @@ func TestKilledSession(t *testing.T) {
 		t.Fatal("the child never got ready")
 	}
 	v := newTestUI(t, autosave)
-	s, err := report.ReadSession(autosave)
+	s, err := session.Read(autosave)
 	if err != nil {
 		t.Fatalf("no autosave after the kill: %v", err)
 	}
@@ -313,4 +315,14 @@ func TestKilledSession(t *testing.T) {
 		t.Errorf("restored %d lines, a %.9g, M %.9g, F %.9g; the killed program had %d, %.9g, %.9g, %.9g",
 			len(v.m.A.Lines), got.Cell().A, got.M, got.FN, lines, a, m, fn)
 	}
+}
+
+// peakCol returns the index of the peak table's column of that name.
+func peakCol(t testing.TB, name string) int {
+	t.Helper()
+	i := slices.Index(peakColumns, name)
+	if i < 0 {
+		t.Fatalf("no peak column %q", name)
+	}
+	return i
 }

@@ -6,7 +6,7 @@ import (
 
 	"fyne.io/fyne/v2/dialog"
 
-	"reticle/report"
+	"reticle/session"
 )
 
 // autosavePath is where the state is saved after every change; it is
@@ -32,7 +32,7 @@ func (u *ui) saveAutosave() {
 		u.setStatus("autosave failed: %v", err)
 		return
 	}
-	if err := report.WriteSession(u.autosave, u.m.Session(), true); err != nil {
+	if err := session.Write(u.autosave, u.m.Session(), true); err != nil {
 		u.setStatus("autosave failed: %v", err)
 	}
 }
@@ -50,7 +50,7 @@ func (u *ui) offerRestore(orElse func()) bool {
 	if u.autosave == "" {
 		return false
 	}
-	s, err := report.ReadSession(u.autosave)
+	s, err := session.Read(u.autosave)
 	if err != nil {
 		return false
 	}

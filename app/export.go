@@ -15,6 +15,7 @@ import (
 	"fyne.io/fyne/v2/widget"
 
 	"reticle/report"
+	"reticle/session"
 )
 
 func (u *ui) exportStep() fyne.CanvasObject {
@@ -110,7 +111,7 @@ func (u *ui) saveSessionDialog() {
 		path := w.URI().Path()
 		w.Close()
 		// The dialog has already asked before replacing a file.
-		if err := report.WriteSession(path, u.m.Session(), true); err != nil {
+		if err := session.Write(path, u.m.Session(), true); err != nil {
 			u.showError("The session could not be saved", err, "Choose a folder you can write to.")
 			return
 		}
@@ -126,7 +127,7 @@ func (u *ui) openSessionDialog() {
 
 // openSession reopens a saved session, warning when the scan has changed.
 func (u *ui) openSession(path string) {
-	s, err := report.ReadSession(path)
+	s, err := session.Read(path)
 	if err != nil {
 		u.showError("The session could not be read", err, "Choose a session saved by Reticle, or the JSON of one of its reports.")
 		return
@@ -135,7 +136,7 @@ func (u *ui) openSession(path string) {
 }
 
 // restoreSession opens a session's scan with its settings and choice.
-func (u *ui) restoreSession(s *report.Session) {
+func (u *ui) restoreSession(s *session.Session) {
 	if !fileExists(s.Scan.Path) {
 		u.showError("The session's scan is missing", fmt.Errorf("%s: %w", s.Scan.Path, os.ErrNotExist), "Put the scan back where it was, then open the session again.")
 		return

@@ -10,7 +10,7 @@ import (
 
 	"reticle/analysis"
 	"reticle/peaks"
-	"reticle/report"
+	"reticle/session"
 )
 
 // A Model is the state of one analysis in the desktop program: the scan's
@@ -241,10 +241,10 @@ func sameAngles(a, b []float64) bool {
 }
 
 // Session returns the session that reopens this state.
-func (m *Model) Session() *report.Session {
-	s := &report.Session{Settings: m.Settings.Clone(), Solution: m.Selected + 1}
+func (m *Model) Session() *session.Session {
+	s := &session.Session{Settings: m.Settings.Clone(), Solution: m.Selected + 1}
 	if m.Ext != nil {
-		s.Scan = report.ScanRef{Path: m.Path, SHA256: m.Ext.Scan.SHA256}
+		s.Scan = session.ScanRef{Path: m.Path, SHA256: m.Ext.Scan.SHA256}
 	}
 	return s
 }

@@ -16,6 +16,7 @@ import (
 	"gonum.org/v1/plot/vg/vgimg"
 
 	"reticle/cell"
+	"reticle/figure"
 	"reticle/report"
 )
 
@@ -28,7 +29,7 @@ type plotView struct {
 	u     *ui
 	image *canvas.Image
 	box   *canvas.Rectangle
-	opt   report.FigureOptions
+	opt   figure.Options
 
 	// Geometry of the last render, logical pixels and data units.
 	dataMin, dataMax fyne.Position
@@ -107,7 +108,8 @@ func (v *plotView) render() {
 	wpx, hpx := int(float64(size.Width)*sc), int(float64(size.Height)*sc)
 	opt := v.opt
 	opt.Buckets = max(200, wpx/3)
-	p := report.Figure(a, opt)
+	opt.Dark = v.u.dark
+	p := figure.Pattern(a, opt)
 	dpi := 96 * sc
 	c := vgimg.NewWith(vgimg.UseWH(vg.Length(float64(wpx)/dpi)*vg.Inch, vg.Length(float64(hpx)/dpi)*vg.Inch), vgimg.UseDPI(int(math.Round(dpi))))
 	dc := draw.New(c)
@@ -151,7 +153,7 @@ func (v *plotView) markerAt(pos fyne.Position) (int, bool) {
 		if pk.Companion() && !pk.Rejected {
 			continue
 		}
-		q := v.pixel(v.opt.X(pk.TwoTheta, a.Radiation.Lambda1), report.PeakMarkerY(pk, v.opt.Scale, v.span))
+		q := v.pixel(v.opt.X(pk.TwoTheta, a.Radiation.Lambda1), figure.MarkerY(pk, v.opt.Scale, v.span))
 		dx, dy := q.X-pos.X, q.Y-pos.Y
 		if d := dx*dx + dy*dy; d < bd {
 			best, bd = i, d

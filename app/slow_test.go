@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"slices"
 	"strings"
 	"sync"
 	"testing"
@@ -26,7 +27,7 @@ func slowly(u *ui, d time.Duration) {
 // rejectedShown reports whether the peak table shows peak i (0-based)
 // rejected: unticked, with "rejected" in its flags.
 func rejectedShown(u *ui, i int) bool {
-	note, _ := u.peakCell(i+1, 9)
+	note, _ := u.peakCell(i+1, slices.Index(peakColumns, "flags"))
 	_, ticked := u.peakCell(i+1, 0)
 	return strings.Contains(note, "rejected") && !ticked
 }

@@ -115,7 +115,7 @@ func (u *ui) refreshScan() {
 }
 
 // peakColumns are the peak table's columns.
-var peakColumns = []string{"keep", "#", "2θ (°)", "d (Å)", "height", "FWHM (°)", "η", "S/N", "hkl", "flags"}
+var peakColumns = []string{"keep", "#", "2θ (°)", "d (Å)", "height", "I/I₀ (%)", "FWHM (°)", "η", "S/N", "hkl", "flags"}
 
 // peakCell returns the text of a peak table cell (row ≥ 1) and, for the
 // first column, whether the peak is kept.
@@ -138,19 +138,21 @@ func (u *ui) peakCell(row, col int) (string, bool) {
 	case 4:
 		return fmt.Sprintf("%.0f", p.Height), false
 	case 5:
-		return fmt.Sprintf("%.4f", p.FWHM), false
+		return fmt.Sprintf("%.1f", a.RelativeHeight(i)), false
 	case 6:
-		return fmt.Sprintf("%.2f", p.Eta), false
+		return fmt.Sprintf("%.4f", p.FWHM), false
 	case 7:
-		return fmt.Sprintf("%.0f", p.SNR), false
+		return fmt.Sprintf("%.2f", p.Eta), false
 	case 8:
+		return fmt.Sprintf("%.0f", p.SNR), false
+	case 9:
 		if c := u.m.Solution(); c != nil {
 			if l, _, ok := c.Line(p.TwoTheta); ok && l.Indexed {
 				return report.HKLText(l.HKL), false
 			}
 		}
 		return "", false
-	case 9:
+	case 10:
 		note := p.Flags.String()
 		if p.Companion() {
 			note = fmt.Sprintf("K-beta of %d", p.Parent+1)
@@ -231,7 +233,7 @@ func (u *ui) peaksStep() fyne.CanvasObject {
 			return !p.Companion() || p.Rejected
 		},
 		func(row int) { u.togglePeak(row - 1) })
-	for i, w := range []float32{64, 40, 120, 130, 80, 96, 50, 60, 150, 170} {
+	for i, w := range []float32{64, 40, 120, 130, 80, 80, 96, 50, 60, 150, 170} {
 		u.peakTable.SetColumnWidth(i, w)
 	}
 	hint := widget.NewLabel("Untick a peak (or click its marker in the pattern) to leave it out of the indexing; click an empty spot of the pattern near a maximum to add a peak there. Undo: Ctrl+Z, redo: Ctrl+Y.")

@@ -23,6 +23,7 @@ import (
 
 	"reticle/analysis"
 	"reticle/esd"
+	"reticle/figure"
 	"reticle/peaks"
 	"reticle/refine"
 	"reticle/report"
@@ -80,6 +81,7 @@ type ui struct {
 	running sync.WaitGroup
 
 	autosave string // path of the autosave file; empty: none
+	dark     bool   // the dark theme is on: the figure follows it
 	// autoLimit is the analysis time below which edits recompute the
 	// candidates at once (AutoLimit; tests change it).
 	autoLimit time.Duration
@@ -110,7 +112,7 @@ func (u *ui) build() {
 	u.status = widget.NewLabel("Open a scan to begin: press Open scan… (Ctrl+O), drop a file on the window, or pick a recent one on the Scan step.")
 	u.status.Truncation = fyne.TextTruncateEllipsis
 	u.scaleSel = widget.NewSelect([]string{"linear", "square root", "logarithmic"}, func(s string) {
-		u.plot.opt.Scale = map[string]report.Scale{"linear": report.Linear, "square root": report.SquareRoot, "logarithmic": report.Logarithmic}[s]
+		u.plot.opt.Scale = map[string]figure.Scale{"linear": figure.Linear, "square root": figure.SquareRoot, "logarithmic": figure.Logarithmic}[s]
 		u.plot.render()
 	})
 	u.scaleSel.SetSelected("linear")
@@ -543,7 +545,11 @@ func (u *ui) applyTheme(name string) {
 	if name == "dark" {
 		v = theme.VariantDark
 	}
+	u.dark = v == theme.VariantDark
 	u.app.Settings().SetTheme(fixedVariant{theme.DefaultTheme(), v})
+	if u.plot != nil {
+		u.plot.render()
+	}
 }
 
 // fixedVariant is the default theme held to one variant (light or dark).

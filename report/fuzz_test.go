@@ -2,8 +2,6 @@ package report
 
 import (
 	"bytes"
-	"os"
-	"path/filepath"
 	"reflect"
 	"strings"
 	"testing"
@@ -38,29 +36,6 @@ func FuzzReadCSV(f *testing.F) {
 			if !reflect.DeepEqual(again[i].Peak, rows[i].Peak) {
 				t.Fatalf("%q: row %d changed: %+v → %+v", s, i+1, rows[i].Peak, again[i].Peak)
 			}
-		}
-	})
-}
-
-// FuzzReadSession: any file either fails with an error or reads into a
-// session that names a scan.
-func FuzzReadSession(f *testing.F) {
-	f.Add(`{"format":"reticle-session","version":1,"scan":{"path":"a.xy","sha256":"ab"},"settings":{},"solution":1}`)
-	f.Add(`{"program":"Reticle","schema":1,"file":"a.xy","settings":{"formula":"NaCl"}}`)
-	f.Add(`{"format":"reticle-session","version":9}`)
-	f.Add(`[]`)
-	dir := f.TempDir()
-	f.Fuzz(func(t *testing.T, s string) {
-		p := filepath.Join(dir, "s.json")
-		if err := os.WriteFile(p, []byte(s), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		got, err := ReadSession(p)
-		if err != nil {
-			return
-		}
-		if got.Scan.Path == "" {
-			t.Fatalf("%q: a session without a scan was accepted", s)
 		}
 	})
 }

@@ -21,6 +21,7 @@ import (
 	"reticle/analysis"
 	"reticle/cell"
 	"reticle/esd"
+	"reticle/figure"
 	"reticle/peaks"
 	"reticle/refine"
 )
@@ -230,7 +231,7 @@ func correctionsText(a *analysis.Analysis) string {
 
 func (x *pdfWriter) figure(a *analysis.Analysis) error {
 	const wmm, hmm = 174.0, 82.0
-	pl := Figure(a, FigureOptions{})
+	pl := figure.Pattern(a, figure.Options{})
 	pl.Title.Text = ""
 	c := vgimg.NewWith(vgimg.UseWH(vg.Length(wmm)*vg.Millimeter, vg.Length(hmm)*vg.Millimeter), vgimg.UseDPI(200))
 	pl.Draw(draw.New(c))

@@ -237,32 +237,3 @@ func TestSafeWrites(t *testing.T) {
 		t.Error("writing into a missing directory succeeded")
 	}
 }
-
-func TestSessionRoundTrip(t *testing.T) {
-	dir := t.TempDir()
-	s := &Session{Scan: ScanRef{Path: "kiln.xy", SHA256: "ab"}, Settings: demoSettings, Solution: 2}
-	p := filepath.Join(dir, "s.json")
-	if err := WriteSession(p, s, false); err != nil {
-		t.Fatal(err)
-	}
-	if err := WriteSession(p, s, false); !errors.Is(err, ErrExists) {
-		t.Errorf("second write without replace: %v", err)
-	}
-	got, err := ReadSession(p)
-	if err != nil || !reflect.DeepEqual(got, s) {
-		t.Errorf("read back %+v, %v", got, err)
-	}
-	a := demoAnalysis(t)
-	var buf bytes.Buffer
-	WriteJSON(&buf, a)
-	q := filepath.Join(dir, "r.json")
-	os.WriteFile(q, buf.Bytes(), 0o644)
-	got, err = ReadSession(q)
-	if err != nil || got.Scan.SHA256 != a.Scan.SHA256 || !reflect.DeepEqual(got.Settings, a.Settings) {
-		t.Errorf("from a result document: %+v, %v", got, err)
-	}
-	os.WriteFile(q, []byte(`{"format":"something-else"}`), 0o644)
-	if _, err := ReadSession(q); err == nil {
-		t.Error("a foreign JSON file read as a session")
-	}
-}

@@ -11,6 +11,7 @@ import (
 	"time"
 
 	"reticle/report"
+	"reticle/session"
 )
 
 func cmdReportRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
@@ -53,7 +54,7 @@ func reportAt(ctx context.Context, args []string, stdout, stderr io.Writer, date
 			fmt.Fprintln(stderr, "reticle report: give --session or scan files, not both")
 			return 2
 		}
-		s, err := report.ReadSession(r.session)
+		s, err := session.Read(r.session)
 		if err != nil {
 			fmt.Fprintf(stderr, "reticle report: %v\n", err)
 			return 1

@@ -5,7 +5,7 @@ import (
 	"context"
 	"os"
 	"path/filepath"
-	"reticle/report"
+	"reticle/session"
 	"strings"
 	"testing"
 	"time"
@@ -50,7 +50,7 @@ func TestReportCommand(t *testing.T) {
 	// A session whose scan has changed since it was saved: a warning.
 	stale := filepath.Join(t.TempDir(), "stale.reticle.json")
 	abs, _ := filepath.Abs(demo)
-	if err := report.WriteSession(stale, &report.Session{Scan: report.ScanRef{Path: abs, SHA256: "0123"}}, false); err != nil {
+	if err := session.Write(stale, &session.Session{Scan: session.ScanRef{Path: abs, SHA256: "0123"}}, false); err != nil {
 		t.Fatal(err)
 	}
 	if code, _, errs := runCmd("report", "--out", t.TempDir(), "--session", stale); code != 0 || !strings.Contains(errs, "has changed since the session was saved") {

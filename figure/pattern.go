@@ -1,4 +1,4 @@
-package report
+package figure
 
 import (
 	"image/color"
@@ -59,20 +59,53 @@ func (sc Scale) apply(y float64) float64 {
 	return y
 }
 
-// FigureOptions choose what a pattern figure shows. The zero value is the
+// Options choose what a pattern figure shows. The zero value is the
 // whole scan, linear in intensity, against 2θ, decimated to 1,200 columns.
-type FigureOptions struct {
+type Options struct {
 	Buckets    int     // columns the curves are decimated to; 0 means 1,200
 	XMin, XMax float64 // 2θ range shown, degrees; both zero means the scan's
 	Scale      Scale
 	// DAxis plots against d (Å), falling from left to right, instead of
 	// 2θ.
 	DAxis bool
+	// Dark draws light on a dark ground, for a window in a dark theme.
+	Dark bool
+}
+
+// Ink and ground of the dark variant: the observed curve, the rejected
+// marks, the axes and the text in light grey on near black.
+var (
+	darkGround = color.RGBA{0x17, 0x17, 0x18, 0xff}
+	darkInk    = color.RGBA{0xe0, 0xe0, 0xe0, 0xff}
+)
+
+// ink returns the colour of the observed curve, the axes and the text.
+func (o Options) ink() color.Color {
+	if o.Dark {
+		return darkInk
+	}
+	return ColourObserved
+}
+
+// paint sets the plot's ground, axes and text to the variant's colours.
+func (o Options) paint(p *plot.Plot) {
+	if !o.Dark {
+		return
+	}
+	p.BackgroundColor = darkGround
+	for _, ax := range []*plot.Axis{&p.X, &p.Y} {
+		ax.Color = darkInk
+		ax.Label.TextStyle.Color = darkInk
+		ax.Tick.Color = darkInk
+		ax.Tick.Label.Color = darkInk
+	}
+	p.Title.TextStyle.Color = darkInk
+	p.Legend.TextStyle.Color = darkInk
 }
 
 // X maps a 2θ (degrees) to the figure's x for wavelength lambda (Å): 2θ,
 // or −d so that d falls from left to right.
-func (o FigureOptions) X(tt, lambda float64) float64 {
+func (o Options) X(tt, lambda float64) float64 {
 	if !o.DAxis {
 		return tt
 	}
@@ -80,7 +113,7 @@ func (o FigureOptions) X(tt, lambda float64) float64 {
 }
 
 // TwoTheta inverts X.
-func (o FigureOptions) TwoTheta(x, lambda float64) float64 {
+func (o Options) TwoTheta(x, lambda float64) float64 {
 	if !o.DAxis {
 		return x
 	}
@@ -144,12 +177,12 @@ func decimateIndex(a, b, buckets int, val func(int) float64) []int {
 	return idx
 }
 
-// Figure draws an analysis' pattern: observed counts, fitted profile,
+// Pattern draws an analysis' pattern: observed counts, fitted profile,
 // background, the difference beneath, tick marks of the calculated lines
 // of the chosen cell and markers of the peaks, accepted as up-triangles
 // and rejected as crosses. The figure is the same for the report and the
 // desktop view.
-func Figure(a *analysis.Analysis, o FigureOptions) *plot.Plot {
+func Pattern(a *analysis.Analysis, o Options) *plot.Plot {
 	p := plot.New()
 	setFont(p)
 	p.X.Label.Text = "2θ (degrees)"
@@ -233,7 +266,7 @@ func Figure(a *analysis.Analysis, o FigureOptions) *plot.Plot {
 	if haveFit {
 		add(curve(func(i int) float64 { return pt.Profile[i] }, 0), ColourFitted, vg.Points(1.4), nil, "fitted")
 	}
-	add(obs, ColourObserved, vg.Points(0.5), nil, "observed")
+	add(obs, o.ink(), vg.Points(0.5), nil, "observed")
 	if len(pt.Background) == len(pt.TwoTheta) {
 		add(curve(func(i int) float64 { return pt.Background[i] }, 0), ColourBackground, vg.Points(0.8), []vg.Length{vg.Points(3), vg.Points(2)}, "background")
 	}
@@ -262,7 +295,7 @@ func Figure(a *analysis.Analysis, o FigureOptions) *plot.Plot {
 		if pk.TwoTheta < lo || pk.TwoTheta > hi {
 			continue
 		}
-		xy := plotter.XY{X: o.X(pk.TwoTheta, lam), Y: PeakMarkerY(pk, o.Scale, span)}
+		xy := plotter.XY{X: o.X(pk.TwoTheta, lam), Y: MarkerY(pk, o.Scale, span)}
 		if pk.Rejected {
 			rej = append(rej, xy)
 		} else if !pk.Companion() {
@@ -277,7 +310,7 @@ func Figure(a *analysis.Analysis, o FigureOptions) *plot.Plot {
 	}
 	if len(rej) > 0 {
 		s, _ := plotter.NewScatter(rej)
-		s.GlyphStyle = draw.GlyphStyle{Color: color.Black, Radius: vg.Points(4), Shape: draw.CrossGlyph{}}
+		s.GlyphStyle = draw.GlyphStyle{Color: o.ink(), Radius: vg.Points(4), Shape: draw.CrossGlyph{}}
 		p.Add(s)
 		p.Legend.Add("rejected peak", s)
 	}
@@ -288,6 +321,7 @@ func Figure(a *analysis.Analysis, o FigureOptions) *plot.Plot {
 	p.Y.Min = diffZero - 0.1*span
 	// Head room for the legend.
 	p.Y.Max = top + 0.45*span
+	o.paint(p)
 	p.Legend.TextStyle.Font.Size = vg.Points(8)
 	p.Legend.ThumbnailWidth = vg.Points(14)
 	return p
@@ -298,9 +332,9 @@ type pattern struct {
 	TwoTheta, Intensity, Background, Profile []float64
 }
 
-// PeakMarkerY is the height at which a peak's marker is drawn: a little
+// MarkerY is the height at which a peak's marker is drawn: a little
 // above its top, on the figure's intensity scale of the given span.
-func PeakMarkerY(pk analysis.Peak, sc Scale, span float64) float64 {
+func MarkerY(pk analysis.Peak, sc Scale, span float64) float64 {
 	return sc.apply(pk.Background+pk.Height) + 0.04*span
 }
 
