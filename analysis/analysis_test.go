@@ -6,6 +6,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"reflect"
+	"strings"
 	"testing"
 
 	"reticle/cell"
@@ -212,5 +213,35 @@ func TestRelativeHeight(t *testing.T) {
 	}
 	if got := a.RelativeHeight(4); !math.IsNaN(got) {
 		t.Errorf("a peak beyond the list: %g, want NaN", got)
+	}
+}
+
+// TestSettingsUnindexedKey: the unindexed lines allowed are written as
+// "unindexed" and read under that name and the earlier "impurities".
+func TestSettingsUnindexedKey(t *testing.T) {
+	for _, c := range []struct {
+		in   string
+		want int
+	}{
+		{`{"impurities":3}`, 3},
+		{`{"unindexed":2}`, 2},
+		{`{"unindexed":-1,"impurities":4}`, -1},
+		{`{"sample":"kiln trial 12"}`, 0},
+	} {
+		var s Settings
+		if err := json.Unmarshal([]byte(c.in), &s); err != nil {
+			t.Fatalf("%s: %v", c.in, err)
+		}
+		if s.Unindexed != c.want {
+			t.Errorf("%s: unindexed %d, want %d", c.in, s.Unindexed, c.want)
+		}
+	}
+	out, err := json.Marshal(Settings{Unindexed: 5, Sample: "kiln trial 12"})
+	if err != nil || !strings.Contains(string(out), `"unindexed":5`) || strings.Contains(string(out), "impurities") {
+		t.Errorf("written as %s (%v)", out, err)
+	}
+	var back Settings
+	if err := json.Unmarshal(out, &back); err != nil || back.Sample != "kiln trial 12" || back.Unindexed != 5 {
+		t.Errorf("read back %+v (%v)", back, err)
 	}
 }

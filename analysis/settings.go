@@ -1,6 +1,7 @@
 package analysis
 
 import (
+	"encoding/json"
 	"fmt"
 	"math"
 	"slices"
@@ -46,9 +47,10 @@ type Settings struct {
 	// SearchLower searches the lower systems even when a higher cell
 	// explains the lines.
 	SearchLower bool `json:"search_lower,omitempty"`
-	// Impurities is how many of the first 20 lines may stay unindexed
-	// (indexing's default when zero; negative: none).
-	Impurities int `json:"impurities,omitempty"`
+	// Unindexed is how many of the first 20 lines may stay unindexed
+	// (indexing's default when zero; negative: none). Settings written
+	// by earlier versions name it "impurities"; it is read under both.
+	Unindexed int `json:"unindexed,omitempty"`
 	// Tolerance is the smallest window, degrees 2θ, within which a
 	// calculated line indexes an observed one (indexing's default).
 	Tolerance float64 `json:"tolerance,omitempty"`
@@ -139,7 +141,7 @@ func (s Settings) Resolved(scan *peaks.Scan) Settings {
 		s.Radiation = &po.Radiation
 	}
 	io := s.indexOptions(0).Resolved()
-	// Impurities stays 0 (indexing's default, a share of the lines
+	// Unindexed stays 0 (indexing's default, a share of the lines
 	// searched, known only with the lines) or as set.
 	s.Systems, s.Tolerance = io.Systems, io.Tolerance
 	ro := s.refineOptions(0).Resolved()
@@ -159,7 +161,7 @@ func (s Settings) peakOptions() peaks.Options {
 
 // indexOptions are the search's options for wavelength λ (Å).
 func (s Settings) indexOptions(lambda float64) indexing.Options {
-	return indexing.Options{Wavelength: lambda, Systems: s.Systems, MaxImpurities: s.Impurities, Tolerance: s.Tolerance, ExploreLower: s.SearchLower}
+	return indexing.Options{Wavelength: lambda, Systems: s.Systems, MaxImpurities: s.Unindexed, Tolerance: s.Tolerance, ExploreLower: s.SearchLower}
 }
 
 // refineOptions are the refinement's options for wavelength λ (Å).
@@ -207,4 +209,22 @@ func toggle(list []float64, tt float64) []float64 {
 		list = append(list, tt)
 	}
 	return list
+}
+
+// UnmarshalJSON reads settings, also those of earlier versions, which
+// name the unindexed lines allowed "impurities".
+func (s *Settings) UnmarshalJSON(data []byte) error {
+	type plain Settings // without this method
+	var v struct {
+		plain
+		Impurities int `json:"impurities,omitempty"`
+	}
+	if err := json.Unmarshal(data, &v); err != nil {
+		return err
+	}
+	*s = Settings(v.plain)
+	if s.Unindexed == 0 {
+		s.Unindexed = v.Impurities
+	}
+	return nil
 }

@@ -493,10 +493,10 @@ func CommandOptions(set analysis.Settings, scan *peaks.Scan) [][2]string {
 		{"--scaling", s.Scaling.String()},
 	}...)
 	switch {
-	case s.Impurities > 0:
-		out = append(out, [2]string{"--impurities", fmt.Sprint(s.Impurities)})
-	case s.Impurities < 0:
-		out = append(out, [2]string{"--impurities", "0"}) // none
+	case s.Unindexed > 0:
+		out = append(out, [2]string{"--unindexed", fmt.Sprint(s.Unindexed)})
+	case s.Unindexed < 0:
+		out = append(out, [2]string{"--unindexed", "0"}) // none
 	}
 	if s.Standard != nil {
 		out = append(out, [2]string{"--standard", s.Standard.Name})

@@ -115,16 +115,16 @@ var options = []option{
 	{name: "search-lower", in: cmdIndex | cmdReport,
 		help: "search the lower systems even when a higher cell explains the lines",
 		set:  func(r *request, _ string) error { r.settings.SearchLower = true; return nil }},
-	{name: "impurities", arg: "N", in: cmdIndex | cmdReport, def: fmt.Sprintf("%g %% of the lines, and every line below %g %% of the strongest", 100*indexing.DefaultImpurityShare, 100*indexing.WeakLine),
+	{name: "unindexed", arg: "N", in: cmdIndex | cmdReport, def: fmt.Sprintf("%g %% of the lines, and every line below %g %% of the strongest", 100*indexing.DefaultImpurityShare, 100*indexing.WeakLine),
 		help: "lines among the first 20 that may stay unindexed, 0 for none (each also costs its cell by its strength)",
 		set: func(r *request, v string) error {
 			n, err := strconv.Atoi(v)
 			if err != nil || n < 0 {
 				return fmt.Errorf("want a number of lines, 0 or more, got %q", v)
 			}
-			r.settings.Impurities = n
+			r.settings.Unindexed = n
 			if n == 0 {
-				r.settings.Impurities = -1
+				r.settings.Unindexed = -1
 			}
 			return nil
 		}},
