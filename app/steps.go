@@ -574,7 +574,7 @@ func (u *ui) paramsSummary() string {
 	var b strings.Builder
 	b.WriteString(head)
 	b.WriteString(report.Text(append(report.RefinementRows(c.Refined),
-		report.Row{Label: "figures of merit", Value: fmt.Sprintf("M%d %.1f, F%d %.1f (%.4f°, %d)", c.FigureLines, c.M, c.FigureLines, c.FN, c.FNMeanDiff, c.FNPossible)})))
+		report.Row{Label: "figures of merit", Value: fmt.Sprintf("M_N %.1f, F_N %.1f (%.4f°, %d) with N = %d", c.M, c.FN, c.FNMeanDiff, c.FNPossible, c.FigureLines)})))
 	for _, w := range c.Refined.Warnings {
 		fmt.Fprintf(&b, "note: %s\n", w)
 	}

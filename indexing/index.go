@@ -271,7 +271,7 @@ func (sr *searcher) run(ls []obs, res *Result, zones bool) ([]*cand, error) {
 	ranked := rankCands(pool, ls, sr.all, o)
 	if len(ranked) > 0 && acceptable(ranked[0], o.ExploreLower) {
 		if res != nil {
-			res.Stop = fmt.Sprintf("%s %s explains the lines (M%d = %.1f, every strong line indexed, positions within their esds); lower systems were not searched", ranked[0].c.System, ranked[0].c.Centring, n, ranked[0].m)
+			res.Stop = fmt.Sprintf("%s %s explains the lines (M_N = %.1f with N = %d, every strong line indexed, positions within their esds); lower systems were not searched", ranked[0].c.System, ranked[0].c.Centring, ranked[0].m, n)
 		}
 		for range sr.zeros {
 			sr.tick()

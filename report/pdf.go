@@ -261,7 +261,7 @@ func (x *pdfWriter) refined(c *analysis.Candidate) {
 	}
 	r := c.Refined
 	s := c.Solution
-	rows := append(RefinementRows(r), Row{"figures of merit", fmt.Sprintf("M%d = %.1f (de Wolff 1968), F%d = %.1f (%.4f°, %d) (Smith & Snyder 1979)", s.FigureLines, s.M, s.FigureLines, s.FN, s.FNMeanDiff, s.FNPossible)})
+	rows := append(RefinementRows(r), Row{"figures of merit", fmt.Sprintf("M_N = %.1f (de Wolff 1968), F_N = %.1f (%.4f°, %d) (Smith & Snyder 1979), N = %d", s.M, s.FN, s.FNMeanDiff, s.FNPossible, s.FigureLines)})
 	x.keyValues(rows, 30)
 	if n := len(r.Params); n > 1 {
 		x.pdf.Ln(1)
@@ -367,8 +367,8 @@ func (x *pdfWriter) candidates(a *analysis.Analysis) {
 			cols = append(cols, column{p.title, 15, "R"})
 		}
 	}
-	cols = append(cols, column{"V (Å³)", 15, "R"}, column{"probability", 15, "R"}, column{fmt.Sprintf("M%d", a.Candidates[0].FigureLines), 12, "R"},
-		column{fmt.Sprintf("F%d", a.Candidates[0].FigureLines), 12, "R"}, column{"indexed", 13, "R"}, column{"Z", 10, "R"}, column{"", 13, "L"})
+	cols = append(cols, column{"V (Å³)", 15, "R"}, column{"probability", 15, "R"}, column{"M_N", 12, "R"},
+		column{"F_N", 12, "R"}, column{"indexed", 13, "R"}, column{"Z", 10, "R"}, column{"", 13, "L"})
 	var rows [][]string
 	for i, c := range a.Candidates {
 		ce := c.Cell()

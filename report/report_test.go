@@ -138,7 +138,7 @@ func TestPDF(t *testing.T) {
 		text := pdfText(t, raw)
 		p := an.Candidates[0].Refined.Params[0]
 		a := esd.Format(p.Value, p.ESD)
-		for _, want := range []string{"Refined cell report: Kiln trial 07", a + " Å", an.Scan.SHA256, "2026-12-01", "Limitations", "Settings used", "M18", "MgAl2O4"} {
+		for _, want := range []string{"Refined cell report: Kiln trial 07", a + " Å", an.Scan.SHA256, "2026-12-01", "Limitations", "Settings used", "M_N", "MgAl2O4"} {
 			if !strings.Contains(text, want) {
 				t.Errorf("%s: text layer lacks %q", paper, want)
 			}

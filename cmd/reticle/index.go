@@ -89,7 +89,7 @@ func printCandidates(w io.Writer, a *analysis.Analysis) {
 		return
 	}
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-	fmt.Fprintf(tw, "#\tcell\tV (Å³)\tprobability\tM%d\tF%d\tindexed\t\n", a.Candidates[0].FigureLines, a.Candidates[0].FigureLines)
+	fmt.Fprintf(tw, "#\tcell\tV (Å³)\tprobability\tM_N\tF_N\tindexed\t\n")
 	for _, c := range a.Candidates {
 		v, ve := c.Volume()
 		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%.1f\t%.1f(%.4f,%d)\t%d/%d\t\n", c.Rank, cell.Format(c.Cell(), c.Covariance().ESD()),
