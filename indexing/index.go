@@ -72,7 +72,7 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 	if n < minZeroLines && o.ZeroRange > 0 {
 		// So few lines cannot tell a zero offset from the cell.
 		o.ZeroRange = 0
-		notes = append(notes, fmt.Sprintf("with fewer than %d lines the zero offset is held at 0", minZeroLines))
+		notes = append(notes, fmt.Sprintf("with fewer than %d lines the zero shift is held at 0", minZeroLines))
 	}
 	zeros := []float64{0}
 	for z := zeroStep; z <= o.ZeroRange+1e-9; z += zeroStep {
@@ -82,7 +82,7 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 		for _, z := range harmonicZeros(all[:min(len(all), 2*o.Lines)], o) {
 			zeros = append(zeros, z)
 			o.zeroLimit = math.Max(o.zeroLimit, math.Abs(z))
-			notes = append(notes, fmt.Sprintf("harmonic lines (orders of one reflection) put the zero offset near %+.3f°, beyond the %g° searched; it was searched too", z, o.ZeroRange))
+			notes = append(notes, fmt.Sprintf("harmonic lines (orders of one reflection) put the zero shift near %+.3f°, beyond the %g° searched; it was searched too", z, o.ZeroRange))
 		}
 	}
 	res := &Result{Wavelength: o.Wavelength, LinesUsed: n, Bounds: Bounds{MaxEdge: o.MaxEdge, MaxVolume: o.MaxVolume, ZeroRange: math.Max(o.ZeroRange, o.zeroLimit)}}

@@ -220,8 +220,8 @@ type Solution struct {
 	// (indexing.Solution.Demanding).
 	DemandingLines []float64 `json:"demanding_lines,omitempty"`
 	DemandingIndex int       `json:"demanding_index,omitempty"`
-	// Zero is the zero offset of the indexing, or the refined zero
-	// shift, degrees 2θ.
+	// Zero is the zero shift the search found, degrees 2θ; the refined
+	// one, with its esd, is the refinement's.
 	Zero        float64  `json:"zero_shift"`
 	M           float64  `json:"m_n"`
 	FigureLines int      `json:"figure_lines"`
@@ -236,8 +236,8 @@ type Solution struct {
 	// reduced cell of the lattice with the matrix whose rows give its
 	// vectors in the basis of the cell.
 	Parameters  int           `json:"parameters"`
-	ChiSquare   float64       `json:"chi_square"`
-	DOF         int           `json:"dof"`
+	Chi2        float64       `json:"chi2"`
+	DOF         int           `json:"degrees_of_freedom"`
 	Reduced     string        `json:"reduced_cell"`
 	FromReduced [3][3]float64 `json:"reduced_from_cell"`
 	Lines       []Line        `json:"lines"`
@@ -282,7 +282,8 @@ func NewResidual(rr refine.Residual) Residual {
 // Refined is a refinement of a cell.
 type Refined struct {
 	Corrections     refine.Corrections `json:"corrections"`
-	ZeroESD         float64            `json:"zero_shift_esd,omitempty"`
+	ZeroShift       *float64           `json:"zero_shift,omitempty"` // degrees 2θ
+	ZeroShiftESD    *float64           `json:"zero_shift_esd,omitempty"`
 	Displacement    *float64           `json:"displacement_mm,omitempty"`
 	DisplacementESD *float64           `json:"displacement_mm_esd,omitempty"`
 	Transparency    *float64           `json:"transparency_mm,omitempty"`
@@ -343,7 +344,10 @@ func NewRefined(r *refine.Result) Refined {
 		Scaled: r.Scaled, Scaling: r.Scaling, Correlation: r.Correlation, Flagged: r.Flagged, Warnings: r.Warnings,
 		Params: []Param{}, Residuals: []Residual{}, Selection: NewSelection(r.Selection),
 	}
-	_, j.ZeroESD = r.Zero()
+	if r.Corrections.Has(refine.Zero) {
+		z, e := r.Zero()
+		j.ZeroShift, j.ZeroShiftESD = &z, &e
+	}
 	if r.Corrections.Has(refine.Displacement) {
 		d, e := r.Displacement()
 		j.Displacement, j.DisplacementESD = &d, &e
@@ -494,7 +498,7 @@ func NewSolution(a *analysis.Analysis, c *analysis.Candidate) Solution {
 		Probability: s.Probability, LogEvidence: s.LogEvidence, DemandingLines: s.Demanding, DemandingIndex: s.Index,
 		M: s.M, FigureLines: s.FigureLines, FN: s.FN, FNMeanDiff: s.FNMeanDiff, FNPossible: s.FNPossible,
 		Indexed: s.Indexed, Unindexed: s.Unindexed, Conditions: s.Conditions, Lines: []Line{}, Calculated: []Calc{},
-		Parameters: s.Parameters, ChiSquare: s.ChiSquare, DOF: s.DOF, FromReduced: s.FromReduced,
+		Parameters: s.Parameters, Chi2: s.ChiSquare, DOF: s.DOF, FromReduced: s.FromReduced,
 	}
 	if s.Reduced.Volume() > 0 {
 		j.Reduced = cell.Format(s.Reduced, cell.ESD{})
@@ -512,7 +516,6 @@ func NewSolution(a *analysis.Analysis, c *analysis.Candidate) Solution {
 	if c.Refined != nil {
 		rj := NewRefined(c.Refined)
 		j.Refined = &rj
-		j.Zero, _ = c.Refined.Zero()
 	} else if c.RefineErr != nil {
 		j.RefineError = c.RefineErr.Error()
 	}

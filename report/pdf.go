@@ -407,7 +407,7 @@ func SearchText(r *indexing.Result) string {
 	for _, s := range r.Searched {
 		names = append(names, s.String())
 	}
-	t := fmt.Sprintf("Searched %s (first %d lines; edges up to %g Å, volumes up to %g Å³, zero offset up to %.3g°): %s.",
+	t := fmt.Sprintf("Searched %s (first %d lines; edges up to %g Å, volumes up to %g Å³, zero shift up to %.3g°): %s.",
 		strings.Join(names, ", "), r.LinesUsed, r.Bounds.MaxEdge, r.Bounds.MaxVolume, r.Bounds.ZeroRange, r.Stop)
 	if len(r.Solutions) > 0 {
 		t += fmt.Sprintf(" The first cell's probability, among the candidates found, is %s.", Percent(r.Solutions[0].Probability))

@@ -34,7 +34,7 @@ func TestIndexRefinedFields(t *testing.T) {
 		}
 	}
 	ref := first["refinement"].(map[string]any)
-	for _, k := range []string{"zero_shift_esd", "displacement_mm", "chi2_reduced", "residuals", "correlation", "parameters", "corrections"} {
+	for _, k := range []string{"zero_shift", "zero_shift_esd", "displacement_mm", "chi2_reduced", "residuals", "correlation", "parameters", "corrections"} {
 		if _, ok := ref[k]; !ok {
 			t.Errorf("refinement lacks %q", k)
 		}
