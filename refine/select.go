@@ -83,13 +83,13 @@ func (s *Selection) Reason() string {
 	}
 	txt := fmt.Sprintf("%s, chosen from the data: lowest %s of %d models", s.Chosen, s.Criterion, s.refined())
 	if next != nil {
-		txt += fmt.Sprintf(" (%.1f below %s; weight %.2f)", next.BIC-chosen.BIC, next.Corrections, chosen.Weight)
+		txt += fmt.Sprintf(" (%.1f lower than %s's; weight %.2f, the chance that it is the best of them)", next.BIC-chosen.BIC, next.Corrections, chosen.Weight)
 	}
 	if s.Averaged > 0 {
-		txt += fmt.Sprintf("; the cell and corrections are the mean of this choice over %d simulated sets of lines", s.Averaged)
+		txt += fmt.Sprintf("; the cell and corrections are the mean of this choice over %d bootstrap sets of lines", s.Averaged)
 	}
 	if s.Widening > 1.005 {
-		txt += fmt.Sprintf("; the esds include the uncertainty of the choice (×%.2f)", s.Widening)
+		txt += fmt.Sprintf("; the esds include the uncertainty of the choice, which widens the largest edge's esd %.2f times", s.Widening)
 	}
 	return txt
 }

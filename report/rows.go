@@ -77,7 +77,7 @@ func ContentsRows(c *density.Contents, f density.Formula, m *density.Measured) [
 	}
 	rows = append(rows,
 		Row{"atoms per cell", ftoa(c.AtomsPerCell)},
-		Row{"mass per cell", esd.Format(c.CellMass, c.CellMassESD) + " g/mol"})
+		Row{"mass per cell", esd.Format(c.CellMass, c.CellMassESD) + " u (Z·M)"})
 	if c.NoStandardWeight {
 		rows = append(rows, Row{"note", "an element without a standard atomic weight is counted at the mass number of a long-lived isotope"})
 	}
