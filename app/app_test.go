@@ -103,7 +103,7 @@ func TestWorkflow(t *testing.T) {
 	if doc == nil || len(doc.Candidates) == 0 {
 		t.Fatalf("no result after opening: %v", u.status.Text)
 	}
-	if got := cellColumnText(u, 1, "system") + " " + cellColumnText(u, 1, ""); got != "cubic F" {
+	if got := cellColumnText(u, 1, "system") + " " + cellColumnText(u, 1, "centring"); got != "cubic F" {
 		t.Fatalf("first candidate %q, want cubic F", got)
 	}
 	shot(t, u, "1-opened")

@@ -276,7 +276,7 @@ func (u *ui) cellColumns() []cellColumn {
 	cols := []cellColumn{
 		{"#", 36, func(_ *ui, c *analysis.Candidate) string { return strconv.Itoa(c.Rank) }},
 		{"system", 110, func(_ *ui, c *analysis.Candidate) string { return c.Cell().System.String() }},
-		{"", 30, func(_ *ui, c *analysis.Candidate) string { return c.Cell().Centring.String() }},
+		{"centring", 70, func(_ *ui, c *analysis.Candidate) string { return c.Cell().Centring.String() }},
 		paramColumn("a (Å)", 0),
 	}
 	for i, p := range []struct {
@@ -374,7 +374,7 @@ func (u *ui) setCellColumns() {
 	}
 }
 
-var resColumns = []string{"in fit", "hkl", "2θ obs (°)", "2θ calc (°)", "Δ2θ (°)", "Δ/σ", ""}
+var resColumns = []string{"in fit", "hkl", "2θ obs (°)", "2θ calc (°)", "Δ2θ (°)", "Δ/σ", "note"}
 
 func (u *ui) resCell(row, col int) (string, bool) {
 	c := u.m.Solution()

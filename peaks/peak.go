@@ -35,7 +35,7 @@ func (f Flags) String() string {
 	for _, x := range []struct {
 		f    Flags
 		name string
-	}{{FlagKBeta, "k-beta"}, {FlagShared, "overlap"}, {FlagFixedShape, "fixed-shape"}, {FlagEdge, "edge"}, {FlagAdded, "shoulder"}, {FlagUser, "user-added"}, {FlagFilterEdge, "filter-edge-companion"}} {
+	}{{FlagKBeta, "K-beta"}, {FlagShared, "overlap"}, {FlagFixedShape, "fixed-shape"}, {FlagEdge, "edge"}, {FlagAdded, "shoulder"}, {FlagUser, "user-added"}, {FlagFilterEdge, "filter-edge-companion"}} {
 		if f&x.f != 0 {
 			w = append(w, x.name)
 		}

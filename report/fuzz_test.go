@@ -13,7 +13,7 @@ func FuzzReadCSV(f *testing.F) {
 	head := strings.Join(csvHeader, ",") + "\n"
 	f.Add(head)
 	f.Add(head + "1,19.0082,0.0007,4.665,0.0002,1517,20,100,2,0.0668,0.001,0.5,120,29,,,false,1 1 1,19.0075,0.0006\n")
-	f.Add(head + "2,31.28,0.0005,2.857,0.0001,1964,20,100,2,0.0677,0.001,0.5,120,60,k-beta,1,true,,,\n")
+	f.Add(head + "2,31.28,0.0005,2.857,0.0001,1964,20,100,2,0.0677,0.001,0.5,120,60,K-beta,1,true,,,\n")
 	f.Add("a,b\n1,2\n")
 	f.Fuzz(func(t *testing.T, s string) {
 		rows, err := ReadCSV(strings.NewReader(s))

@@ -6,6 +6,7 @@ import (
 	"io"
 	"path/filepath"
 	"reticle/indexing"
+	"slices"
 	"strings"
 	"time"
 
@@ -306,7 +307,19 @@ type column struct {
 func (x *pdfWriter) table(cols []column, rows [][]string) {
 	p := x.pdf
 	const rh = 4.4
-	_, ph := p.GetPageSize()
+	pw, ph := p.GetPageSize()
+	// Columns wider together than the text area are narrowed alike.
+	lm, _, rm, _ := p.GetMargins()
+	total := 0.0
+	for _, c := range cols {
+		total += c.width
+	}
+	if avail := pw - lm - rm; total > avail {
+		cols = slices.Clone(cols)
+		for i := range cols {
+			cols[i].width *= avail / total
+		}
+	}
 	head := func() {
 		p.SetFont(fontSans, "B", 7.5)
 		p.SetFillColor(0xe4, 0xea, 0xf2)
@@ -350,7 +363,7 @@ func (x *pdfWriter) candidates(a *analysis.Analysis) {
 			free[n] = true
 		}
 	}
-	cols := []column{{"#", 7, "R"}, {"system", 22, "L"}, {"", 5, "C"}}
+	cols := []column{{"#", 7, "R"}, {"system", 22, "L"}, {"centring", 13, "C"}}
 	type param struct {
 		name, title string
 		get         func(cell.Cell) float64
@@ -368,7 +381,7 @@ func (x *pdfWriter) candidates(a *analysis.Analysis) {
 		}
 	}
 	cols = append(cols, column{"V (Å³)", 15, "R"}, column{"probability", 15, "R"}, column{"M_N", 12, "R"},
-		column{"F_N", 12, "R"}, column{"indexed", 13, "R"}, column{"Z", 10, "R"}, column{"", 13, "L"})
+		column{"F_N", 12, "R"}, column{"indexed", 13, "R"}, column{"Z", 10, "R"}, column{"note", 13, "L"})
 	var rows [][]string
 	for i, c := range a.Candidates {
 		ce := c.Cell()
@@ -421,7 +434,7 @@ func SearchText(r *indexing.Result) string {
 func (x *pdfWriter) lines(a *analysis.Analysis) {
 	x.heading("Peaks and their indices")
 	cols := []column{{"#", 7, "R"}, {"2θ obs (°)", 24, "R"}, {"d (Å)", 22, "R"}, {"height", 16, "R"}, {"FWHM (°)", 15, "R"},
-		{"hkl", 30, "C"}, {"2θ calc (°)", 19, "R"}, {"Δ2θ (°)", 15, "R"}, {"Δ/σ", 11, "R"}, {"", 15, "L"}}
+		{"hkl", 30, "C"}, {"2θ calc (°)", 19, "R"}, {"Δ2θ (°)", 15, "R"}, {"Δ/σ", 11, "R"}, {"flags", 15, "L"}}
 	c := a.ChosenCandidate()
 	var rows [][]string
 	for i, r := range PeakRows(a) {

@@ -217,7 +217,7 @@ var options = []option{
 			r.settings.Z = n
 			return nil
 		}},
-	{name: "sample", arg: "NAME", in: cmdIndex | cmdReport, def: "the file's name",
+	{name: "sample", arg: "NAME", in: cmdIndex | cmdReport, def: "none; the records name the scan by its file",
 		help: "sample name printed in the records",
 		set:  func(r *request, v string) error { r.settings.Sample = v; return nil }},
 	{name: "out", arg: "DIR", in: cmdReport, def: "required",
