@@ -193,7 +193,7 @@ func (x *pdfWriter) header(a *analysis.Analysis, title string, date time.Time) {
 		{"Program", fmt.Sprintf("%s %s", Program, Version)},
 		{"Radiation", rad},
 		{"Corrections", correctionsText(a)},
-		{"Lines", fmt.Sprintf("%d peaks extracted, %d lines indexed (K-beta companions, rejected peaks and the standard's lines left out)", len(a.Peaks), len(a.Lines))},
+		{"Lines", linesText(a)},
 	}
 	if c := a.ChosenCandidate(); c != nil {
 		rows = append(rows, Row{"Cell reported", fmt.Sprintf("candidate %d of %d: %s %s", c.Rank, len(a.Candidates), c.Cell().System, c.Cell().Centring)})
@@ -210,22 +210,24 @@ func correctionsText(a *analysis.Analysis) string {
 		return r.Corrections.String()
 	}
 	r := c.Refined
-	s := r.Corrections.String()
-	if r.Selection != nil && r.Selection.Averaged > 0 {
-		// Every correction compared is reported, averaged over the
-		// choice that the reason below names.
-		s = "reported: " + s
+	// The chosen model first, as the batch summary names it.
+	s := r.ChosenCorrections().String()
+	switch {
+	case r.StandardFit != nil:
+		s += fmt.Sprintf(", fixed by the internal standard %s (%d lines)", r.StandardFit.Standard.Name, r.StandardFit.Fitted)
+		if r.Selection != nil {
+			s += "; " + r.Selection.Reason()
+		}
+	case r.Selection != nil:
+		s = r.Selection.Reason()
+		if r.Selection.Averaged > 0 && r.Corrections != r.Selection.Chosen {
+			s += fmt.Sprintf("; reported: %s, each the mean over that choice", r.Corrections)
+		}
+	default:
+		s += "; fixed by the user"
 	}
 	if r.Corrections.Has(refine.Displacement) || r.Corrections.Has(refine.Transparency) {
-		s += fmt.Sprintf(" (goniometer radius %s mm)", ftoa(r.Radius))
-	}
-	if r.StandardFit != nil {
-		s += fmt.Sprintf(", fixed by the internal standard %s (%d lines)", r.StandardFit.Standard.Name, r.StandardFit.Fitted)
-	}
-	if r.Selection != nil {
-		s += "; " + r.Selection.Reason()
-	} else if r.StandardFit == nil {
-		s += "; fixed by the user"
+		s += fmt.Sprintf("; goniometer radius %s mm", ftoa(r.Radius))
 	}
 	return s
 }
@@ -545,4 +547,20 @@ func angles(v []float64) string {
 		r = append(r, fmt.Sprintf("%.4f°", x))
 	}
 	return strings.Join(r, ", ")
+}
+
+// linesText counts the peaks, the lines given to the indexing and those
+// the reported cell indexes, as the peak table shows them.
+func linesText(a *analysis.Analysis) string {
+	used := fmt.Sprintf("%d lines used (K-beta companions, rejected peaks and the standard's lines left out)", len(a.Lines))
+	if a.ChosenCandidate() == nil {
+		return fmt.Sprintf("%d peaks extracted, %s", len(a.Peaks), used)
+	}
+	n := 0
+	for _, r := range PeakRows(a) {
+		if r.Indexed {
+			n++
+		}
+	}
+	return fmt.Sprintf("%d peaks extracted; %d indexed by the reported cell, of %s", len(a.Peaks), n, used)
 }

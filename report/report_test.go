@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"os"
 	"os/exec"
@@ -138,7 +139,14 @@ func TestPDF(t *testing.T) {
 		text := pdfText(t, raw)
 		p := an.Candidates[0].Refined.Params[0]
 		a := esd.Format(p.Value, p.ESD)
-		for _, want := range []string{"Refined cell report: Kiln trial 07", a + " Å", an.Scan.SHA256, "2026-12-01", "Limitations", "Settings used", "M_N", "MgAl2O4"} {
+		rowsIndexed := 0
+		for _, r := range PeakRows(an) {
+			if r.Indexed {
+				rowsIndexed++
+			}
+		}
+		for _, want := range []string{"Refined cell report: Kiln trial 07", a + " Å", an.Scan.SHA256, "2026-12-01", "Limitations", "Settings used", "M_N", "MgAl2O4",
+			fmt.Sprintf("%d indexed by the reported cell", rowsIndexed)} {
 			if !strings.Contains(text, want) {
 				t.Errorf("%s: text layer lacks %q", paper, want)
 			}
