@@ -152,6 +152,14 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 			res.Solutions = append(res.Solutions, sol)
 		}
 	}
+	if sr.stopBy != nil && len(ranked) > 0 && !sameCell(ranked[0].c, sr.stopBy.c, 2e-3) {
+		// The cell that ended the search is not the one the full
+		// ranking puts first (a derivative lattice, or a cell of the
+		// strong lines): the sentence says both.
+		k := sr.stopBy
+		res.Stop = fmt.Sprintf("a cell of the higher systems, %s %s, explained the lines (M_N = %.1f with N = %d, every strong line indexed, positions within their esds), so lower systems were not searched; weighing every candidate then put %s %s first",
+			k.c.System, k.c.Centring, k.m, n, ranked[0].c.System, ranked[0].c.Centring)
+	}
 	if len(res.Solutions) > 0 {
 		if p := res.Solutions[0].Probability; p < clearLevel {
 			res.Warnings = append(res.Warnings, fmt.Sprintf("the first cell's probability is only %.0f %%: check the next candidates", 100*p))
@@ -165,6 +173,9 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 
 // A searcher runs the searches of one Index call.
 type searcher struct {
+	// stopBy is the cand whose figure ended the search after the higher
+	// systems, if one did.
+	stopBy   *cand
 	ctx      context.Context
 	o        Options
 	want     map[cell.System]bool
@@ -272,6 +283,7 @@ func (sr *searcher) run(ls []obs, res *Result, zones bool) ([]*cand, error) {
 	if len(ranked) > 0 && acceptable(ranked[0], o.ExploreLower) {
 		if res != nil {
 			res.Stop = fmt.Sprintf("%s %s explains the lines (M_N = %.1f with N = %d, every strong line indexed, positions within their esds); lower systems were not searched", ranked[0].c.System, ranked[0].c.Centring, ranked[0].m, n)
+			sr.stopBy = ranked[0]
 		}
 		for range sr.zeros {
 			sr.tick()
