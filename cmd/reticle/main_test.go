@@ -105,3 +105,29 @@ func TestIndexJSON(t *testing.T) {
 		t.Errorf("bad --systems: exit %d, %q", code, errs)
 	}
 }
+
+// TestOptionsAnywhere: options are read before, between and after the
+// file names; after "--" every argument is a file name.
+func TestOptionsAnywhere(t *testing.T) {
+	for _, c := range []struct {
+		args []string
+		code int
+		json bool
+	}{
+		{[]string{"peaks", "--json", demo}, 0, true},
+		{[]string{"peaks", demo, "--json"}, 0, true},
+		{[]string{"peaks", demo, "--threshold", "6", "--json"}, 0, true},
+		{[]string{"peaks", "--", demo}, 0, false},
+		{[]string{"peaks", demo, "--", "--json"}, 1, false}, // "--json" is a file name there, and missing
+		{[]string{"peaks", demo, "--bogus"}, 2, false},
+	} {
+		code, out, errs := runCmd(c.args...)
+		if code != c.code {
+			t.Errorf("%q: exit %d, want %d (%s)", c.args, code, c.code, errs)
+			continue
+		}
+		if code == 0 && strings.HasPrefix(strings.TrimSpace(out), "{") != c.json {
+			t.Errorf("%q: JSON %v, want %v", c.args, !c.json, c.json)
+		}
+	}
+}

@@ -284,14 +284,29 @@ func parse(c command, args []string, stderr io.Writer) (*request, []string, erro
 			fs.Func(o.name, o.help, f)
 		}
 	}
-	if err := fs.Parse(args); err != nil {
-		if err == flag.ErrHelp {
-			fmt.Fprint(stderr, help(c))
-			return nil, nil, errHelp
+	// Options may stand before, between and after the file names; "--"
+	// ends them (every later argument is a file name).
+	var files []string
+	for rest := args; ; {
+		if err := fs.Parse(rest); err != nil {
+			if err == flag.ErrHelp {
+				fmt.Fprint(stderr, help(c))
+				return nil, nil, errHelp
+			}
+			return nil, nil, fmt.Errorf("%s (see reticle %s --help)", optionError(err), commandNames[c])
 		}
-		return nil, nil, fmt.Errorf("%s (see reticle %s --help)", optionError(err), commandNames[c])
+		rem := fs.Args()
+		if used := len(rest) - len(rem); used > 0 && rest[used-1] == "--" {
+			files = append(files, rem...)
+			break
+		}
+		if len(rem) == 0 {
+			break
+		}
+		files = append(files, rem[0])
+		rest = rem[1:]
 	}
-	return r, fs.Args(), nil
+	return r, files, nil
 }
 
 // optionError rewrites the flag package's messages with the -- style
