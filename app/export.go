@@ -20,7 +20,7 @@ import (
 
 func (u *ui) exportStep() fyne.CanvasObject {
 	sample := widget.NewEntry()
-	sample.SetPlaceHolder("sample name for the records (default: the scan's file name)")
+	sample.SetPlaceHolder("sample name for the records (none: they name the scan by its file)")
 	sample.OnChanged = func(s string) { u.m.Settings.Sample = s }
 	write := widget.NewButtonWithIcon("Write the report (PDF, CIF, CSV, JSON)…", theme.DocumentSaveIcon(), u.reportDialog)
 	session := widget.NewButtonWithIcon("Save the session…", theme.DocumentSaveIcon(), u.saveSessionDialog)

@@ -103,6 +103,10 @@ func (u *ui) takeScreenshots(dir, name string) {
 			u.plot.setRange(lo+0.3*(hi-lo), lo+0.45*(hi-lo))
 		})
 		save("9-zoomed")
+		fyne.DoAndWait(u.settingsDialog)
+		save("10-settings")
+		fyne.DoAndWait(u.shortcutsDialog)
+		save("11-keyboard-and-mouse")
 		fyne.DoAndWait(func() {
 			u.clearAutosave()
 			u.app.Quit()

@@ -76,11 +76,18 @@ func TestSlowRun(t *testing.T) {
 	mu.Lock()
 	u.togglePeak(peak)
 	shown := rejectedShown(u, peak)
+	busy := u.busy.Visible()
 	mu.Unlock()
 	if !shown {
 		t.Fatalf("peak %d rejected during a run is not shown rejected at once", peak+1)
 	}
+	if !busy {
+		t.Error("the progress bar and Stop are hidden while a run goes on")
+	}
 	u.wait()
+	if u.busy.Visible() {
+		t.Error("the progress bar and Stop take room when no work runs")
+	}
 	if !rejectedShown(u, peak) {
 		t.Fatalf("the run that started before the edit shows peak %d accepted again", peak+1)
 	}

@@ -347,19 +347,10 @@ func (u *ui) cellsStep() fyne.CanvasObject {
 		u.refreshAll()
 		u.saveAutosave()
 	}
-	u.progBar = widget.NewProgressBarWithData(u.progress)
-	u.cancelBtn = widget.NewButton("Stop", func() {
-		u.mu.Lock()
-		if u.cancel != nil {
-			u.cancel()
-		}
-		u.mu.Unlock()
-	})
-	u.cancelBtn.Disable()
 	u.runBtn = widget.NewButton("Recompute (F5)", u.recompute)
 	u.autoLabel = widget.NewLabel("Cells follow every peak edit while a run takes under half a second. Select a row to show its ticks and indices.")
 	u.autoLabel.Wrapping = fyne.TextWrapWord
-	bar := container.NewBorder(nil, nil, nil, container.NewHBox(u.runBtn, u.cancelBtn), u.progBar)
+	bar := container.NewHBox(u.runBtn)
 	u.searchLabel = widget.NewLabel("")
 	u.searchLabel.Wrapping = fyne.TextWrapWord
 	return container.NewBorder(container.NewVBox(bar, u.autoLabel), u.searchLabel, nil, nil, u.cellTable)

@@ -15,7 +15,6 @@ import (
 	"fyne.io/fyne/v2/container"
 	"fyne.io/fyne/v2/data/binding"
 	"fyne.io/fyne/v2/dialog"
-	"fyne.io/fyne/v2/driver/desktop"
 	"fyne.io/fyne/v2/layout"
 	"fyne.io/fyne/v2/storage"
 	"fyne.io/fyne/v2/theme"
@@ -55,6 +54,7 @@ type ui struct {
 	resTable  *widget.Table
 	progress  binding.Float
 	progBar   *widget.ProgressBar
+	busy      *fyne.Container // the progress bar and Stop, shown while work runs
 	cancelBtn *widget.Button
 	runBtn    *widget.Button
 	autoLabel *widget.Label
@@ -156,33 +156,29 @@ func (u *ui) build() {
 		}
 	}
 	split := container.NewVSplit(top, u.tabs)
-	split.Offset = 0.55
-	u.win.SetContent(container.NewBorder(nil, u.status, nil, nil, split))
+	split.Offset = 0.45
+	// The progress of long work, with its Stop button, beside the
+	// status line while work runs; hidden (taking no room) otherwise.
+	u.progBar = widget.NewProgressBarWithData(u.progress)
+	u.cancelBtn = widget.NewButton("Stop", func() {
+		u.mu.Lock()
+		if u.cancel != nil {
+			u.cancel()
+		}
+		u.mu.Unlock()
+	})
+	u.busy = container.NewHBox(container.NewGridWrap(fyne.NewSize(240, u.cancelBtn.MinSize().Height), u.progBar), u.cancelBtn)
+	u.busy.Hide()
+	u.win.SetContent(container.NewBorder(nil, container.NewBorder(nil, nil, nil, u.busy, u.status), nil, nil, split))
 	u.win.SetOnDropped(func(_ fyne.Position, uris []fyne.URI) {
 		if len(uris) > 0 {
 			u.open(uris[0].Path())
 		}
 	})
+	u.win.SetMainMenu(u.mainMenu())
 	u.shortcuts()
 	u.updateButtons()
 	u.syncFields()
-}
-
-// shortcuts binds the keyboard.
-func (u *ui) shortcuts() {
-	c := u.win.Canvas()
-	add := func(k fyne.KeyName, mod fyne.KeyModifier, f func()) {
-		c.AddShortcut(&desktop.CustomShortcut{KeyName: k, Modifier: mod}, func(fyne.Shortcut) { f() })
-	}
-	ctrl := fyne.KeyModifierShortcutDefault
-	add(fyne.KeyZ, ctrl, u.undo)
-	add(fyne.KeyY, ctrl, u.redo)
-	add(fyne.KeyZ, ctrl|fyne.KeyModifierShift, u.redo)
-	add(fyne.KeyO, ctrl, u.openDialog)
-	add(fyne.KeyS, ctrl, u.saveSessionDialog)
-	add(fyne.KeyE, ctrl, u.reportDialog)
-	add(fyne.KeyR, ctrl, func() { u.plot.resetZoom() })
-	add(fyne.KeyF5, 0, func() { u.recompute() })
 }
 
 // setStatus shows a message in the status line.
@@ -256,7 +252,7 @@ func (u *ui) work(status string, job func(context.Context, analysis.Progress) er
 	u.mu.Unlock()
 	u.setStatus("%s", status)
 	u.progress.Set(0)
-	u.cancelBtn.Enable()
+	u.busy.Show()
 	u.running.Add(1)
 	go func() {
 		defer u.running.Done()
@@ -270,7 +266,7 @@ func (u *ui) work(status string, job func(context.Context, analysis.Progress) er
 			if !current {
 				return
 			}
-			u.cancelBtn.Disable()
+			u.busy.Hide()
 			done(err)
 		})
 	}()

@@ -11,6 +11,7 @@ import (
 	"fyne.io/fyne/v2/widget"
 
 	"reticle/internal/glossary"
+	"reticle/report"
 )
 
 // TestWindowVocabulary walks every step of the window with the demo open
@@ -48,6 +49,15 @@ func TestWindowVocabulary(t *testing.T) {
 			}
 		case *widget.Check:
 			names[w.Text] = true
+		case *widget.CheckGroup:
+			for _, opt := range w.Options {
+				names[opt] = true
+			}
+			return
+		case *widget.Label:
+			if w.TextStyle.Bold { // a heading of the settings
+				names[w.Text] = true
+			}
 		case *widget.Form:
 			for _, it := range w.Items {
 				names[it.Text] = true
@@ -73,6 +83,14 @@ func TestWindowVocabulary(t *testing.T) {
 		}
 	}
 	walk(u.win.Content())
+	// The menus and the settings dialog.
+	for _, m := range u.win.MainMenu().Items {
+		names[m.Label] = true
+		for _, it := range m.Items {
+			names[it.Label] = true
+		}
+	}
+	walk(widget.NewForm(newSettingsForm(u.m.Settings, report.A4).items()...))
 	delete(names, "")
 	for n := range names {
 		if !terms[n] {
