@@ -24,6 +24,19 @@ func slowly(u *ui, d time.Duration) {
 	}
 }
 
+// serialise makes the test's goroutine stand for the UI thread: what the
+// workers hand to the UI thread runs under the returned lock, which the
+// test holds for its own actions during a run.
+func serialise(u *ui) *sync.Mutex {
+	mu := new(sync.Mutex)
+	u.onUI = func(f func()) {
+		mu.Lock()
+		defer mu.Unlock()
+		f()
+	}
+	return mu
+}
+
 // rejectedShown reports whether the peak table shows peak i (0-based)
 // rejected: unticked, with "rejected" in its flags.
 func rejectedShown(u *ui, i int) bool {
@@ -39,15 +52,7 @@ func rejectedShown(u *ui, i int) bool {
 // run ends; the stale result says so, and a later run includes the edit.
 func TestSlowRun(t *testing.T) {
 	u := demoUI(t, "")
-	// The test's goroutine stands for the UI thread: what the workers
-	// hand to the UI thread runs under the same lock as the test's
-	// actions during a run.
-	var mu sync.Mutex
-	u.onUI = func(f func()) {
-		mu.Lock()
-		defer mu.Unlock()
-		f()
-	}
+	mu := serialise(u)
 	const peak = 2
 	if rejectedShown(u, peak) {
 		t.Fatalf("peak %d is rejected after opening", peak+1)
@@ -124,12 +129,7 @@ func TestSlowRun(t *testing.T) {
 // before the refinement has finished, and its result is shown after.
 func TestTypedCellOffUI(t *testing.T) {
 	u := demoUI(t, "")
-	var mu sync.Mutex
-	u.onUI = func(f func()) {
-		mu.Lock()
-		defer mu.Unlock()
-		f()
-	}
+	mu := serialise(u)
 	mu.Lock()
 	u.refineTyped("cubic F a=8.08")
 	before := u.paramsText.Text

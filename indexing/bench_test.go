@@ -23,18 +23,22 @@ func benchLines(b *testing.B, s cell.System, cen cell.Centring) ([]cell.Line, fl
 	return ls, lambda
 }
 
+// benchKinds are the lattices the benchmarks draw cells of, one per
+// system.
+var benchKinds = []struct {
+	s   cell.System
+	cen cell.Centring
+}{
+	{cell.Cubic, cell.F}, {cell.Tetragonal, cell.I}, {cell.Hexagonal, cell.P}, {cell.Rhombohedral, cell.R},
+	{cell.Orthorhombic, cell.P}, {cell.Monoclinic, cell.P}, {cell.Triclinic, cell.P},
+}
+
 // BenchmarkIndex20 times the default search on about 20 lines of a cell
 // of each system: the search stops after the higher systems when one of
 // them explains the lines, and goes on to the lower ones otherwise.
 // Compare with -cpu 1 for one core.
 func BenchmarkIndex20(b *testing.B) {
-	for _, c := range []struct {
-		s   cell.System
-		cen cell.Centring
-	}{
-		{cell.Cubic, cell.F}, {cell.Tetragonal, cell.I}, {cell.Hexagonal, cell.P}, {cell.Rhombohedral, cell.R},
-		{cell.Orthorhombic, cell.P}, {cell.Monoclinic, cell.P}, {cell.Triclinic, cell.P},
-	} {
+	for _, c := range benchKinds {
 		ls, lambda := benchLines(b, c.s, c.cen)
 		b.Run(c.s.String(), func(b *testing.B) {
 			for i := 0; i < b.N; i++ {
@@ -51,13 +55,7 @@ func BenchmarkIndex20(b *testing.B) {
 // fixed seeds) and reports the median and the slowest scan, seconds; run
 // it with -cpu 1 -benchtime 1x for one core.
 func BenchmarkIndexSpread(b *testing.B) {
-	for _, c := range []struct {
-		s   cell.System
-		cen cell.Centring
-	}{
-		{cell.Cubic, cell.F}, {cell.Tetragonal, cell.I}, {cell.Hexagonal, cell.P}, {cell.Rhombohedral, cell.R},
-		{cell.Orthorhombic, cell.P}, {cell.Monoclinic, cell.P}, {cell.Triclinic, cell.P},
-	} {
+	for _, c := range benchKinds {
 		const n = 15
 		type scan struct {
 			ls     []cell.Line
