@@ -13,16 +13,17 @@ import (
 	"reticle/indexing"
 	"reticle/peaks"
 	"reticle/refine"
+	"reticle/scanfile"
 )
 
 // An Analysis is the result of every stage for one scan.
 type Analysis struct {
-	Scan       *peaks.Scan
+	Scan       *scanfile.Scan
 	Extraction *Extraction
 	// Settings are those the analysis ran with, as given (see
 	// Settings.Resolved for the defaults used).
 	Settings  Settings
-	Radiation peaks.Radiation // the radiation the peaks were fitted with
+	Radiation scanfile.Radiation // the radiation the peaks were fitted with
 	// Peaks are every extracted and added peak, by 2θ, with the user's
 	// rejections.
 	Peaks []Peak
@@ -149,7 +150,7 @@ func (a *Analysis) Choose(k int) error {
 }
 
 // Run analyses a scan with the settings: Extract, then Analyse.
-func Run(ctx context.Context, scan *peaks.Scan, s Settings, progress Progress) (*Analysis, error) {
+func Run(ctx context.Context, scan *scanfile.Scan, s Settings, progress Progress) (*Analysis, error) {
 	e, err := Extract(ctx, scan, s, progress)
 	if err != nil {
 		return nil, err
@@ -167,8 +168,8 @@ func Open(ctx context.Context, path string, s Settings, progress Progress) (*Ana
 }
 
 // Read reads a scan file as the settings say (its CIF block).
-func Read(path string, s Settings) (*peaks.Scan, error) {
-	return peaks.ReadFileWith(path, peaks.ReadOptions{Block: s.Block})
+func Read(path string, s Settings) (*scanfile.Scan, error) {
+	return scanfile.ReadFileWith(path, scanfile.ReadOptions{Block: s.Block})
 }
 
 // Analyse runs the stages after the extraction: it indexes the peaks that
@@ -317,7 +318,7 @@ func RefineCell(ctx context.Context, e *Extraction, c cell.Cell, s Settings) (*r
 
 // radiationDisagrees says so when the settings give a wavelength that
 // differs (by more than 1e-4 relative) from the one the file states.
-func radiationDisagrees(scan *peaks.Scan, s Settings) string {
+func radiationDisagrees(scan *scanfile.Scan, s Settings) string {
 	if s.Radiation == nil || scan.Wavelength <= 0 {
 		return ""
 	}

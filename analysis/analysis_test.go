@@ -15,6 +15,7 @@ import (
 	"reticle/internal/synth"
 	"reticle/peaks"
 	"reticle/refine"
+	"reticle/scanfile"
 )
 
 const demoPath = "../assets/demo/kiln-trial-07.xy"
@@ -35,11 +36,11 @@ func demo(t testing.TB, s Settings) *Analysis {
 // simulated makes a scan of the phases with the instrument errors given,
 // through the project's generator (internal/synth) and the plain-text
 // reader.
-func simulated(t testing.TB, seed uint64, in synth.Instrument, phases ...synth.Phase) *peaks.Scan {
+func simulated(t testing.TB, seed uint64, in synth.Instrument, phases ...synth.Phase) *scanfile.Scan {
 	t.Helper()
 	in.Lambda1, in.Lambda2 = cuKa1, cuKa2
 	s := synth.Simulate(synth.Spec{Phases: phases, Instrument: in, From: 15, To: 120, Step: 0.02, Peak: 20000}, rand.New(rand.NewPCG(seed, 1)))
-	scan, err := peaks.Parse("simulated.xy", s.Text("simulated scan (internal/synth)\nAnode: Cu"))
+	scan, err := scanfile.Parse("simulated.xy", s.Text("simulated scan (internal/synth)\nAnode: Cu"))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -164,7 +165,7 @@ func TestSettingsJSON(t *testing.T) {
 	f, _ := density.ParseFormula("CuSO4·5H2O")
 	m, _ := density.ParseMeasured("2.28(1)")
 	si, _ := refine.ParseStandard("cubic F a=5.43119(1)")
-	r, _ := peaks.ParseRadiation("CoKa1")
+	r, _ := scanfile.ParseRadiation("CoKa1")
 	corr := refine.Zero | refine.Transparency
 	s := Settings{Sample: "kiln 7", Radiation: &r, Systems: []cell.System{cell.Cubic, cell.Monoclinic}, Corrections: &corr,
 		Scaling: refine.ScaleNever, Standard: &si, Formula: &f, Density: &m, Z: 2, Rejected: []float64{20.1}, Excluded: []float64{30}}

@@ -14,7 +14,7 @@ import (
 
 	"reticle/cell"
 	"reticle/internal/synth"
-	"reticle/peaks"
+	"reticle/scanfile"
 )
 
 var blindSeed = flag.Uint64("blind.seed", 0, "seed of TestBlind's long run (0: a fresh one, printed)")
@@ -147,14 +147,14 @@ func blindOne(lat synth.Lattice, seed uint64) blindResult {
 	if dir := os.Getenv("RETICLE_BLIND_DUMP"); dir != "" {
 		os.WriteFile(fmt.Sprintf("%s/blind-%d.xy", dir, seed), text, 0o644)
 	}
-	scan, err := peaks.Parse(fmt.Sprintf("blind-%d.xy", seed), text)
+	scan, err := scanfile.Parse(fmt.Sprintf("blind-%d.xy", seed), text)
 	if err != nil {
 		r.got = err.Error()
 		return r
 	}
-	rad := peaks.Radiation{Name: "Cu K-alpha1", Lambda1: cs.Lambda}
+	rad := scanfile.Radiation{Name: "Cu K-alpha1", Lambda1: cs.Lambda}
 	if cs.Doublet {
-		rad, _ = peaks.ParseRadiation("Cu")
+		rad, _ = scanfile.ParseRadiation("Cu")
 	}
 	a, err := Run(context.Background(), scan, Settings{Radiation: &rad}, nil)
 	if err != nil {

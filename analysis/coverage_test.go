@@ -11,7 +11,7 @@ import (
 
 	"reticle/cell"
 	"reticle/internal/synth"
-	"reticle/peaks"
+	"reticle/scanfile"
 )
 
 // TestCoverage is the Monte Carlo check of the default pipeline's esds:
@@ -54,7 +54,7 @@ func coverage(t *testing.T, clean bool) {
 		cell.Must(cell.Hexagonal, cell.P, 3.2094, 5.2108),
 		cell.Must(cell.Hexagonal, cell.P, 2.9508, 4.6855),
 	}
-	rad, err := peaks.ParseRadiation("Cu")
+	rad, err := scanfile.ParseRadiation("Cu")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -68,7 +68,7 @@ func coverage(t *testing.T, clean bool) {
 			in.Zero, in.Displacement = 0, 0
 		}
 		s := synth.Simulate(synth.Spec{Phases: []synth.Phase{{Cell: c}}, Instrument: in, From: 15, To: 120, Step: 0.02, Peak: 4000}, rng)
-		scan, err := peaks.Parse(fmt.Sprintf("coverage%03d.xy", i), s.Text("Monte Carlo scan (internal/synth)"))
+		scan, err := scanfile.Parse(fmt.Sprintf("coverage%03d.xy", i), s.Text("Monte Carlo scan (internal/synth)"))
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -6,6 +6,7 @@ import (
 	"sort"
 
 	"reticle/peaks"
+	"reticle/scanfile"
 )
 
 // An Extraction is a scan with its extracted peaks and the peaks the user
@@ -13,7 +14,7 @@ import (
 // the extraction. It is not safe for concurrent use; Clone gives a copy
 // that another goroutine may read.
 type Extraction struct {
-	Scan    *peaks.Scan
+	Scan    *scanfile.Scan
 	Result  *peaks.Result
 	Added   []peaks.Peak // user-added peaks, in the order added
 	Profile []float64    // the extraction's profile with the added peaks
@@ -21,7 +22,7 @@ type Extraction struct {
 
 // Extract runs the peak extraction of a scan with the settings, and fits
 // the peaks they add.
-func Extract(ctx context.Context, scan *peaks.Scan, s Settings, progress Progress) (*Extraction, error) {
+func Extract(ctx context.Context, scan *scanfile.Scan, s Settings, progress Progress) (*Extraction, error) {
 	if err := s.Check(); err != nil {
 		return nil, fmt.Errorf("%s: settings: %w", scan.Path, err)
 	}

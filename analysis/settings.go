@@ -11,6 +11,7 @@ import (
 	"reticle/indexing"
 	"reticle/peaks"
 	"reticle/refine"
+	"reticle/scanfile"
 )
 
 // EditTolerance is the distance, degrees 2θ, within which an edit's
@@ -30,10 +31,10 @@ type Settings struct {
 	Block string `json:"cif_block,omitempty"`
 
 	// Radiation is the incident spectrum; nil means what the scan
-	// states (peaks.Scan.Radiation).
-	Radiation *peaks.Radiation `json:"radiation,omitempty"`
+	// states (scanfile.Scan.Radiation).
+	Radiation *scanfile.Radiation `json:"radiation,omitempty"`
 	// KAlpha2Ratio is the K-alpha2/K-alpha1 intensity ratio of a
-	// doublet (peaks.DefaultKAlpha2Ratio).
+	// doublet (scanfile.DefaultKAlpha2Ratio).
 	KAlpha2Ratio float64 `json:"ka2_ratio,omitempty"`
 	// Threshold is the significance a peak must reach, in esds of its
 	// height (peaks.DefaultThreshold).
@@ -130,10 +131,10 @@ func (s Settings) Check() error {
 // Resolved returns the settings with every default filled in from the
 // stage that owns it, as the records print them; the radiation is the
 // one scan implies when none is set (it stays unset without a scan).
-func (s Settings) Resolved(scan *peaks.Scan) Settings {
+func (s Settings) Resolved(scan *scanfile.Scan) Settings {
 	s = s.Clone()
 	if scan == nil {
-		scan = &peaks.Scan{}
+		scan = &scanfile.Scan{}
 	}
 	po := s.peakOptions().Resolved(scan)
 	s.KAlpha2Ratio, s.Threshold, s.BackgroundWidth = po.KAlpha2Ratio, po.Threshold, po.BackgroundWidth

@@ -10,6 +10,7 @@ import (
 
 	"reticle/analysis"
 	"reticle/peaks"
+	"reticle/scanfile"
 	"reticle/session"
 )
 
@@ -65,7 +66,7 @@ func (m *Model) Opened(path string, ext *analysis.Extraction, s analysis.Setting
 }
 
 // Scan returns the open scan, or nil.
-func (m *Model) Scan() *peaks.Scan {
+func (m *Model) Scan() *scanfile.Scan {
 	if m.Ext == nil {
 		return nil
 	}

@@ -17,9 +17,9 @@ import (
 	"reticle/cell"
 	"reticle/density"
 	"reticle/esd"
-	"reticle/peaks"
 	"reticle/refine"
 	"reticle/report"
+	"reticle/scanfile"
 )
 
 // waveChoices are the radiation choices of the Scan step.
@@ -50,7 +50,7 @@ func (u *ui) scanStep() fyne.CanvasObject {
 	}
 	apply := widget.NewButton("Use this radiation", func() {
 		w := u.waveSel.Selected
-		var rad *peaks.Radiation
+		var rad *scanfile.Radiation
 		switch w {
 		case "from the file":
 			w = ""
@@ -58,7 +58,7 @@ func (u *ui) scanStep() fyne.CanvasObject {
 			w = strings.TrimSpace(u.waveEntry.Text)
 			fallthrough
 		default:
-			r, err := peaks.ParseRadiation(w)
+			r, err := scanfile.ParseRadiation(w)
 			if err != nil {
 				u.showError("The wavelength is not usable", err, "Type a wavelength in Å between 0.1 and 5, e.g. 1.5405929, or pick an anode.")
 				return

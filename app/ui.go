@@ -26,6 +26,7 @@ import (
 	"reticle/peaks"
 	"reticle/refine"
 	"reticle/report"
+	"reticle/scanfile"
 )
 
 var boxColour = color.NRGBA{0x00, 0x72, 0xb2, 0x40}
@@ -200,7 +201,7 @@ func (u *ui) showError(what string, err error, todo string) {
 func (u *ui) open(path string) {
 	var s analysis.Settings
 	if w := u.app.Preferences().String("wavelength"); w != "" {
-		if r, err := peaks.ParseRadiation(w); err == nil {
+		if r, err := scanfile.ParseRadiation(w); err == nil {
 			s.Radiation = &r
 		}
 	}

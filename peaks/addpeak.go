@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"math"
 	"sort"
+
+	"reticle/scanfile"
 )
 
 // ErrNoPeak: nothing significant where a peak was asked for.
@@ -19,15 +21,15 @@ var ErrNoPeak = errors.New("no significant peak there")
 // existing profile is held fixed. It returns the peak (flagged
 // FlagUser) and the profile with the peak included; the peak must reach
 // 3 esds of its height, else the error wraps ErrNoPeak.
-func FitAt(s *Scan, res *Result, twoTheta float64) (Peak, []float64, error) {
+func FitAt(s *scanfile.Scan, res *Result, twoTheta float64) (Peak, []float64, error) {
 	x, y := s.TwoTheta, s.Intensity
 	n := len(x)
-	if n < MinPoints || len(res.Profile) != n || len(res.Background) != n {
-		return Peak{}, nil, fmt.Errorf("peaks: FitAt needs the scan's own extraction: %w", ErrTooFew)
+	if n < scanfile.MinPoints || len(res.Profile) != n || len(res.Background) != n {
+		return Peak{}, nil, fmt.Errorf("peaks: FitAt needs the scan's own extraction: %w", scanfile.ErrTooFew)
 	}
 	lo, hi := s.Range()
 	if !(twoTheta > lo && twoTheta < hi) {
-		return Peak{}, nil, fmt.Errorf("peaks: %.4f° lies outside the scan (%.3f–%.3f°): %w", twoTheta, lo, hi, ErrOutOfRange)
+		return Peak{}, nil, fmt.Errorf("peaks: %.4f° lies outside the scan (%.3f–%.3f°): %w", twoTheta, lo, hi, scanfile.ErrOutOfRange)
 	}
 	w0 := res.FWHMCurve.At(twoTheta)
 	if !(w0 > 0) || math.IsInf(w0, 0) {

@@ -6,13 +6,15 @@ import (
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"reticle/scanfile"
 )
 
 // TestFitAt adds a weak line to a simulated scan after its extraction and
 // asks for it by pointing 0.03° beside it: the fitted position and height
 // match the simulation, and the profile grows by the line.
 func TestFitAt(t *testing.T) {
-	rad := SingleLine(1.5405929)
+	rad := scanfile.SingleLine(1.5405929)
 	x := grid(20, 80, 0.01)
 	rng := rand.New(rand.NewPCG(5, 9))
 	lines := []synthLine{{30, 5000, 0.1, 0.4}, {45, 3000, 0.11, 0.4}, {62, 4000, 0.12, 0.4}}
@@ -46,7 +48,7 @@ func TestFitAt(t *testing.T) {
 	if _, _, err := FitAt(s, res, 70); !errors.Is(err, ErrNoPeak) {
 		t.Errorf("empty spot: %v", err)
 	}
-	if _, _, err := FitAt(s, res, 95); !errors.Is(err, ErrOutOfRange) {
+	if _, _, err := FitAt(s, res, 95); !errors.Is(err, scanfile.ErrOutOfRange) {
 		t.Errorf("outside the scan: %v", err)
 	}
 }

@@ -2,6 +2,8 @@ package peaks
 
 import (
 	"math"
+
+	"reticle/internal/order"
 )
 
 // SNIP estimates a slowly varying background under peaks by the
@@ -204,5 +206,5 @@ func noiseScale(y, net, sigma []float64) float64 {
 	if len(t) < 20 {
 		return 1
 	}
-	return 1.4826 * nth(t, len(t)/2)
+	return 1.4826 * order.Nth(t, len(t)/2)
 }

@@ -6,6 +6,8 @@ import (
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"reticle/scanfile"
 )
 
 // benchScan returns the text of an n-point Cu doublet scan from 10° to 110°
@@ -27,7 +29,7 @@ func benchReadExtract(b *testing.B, n int) {
 	b.SetBytes(int64(len(data)))
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
-		s, err := Parse("bench.xy", data)
+		s, err := scanfile.Parse("bench.xy", data)
 		if err != nil {
 			b.Fatal(err)
 		}
@@ -55,7 +57,7 @@ func BenchmarkReadExtract(b *testing.B) {
 // a feature.
 func BenchmarkExtract(b *testing.B) {
 	for _, n := range []int{5_000, 100_000, 1_000_000} {
-		s, err := Parse("bench.xy", benchScan(n))
+		s, err := scanfile.Parse("bench.xy", benchScan(n))
 		if err != nil {
 			b.Fatal(err)
 		}
@@ -68,7 +70,7 @@ func BenchmarkExtract(b *testing.B) {
 			}
 		})
 	}
-	s, err := Parse("humps.xy", humpScan(1_000_000))
+	s, err := scanfile.Parse("humps.xy", humpScan(1_000_000))
 	if err != nil {
 		b.Fatal(err)
 	}
@@ -100,7 +102,7 @@ func BenchmarkRead(b *testing.B) {
 			b.ReportAllocs()
 			b.SetBytes(int64(len(data)))
 			for i := 0; i < b.N; i++ {
-				if _, err := Parse("bench.xy", data); err != nil {
+				if _, err := scanfile.Parse("bench.xy", data); err != nil {
 					b.Fatal(err)
 				}
 			}

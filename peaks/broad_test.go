@@ -9,6 +9,8 @@ import (
 
 	"reticle/cell"
 	"reticle/internal/synth"
+
+	"reticle/scanfile"
 )
 
 // TestBroadLinesFineStep: lines 0.5° wide on a 0.001° step (500 points
@@ -21,12 +23,12 @@ func TestBroadLinesFineStep(t *testing.T) {
 	ph := synth.Phase{Cell: cell.Must(cell.Cubic, cell.F, 5.6402)}
 	in := synth.Instrument{Lambda1: cu.Lambda1, U: 1e-9, V: 1e-9, W: 0.25}
 	s := synth.Simulate(synth.Spec{Phases: []synth.Phase{ph}, Instrument: in, From: 20, To: 120, Step: 0.001, Peak: 20000}, rand.New(rand.NewPCG(3, 9)))
-	scan, err := Parse("broad.xy", s.Text("broad lines on a fine step (internal/synth)"))
+	scan, err := scanfile.Parse("broad.xy", s.Text("broad lines on a fine step (internal/synth)"))
 	if err != nil {
 		t.Fatal(err)
 	}
 	start := time.Now()
-	res, err := Extract(context.Background(), scan, Options{Radiation: SingleLine(cu.Lambda1)}, nil)
+	res, err := Extract(context.Background(), scan, Options{Radiation: scanfile.SingleLine(cu.Lambda1)}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}

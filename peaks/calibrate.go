@@ -10,6 +10,8 @@ import (
 
 	"gonum.org/v1/gonum/floats"
 	"gonum.org/v1/gonum/stat/distuv"
+
+	"reticle/scanfile"
 )
 
 // The scan-wide profile parameters that no single line determines well
@@ -250,16 +252,16 @@ func calibrate(mds []*model, cs []*component, o Options) ([]*component, []string
 
 // anodeOfLine returns the anode whose K-alpha1 line a single-line
 // radiation is (within 2·10⁻⁴ Å, the precision files state it to).
-func anodeOfLine(r Radiation) (Anode, bool) {
+func anodeOfLine(r scanfile.Radiation) (scanfile.Anode, bool) {
 	if r.Doublet() {
-		return Anode{}, false
+		return scanfile.Anode{}, false
 	}
-	for _, a := range Anodes {
+	for _, a := range scanfile.Anodes {
 		if math.Abs(r.Lambda1-a.KAlpha1) <= 2e-4 {
 			return a, true
 		}
 	}
-	return Anode{}, false
+	return scanfile.Anode{}, false
 }
 
 // searchX returns the first index with x[i] ≥ v.

@@ -5,6 +5,8 @@ import (
 	"math"
 	"slices"
 	"sort"
+
+	"reticle/scanfile"
 )
 
 // estimateFWHM returns a rough FWHM in degrees 2θ: the lower quartile of
@@ -82,7 +84,7 @@ type candidate struct {
 // significance exceeds minZ. For a doublet the K-alpha2 part is first
 // stripped (Rachinger, J. Sci. Instrum. 25 (1948) 254) so that companions
 // do not show as maxima of their own.
-func detect(x, net, sigma []float64, rad Radiation, fwhm float64, minZ float64) []candidate {
+func detect(x, net, sigma []float64, rad scanfile.Radiation, fwhm float64, minZ float64) []candidate {
 	n := len(x)
 	step := (x[n-1] - x[0]) / float64(n-1)
 	h := max(2, int(0.6*fwhm/step+0.5))
@@ -187,7 +189,7 @@ func halfWidth(x, s []float64, i int) float64 {
 // strip removes the K-alpha2 part from smoothed net counts: working up in
 // angle, s1(x) = s(x) − R·s1(x′) where x′ is the K-alpha1 angle whose
 // K-alpha2 line falls at x. The variance grows accordingly.
-func strip(x, s, ss []float64, rad Radiation) ([]float64, []float64) {
+func strip(x, s, ss []float64, rad scanfile.Radiation) ([]float64, []float64) {
 	n := len(x)
 	s1 := make([]float64, n)
 	v1 := make([]float64, n)

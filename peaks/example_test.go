@@ -3,12 +3,12 @@ package peaks_test
 import (
 	"fmt"
 
-	"reticle/peaks"
+	"reticle/scanfile"
 )
 
 func ExampleParseRadiation() {
 	for _, s := range []string{"Cu", "MoKa1", "1.5406"} {
-		r, _ := peaks.ParseRadiation(s)
+		r, _ := scanfile.ParseRadiation(s)
 		fmt.Printf("%s: %.7f Å, doublet %v\n", r.Name, r.Lambda1, r.Doublet())
 	}
 	// Output:

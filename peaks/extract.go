@@ -9,6 +9,8 @@ import (
 	"sync"
 
 	"reticle/cell"
+
+	"reticle/scanfile"
 )
 
 // Defaults of the extraction options.
@@ -32,7 +34,7 @@ type Options struct {
 	// Radiation is the incident spectrum. Zero means the scan's stated
 	// wavelength as a single line, else the K-alpha doublet of the anode
 	// the scan names, else the Cu K-alpha doublet.
-	Radiation Radiation
+	Radiation scanfile.Radiation
 	// KAlpha2Ratio is the intensity of K-alpha2 relative to K-alpha1 of
 	// a doublet. Zero means DefaultKAlpha2Ratio.
 	KAlpha2Ratio float64
@@ -55,14 +57,14 @@ type Options struct {
 // Resolved returns the options with their defaults filled in for scan
 // s: the radiation the scan implies, the K-alpha2 ratio applied to a
 // doublet, and every zero field at its default.
-func (o Options) Resolved(s *Scan) Options { return o.withDefaults(s) }
+func (o Options) Resolved(s *scanfile.Scan) Options { return o.withDefaults(s) }
 
-func (o Options) withDefaults(s *Scan) Options {
+func (o Options) withDefaults(s *scanfile.Scan) Options {
 	if o.Radiation.Lambda1 == 0 {
 		o.Radiation = s.Radiation()
 	}
 	if o.KAlpha2Ratio == 0 {
-		o.KAlpha2Ratio = DefaultKAlpha2Ratio
+		o.KAlpha2Ratio = scanfile.DefaultKAlpha2Ratio
 	}
 	if o.Radiation.Doublet() {
 		o.Radiation.Ratio2 = o.KAlpha2Ratio
@@ -84,13 +86,13 @@ func (o Options) withDefaults(s *Scan) Options {
 
 // Result is the outcome of Extract.
 type Result struct {
-	Peaks      []Peak    // sorted by 2θ
-	Radiation  Radiation // the radiation the peaks were fitted with
-	Background []float64 // background under every point of the scan, counts
-	Profile    []float64 // background plus all fitted profiles at every point
-	FWHMCurve  Caglioti  // width curve of the well-determined peaks
-	Eta        float64   // median mixing of the well-determined peaks
-	Asymmetry  Asymmetry // asymmetry law of the well-determined peaks
+	Peaks      []Peak             // sorted by 2θ
+	Radiation  scanfile.Radiation // the radiation the peaks were fitted with
+	Background []float64          // background under every point of the scan, counts
+	Profile    []float64          // background plus all fitted profiles at every point
+	FWHMCurve  Caglioti           // width curve of the well-determined peaks
+	Eta        float64            // median mixing of the well-determined peaks
+	Asymmetry  Asymmetry          // asymmetry law of the well-determined peaks
 	// TailRatio is the ratio of the Lorentzian to the Gaussian width of
 	// the lines (see tailedVoigt): 1 for plain pseudo-Voigt lines.
 	TailRatio float64
@@ -107,13 +109,13 @@ type Result struct {
 // Extract finds and fits the peaks of a scan. It can be cancelled through
 // ctx and reports progress (groups fitted) through progress, which may be
 // nil.
-func Extract(ctx context.Context, s *Scan, opt Options, progress func(done, total int)) (*Result, error) {
-	if s.Len() < MinPoints {
-		return nil, fmt.Errorf("peaks: scan %s: %w", s.Path, ErrTooFew)
+func Extract(ctx context.Context, s *scanfile.Scan, opt Options, progress func(done, total int)) (*Result, error) {
+	if s.Len() < scanfile.MinPoints {
+		return nil, fmt.Errorf("peaks: scan %s: %w", s.Path, scanfile.ErrTooFew)
 	}
 	o := opt.withDefaults(s)
 	if o.Radiation.Lambda1 < 0.1 || o.Radiation.Lambda1 > 5 {
-		return nil, fmt.Errorf("peaks: wavelength %g Å: %w", o.Radiation.Lambda1, ErrUnknownLine)
+		return nil, fmt.Errorf("peaks: wavelength %g Å: %w", o.Radiation.Lambda1, scanfile.ErrUnknownLine)
 	}
 	x, y := s.TwoTheta, s.Intensity
 	n := len(x)

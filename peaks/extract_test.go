@@ -8,9 +8,11 @@ import (
 	"reflect"
 	"sort"
 	"testing"
+
+	"reticle/scanfile"
 )
 
-var cu = func() Radiation { a, _ := LookupAnode("Cu"); return AnodeRadiation(a) }()
+var cu = func() scanfile.Radiation { a, _ := scanfile.LookupAnode("Cu"); return scanfile.AnodeRadiation(a) }()
 
 // TestExtractAccuracyAndHonestESD: isolated peaks of 1,000 to 20,000 counts,
 // single line and Cu doublet, over 1,000 noise draws. The median position
@@ -26,7 +28,7 @@ func TestExtractAccuracyAndHonestESD(t *testing.T) {
 	var errs, ratios []float64
 	missed, spurious := 0, 0
 	for d := 0; d < draws; d++ {
-		rad := SingleLine(cu.Lambda1)
+		rad := scanfile.SingleLine(cu.Lambda1)
 		if d%2 == 1 {
 			rad = cu
 		}

@@ -5,6 +5,8 @@ import (
 	"sort"
 
 	"reticle/cell"
+
+	"reticle/scanfile"
 )
 
 // A component is one peak being fitted: its current parameters and esds.
@@ -26,7 +28,7 @@ type component struct {
 // model is what a group's peaks are drawn with.
 type model struct {
 	x, y, w, bg []float64 // data, weights 1/σ², background
-	rad         Radiation
+	rad         scanfile.Radiation
 	tail        float64 // ratio of the Lorentzian to the Gaussian width (see tailedVoigt); 0 means 1
 	// chiTol, when set, ends a fit once χ² falls by less (see
 	// lsqProblem); the calibration's trial fits compare χ² to about 0.01.

@@ -3,6 +3,8 @@ package peaks
 import (
 	"math"
 	"sort"
+
+	"reticle/scanfile"
 )
 
 // kbetaSlack is the factor by which a line's K-beta ratio may differ from
@@ -35,7 +37,7 @@ const kbetaClear = 10
 // that the ratio predicts clearly; else the candidates are real lines
 // that happen to sit there and none is flagged. A radiation without a K-beta line (a monochromated scan) has
 // no companions.
-func flagKBeta(ps []Peak, rad Radiation, lo, hi float64) float64 {
+func flagKBeta(ps []Peak, rad scanfile.Radiation, lo, hi float64) float64 {
 	if rad.KBeta == 0 {
 		return 0
 	}
@@ -143,7 +145,7 @@ const edgeMaxRatio = 0.02
 // is not a line. Only the
 // lines of at least a fifth of the strongest height scatter enough white
 // radiation for a visible step.
-func flagFilterEdge(ps []Peak, rad Radiation) {
+func flagFilterEdge(ps []Peak, rad scanfile.Radiation) {
 	if rad.Edge == 0 {
 		return
 	}

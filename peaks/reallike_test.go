@@ -8,6 +8,8 @@ import (
 
 	"reticle/cell"
 	"reticle/internal/synth"
+
+	"reticle/scanfile"
 )
 
 // The scans of these tests are made by the project's generator
@@ -24,13 +26,13 @@ func realLike(t *testing.T, seed uint64, in *synth.Instrument, peak float64, bg 
 	}
 	ph := synth.Phase{Cell: cell.Must(cell.Tetragonal, cell.I, 3.98, 9.55)}
 	s := synth.Simulate(synth.Spec{Phases: []synth.Phase{ph}, Instrument: *in, From: 10, To: 120, Step: 0.015, Peak: peak, Background: bg}, rand.New(rand.NewPCG(seed, 7)))
-	scan, err := Parse("reallike.xy", s.Text("simulated laboratory scan (internal/synth)"))
+	scan, err := scanfile.Parse("reallike.xy", s.Text("simulated laboratory scan (internal/synth)"))
 	if err != nil {
 		t.Fatal(err)
 	}
 	rad := cu
 	if in.Lambda2 == 0 || in.Ratio2 < 0.4 {
-		rad = SingleLine(in.Lambda1)
+		rad = scanfile.SingleLine(in.Lambda1)
 		rad.KBeta = in.KBeta
 	}
 	res, err := Extract(context.Background(), scan, Options{Radiation: rad}, nil)
@@ -184,11 +186,11 @@ func TestSynchrotronScan(t *testing.T) {
 	ph := synth.Phase{Cell: cell.Must(cell.Tetragonal, cell.I, 3.98, 9.55)}
 	s := synth.Simulate(synth.Spec{Phases: []synth.Phase{ph}, Instrument: in, From: 2, To: 40, Step: 0.002, Peak: 50000,
 		Background: func(x float64) float64 { return 200 }}, rand.New(rand.NewPCG(9, 7)))
-	scan, err := Parse("synchrotron.xy", s.Text("simulated synchrotron scan (internal/synth)"))
+	scan, err := scanfile.Parse("synchrotron.xy", s.Text("simulated synchrotron scan (internal/synth)"))
 	if err != nil {
 		t.Fatal(err)
 	}
-	res, err := Extract(context.Background(), scan, Options{Radiation: SingleLine(0.41)}, nil)
+	res, err := Extract(context.Background(), scan, Options{Radiation: scanfile.SingleLine(0.41)}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -334,7 +336,7 @@ func TestUnresolvedPairsSplit(t *testing.T) {
 	in := synth.Instrument{Lambda1: cu.Lambda1, Lambda2: cu.Lambda2, Ratio2: 0.5, U: 0.01, V: -0.004, W: 0.006}
 	ph := synth.Phase{Cell: cell.Must(cell.Tetragonal, cell.P, 4.0, 4.03)}
 	s := synth.Simulate(synth.Spec{Phases: []synth.Phase{ph}, Instrument: in, From: 15, To: 120, Step: 0.01, Peak: 50000}, rand.New(rand.NewPCG(11, 7)))
-	scan, err := Parse("pairs.xy", s.Text("simulated pseudo-cubic scan (internal/synth)"))
+	scan, err := scanfile.Parse("pairs.xy", s.Text("simulated pseudo-cubic scan (internal/synth)"))
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -6,6 +6,8 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distuv"
+
+	"reticle/internal/order"
 )
 
 // Caglioti is the instrumental width curve FWHM² = U tan²θ + V tanθ + W
@@ -220,7 +222,7 @@ func shapeCurve(md *model, cs []*component, o Options, fwhm0 float64) (Caglioti,
 func median(v []float64) float64 {
 	s := append([]float64(nil), v...)
 	n := len(s)
-	hi := nth(s, n/2)
+	hi := order.Nth(s, n/2)
 	if n%2 == 1 {
 		return hi
 	}

@@ -5,6 +5,8 @@ import (
 	"math"
 	"math/rand/v2"
 	"strings"
+
+	"reticle/scanfile"
 )
 
 // A synthLine is one reflection of a simulated scan.
@@ -17,7 +19,7 @@ type synthLine struct {
 // kbeta of the height), with Poisson noise when rng is not nil. The
 // simulation is invented test data; it shares only the textbook pseudo-Voigt
 // formula with the fitter.
-func synthScan(x []float64, lines []synthLine, rad Radiation, bg0, kbeta float64, rng *rand.Rand) []float64 {
+func synthScan(x []float64, lines []synthLine, rad scanfile.Radiation, bg0, kbeta float64, rng *rand.Rand) []float64 {
 	y := make([]float64, len(x))
 	for i, xi := range x {
 		m := bg0 * (1 + 0.3*(xi-x[0])/(x[len(x)-1]-x[0]))
@@ -78,8 +80,8 @@ func grid(lo, hi, step float64) []float64 {
 }
 
 // scanOf builds a Scan directly from points.
-func scanOf(x, y []float64) *Scan {
-	return &Scan{Path: "synthetic", TwoTheta: x, Intensity: y}
+func scanOf(x, y []float64) *scanfile.Scan {
+	return &scanfile.Scan{Path: "synthetic", TwoTheta: x, Intensity: y}
 }
 
 // xyText writes points as a whitespace two-column export.

@@ -10,6 +10,7 @@ import (
 	"reticle/indexing"
 	"reticle/peaks"
 	"reticle/refine"
+	"reticle/scanfile"
 )
 
 // Schema is the version of the Document's JSON layout.
@@ -83,7 +84,7 @@ type ScanInfo struct {
 }
 
 // NewScanInfo describes a scan read with the given radiation.
-func NewScanInfo(s *peaks.Scan, r peaks.Radiation) ScanInfo {
+func NewScanInfo(s *scanfile.Scan, r scanfile.Radiation) ScanInfo {
 	lo, hi := s.Range()
 	return ScanInfo{File: s.Path, SHA256: s.SHA256, Points: s.Len(), Range: [2]float64{lo, hi}, Step: s.Step(), Radiation: r.Name, Wavelength: r.Lambda1}
 }

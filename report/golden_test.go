@@ -16,8 +16,8 @@ import (
 	"reticle/cell"
 	"reticle/density"
 	"reticle/indexing"
-	"reticle/peaks"
 	"reticle/refine"
+	"reticle/scanfile"
 )
 
 var regen = flag.Bool("regen", false, "rewrite the golden CIF in testdata/reference (then rerun its gemmi script)")
@@ -40,7 +40,7 @@ var goldenDate = time.Date(2026, 12, 1, 12, 0, 0, 0, time.UTC)
 
 func demoAnalysis(t testing.TB) *analysis.Analysis {
 	t.Helper()
-	scan, err := peaks.ReadFile(demoPath)
+	scan, err := scanfile.ReadFile(demoPath)
 	if err != nil {
 		t.Fatal(err)
 	}

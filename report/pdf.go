@@ -23,8 +23,8 @@ import (
 	"reticle/cell"
 	"reticle/esd"
 	"reticle/figure"
-	"reticle/peaks"
 	"reticle/refine"
+	"reticle/scanfile"
 )
 
 // A Paper is a page size.
@@ -486,7 +486,7 @@ func (x *pdfWriter) settings(a *analysis.Analysis) {
 // CommandOptions returns the settings of an analysis as the options of
 // reticle report that rebuild it (every setting, defaults resolved), in
 // the order of its help: each an option and its value.
-func CommandOptions(set analysis.Settings, scan *peaks.Scan) [][2]string {
+func CommandOptions(set analysis.Settings, scan *scanfile.Scan) [][2]string {
 	s := set.Resolved(scan)
 	var systems []string
 	for _, sys := range s.Systems {

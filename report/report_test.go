@@ -17,7 +17,7 @@ import (
 	"reticle/analysis"
 	"reticle/cell"
 	"reticle/esd"
-	"reticle/peaks"
+	"reticle/scanfile"
 )
 
 // TestDemoTruth checks the demo's refined cell against the value the
@@ -47,7 +47,7 @@ func TestDemoTruth(t *testing.T) {
 // chosen from the data) the demo's cell is within two esds of the
 // generator's 8.083 Å too, and the choice is recorded.
 func TestDemoTruthDefaults(t *testing.T) {
-	scan, err := peaks.ReadFile(demoPath)
+	scan, err := scanfile.ReadFile(demoPath)
 	if err != nil {
 		t.Fatal(err)
 	}

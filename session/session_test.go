@@ -11,8 +11,8 @@ import (
 
 	"reticle/analysis"
 	"reticle/density"
-	"reticle/peaks"
 	"reticle/report"
+	"reticle/scanfile"
 )
 
 // FuzzRead: any file either fails with an error or reads into a
@@ -59,7 +59,7 @@ func TestRoundTrip(t *testing.T) {
 	if err != nil || !reflect.DeepEqual(got, s) {
 		t.Errorf("read back %+v, %v", got, err)
 	}
-	scan, err := peaks.ReadFile("../assets/demo/kiln-trial-07.xy")
+	scan, err := scanfile.ReadFile("../assets/demo/kiln-trial-07.xy")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -11,8 +11,8 @@ import (
 	"reticle/analysis"
 	"reticle/cell"
 	"reticle/esd"
-	"reticle/peaks"
 	"reticle/report"
+	"reticle/scanfile"
 )
 
 func cmdIndexRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
@@ -64,7 +64,7 @@ func analyse(ctx context.Context, path string, s analysis.Settings) (a *analysis
 	scan, err := analysis.Read(path, s)
 	if err != nil {
 		if data, rerr := os.ReadFile(path); rerr == nil {
-			sha = peaks.Digest(data)
+			sha = scanfile.Digest(data)
 		}
 		return nil, sha, err
 	}

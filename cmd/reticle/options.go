@@ -14,6 +14,7 @@ import (
 	"reticle/indexing"
 	"reticle/peaks"
 	"reticle/refine"
+	"reticle/scanfile"
 )
 
 // A command is a subcommand, as a bit of the set of commands an option
@@ -80,7 +81,7 @@ var options = []option{
 	{name: "wavelength", arg: "W", in: scanCommands, def: "the file's, else Cu",
 		help: "radiation: an anode (Cu, Co, Cr, Fe, Mo, Ag: its K-alpha doublet), an anode with Ka1 (CuKa1: K-alpha1 only) or a wavelength in Å",
 		set: func(r *request, v string) error {
-			rad, err := peaks.ParseRadiation(v)
+			rad, err := scanfile.ParseRadiation(v)
 			if err != nil {
 				return err
 			}
@@ -90,7 +91,7 @@ var options = []option{
 	{name: "block", arg: "NAME", in: scanCommands, def: "the block with the measured pattern",
 		help: "data block of a CIF file to read",
 		set:  func(r *request, v string) error { r.settings.Block = v; return nil }},
-	{name: "ka2-ratio", arg: "R", in: scanCommands, def: ftoa(peaks.DefaultKAlpha2Ratio),
+	{name: "ka2-ratio", arg: "R", in: scanCommands, def: ftoa(scanfile.DefaultKAlpha2Ratio),
 		help: "K-alpha2/K-alpha1 intensity ratio of a doublet",
 		set:  floatOpt(func(r *request) *float64 { return &r.settings.KAlpha2Ratio }, func(x float64) bool { return x > 0 && x <= 1 }, "a ratio above 0, at most 1")},
 	{name: "threshold", arg: "Z", in: scanCommands, def: ftoa(peaks.DefaultThreshold),

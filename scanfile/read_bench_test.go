@@ -1,4 +1,4 @@
-package peaks
+package scanfile
 
 import (
 	"path/filepath"

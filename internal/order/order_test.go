@@ -1,4 +1,4 @@
-package peaks
+package order
 
 import (
 	"math/rand/v2"
@@ -25,8 +25,8 @@ func TestNth(t *testing.T) {
 			sorted := slices.Sorted(slices.Values(v))
 			for _, k := range []int{0, n / 4, n / 2, n - 1} {
 				w := slices.Clone(v)
-				if got := nth(w, k); got != sorted[k] {
-					t.Errorf("%s, n = %d: nth(%d) = %g, sorting gives %g", name, n, k, got, sorted[k])
+				if got := Nth(w, k); got != sorted[k] {
+					t.Errorf("%s, n = %d: Nth(%d) = %g, sorting gives %g", name, n, k, got, sorted[k])
 				}
 			}
 		}
@@ -42,6 +42,6 @@ func BenchmarkNth(b *testing.B) {
 	w := make([]float64, len(v))
 	for b.Loop() {
 		copy(w, v)
-		nth(w, len(w)/2)
+		Nth(w, len(w)/2)
 	}
 }

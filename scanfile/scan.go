@@ -1,10 +1,12 @@
-package peaks
+package scanfile
 
 import (
 	"fmt"
 	"math"
 	"sort"
 	"strconv"
+
+	"reticle/internal/order"
 )
 
 // MinPoints is the fewest points a scan may have; fewer cannot hold a
@@ -71,7 +73,7 @@ func (s *Scan) Step() float64 {
 	for i := 1; i < n; i++ {
 		d[i-1] = s.TwoTheta[i] - s.TwoTheta[i-1]
 	}
-	return nth(d, len(d)/2)
+	return order.Nth(d, len(d)/2)
 }
 
 // Sigma returns the standard deviation of point i: the esd column when
@@ -247,7 +249,7 @@ func (s *Scan) checkNoise(net bool) {
 		if len(t) == 0 {
 			return math.NaN()
 		}
-		return 1.4826 * nth(t, len(t)/2)
+		return 1.4826 * order.Nth(t, len(t)/2)
 	}
 	counts := spread(func(i int) float64 { return math.Sqrt(math.Max(s.Intensity[i], 1)) })
 	constant := spread(func(int) float64 { return 1 })

@@ -1,13 +1,14 @@
-package peaks
+// Package order selects order statistics (the k-th smallest value) without sorting.
+package order
 
 import "slices"
 
-// nth returns the value of rank k (0-based) of v, the element that
+// Nth returns the value of rank k (0-based) of v, the element that
 // sorting v would put at index k. It reorders v. The selection is
 // Hoare's (quickselect) with a median-of-three pivot, linear on average;
 // a range that has not shrunk fast enough is sorted instead, so the worst
 // case stays n log n.
-func nth(v []float64, k int) float64 {
+func Nth(v []float64, k int) float64 {
 	lo, hi := 0, len(v)-1
 	for rounds := 0; lo < hi; rounds++ {
 		if rounds > 48 {
