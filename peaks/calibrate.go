@@ -24,7 +24,7 @@ import (
 // lines imperfectly).
 const calLevel = 0.001
 
-// tailTrials are the trial tail ratios τ (see tailedVoigt).
+// tailTrials are the trial tail ratios τ (the tailed pseudo-Voigt of package profile).
 var tailTrials = []float64{1, 1.2, 1.4, 1.6, 1.8, 2, 2.5, 3, 4}
 
 // residueTrials are the trial K-alpha2 intensity ratios of a scan

@@ -11,6 +11,8 @@ import (
 	"reticle/cell"
 
 	"reticle/scanfile"
+
+	"reticle/profile"
 )
 
 // Defaults of the extraction options.
@@ -25,7 +27,7 @@ const (
 )
 
 // passOneChiTol is the decrease of χ² that ends a fit of the first pass
-// (see lsqProblem.chiTol).
+// (see profile.Problem.ChiTol).
 const passOneChiTol = 0.001
 
 // Options control peak extraction. The zero value of every field means
@@ -90,11 +92,11 @@ type Result struct {
 	Radiation  scanfile.Radiation // the radiation the peaks were fitted with
 	Background []float64          // background under every point of the scan, counts
 	Profile    []float64          // background plus all fitted profiles at every point
-	FWHMCurve  Caglioti           // width curve of the well-determined peaks
+	FWHMCurve  profile.Caglioti   // width curve of the well-determined peaks
 	Eta        float64            // median mixing of the well-determined peaks
-	Asymmetry  Asymmetry          // asymmetry law of the well-determined peaks
+	Asymmetry  profile.Asymmetry  // asymmetry law of the well-determined peaks
 	// TailRatio is the ratio of the Lorentzian to the Gaussian width of
-	// the lines (see tailedVoigt): 1 for plain pseudo-Voigt lines.
+	// the lines (the tailed pseudo-Voigt of package profile): 1 for plain pseudo-Voigt lines.
 	TailRatio float64
 	// KBetaRatio is the scan's K-beta to K-alpha1 area ratio, estimated
 	// from the lines at the K-beta positions of stronger lines; zero when
@@ -470,14 +472,14 @@ func peaksOf(md *model, cs []*component) []Peak {
 		// With wide wings (tail ratio τ) the Lorentzian part's area grows
 		// by τ and the width at half maximum is that of the sum.
 		tail := md.tailRatio()
-		f := areaFactor(c.eta) + c.eta*(tail-1)*math.Pi/2
+		f := profile.AreaFactor(c.eta) + c.eta*(tail-1)*math.Pi/2
 		area := c.h * c.w * f
 		// Area esd to first order from the height, width and mixing esds
 		// (their correlations neglected).
-		sa := math.Sqrt(sq(c.sh*c.w*f) + sq(c.h*c.sw*f) + sq(c.h*c.w*(tail*math.Pi/2-math.Sqrt(math.Pi/(4*ln2)))*c.seta))
+		sa := math.Sqrt(sq(c.sh*c.w*f) + sq(c.h*c.sw*f) + sq(c.h*c.w*(tail*math.Pi/2-math.Sqrt(math.Pi/(4*math.Ln2)))*c.seta))
 		fw, sfw := c.w, c.sw
 		if tail != 1 {
-			fw = tailedFWHM(c.w, c.eta, tail)
+			fw = profile.TailedFWHM(c.w, c.eta, tail)
 			sfw = c.sw * fw / c.w
 		}
 		i := sort.SearchFloat64s(md.x, c.x)

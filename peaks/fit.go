@@ -7,6 +7,8 @@ import (
 	"reticle/cell"
 
 	"reticle/scanfile"
+
+	"reticle/profile"
 )
 
 // A component is one peak being fitted: its current parameters and esds.
@@ -31,7 +33,7 @@ type model struct {
 	rad         scanfile.Radiation
 	tail        float64 // ratio of the Lorentzian to the Gaussian width (see tailedVoigt); 0 means 1
 	// chiTol, when set, ends a fit once χ² falls by less (see
-	// lsqProblem); the calibration's trial fits compare χ² to about 0.01.
+	// profile.Problem); the calibration's trial fits compare χ² to about 0.01.
 	chiTol float64
 }
 
@@ -60,9 +62,9 @@ func (md *model) addProfile(out []float64, lo, hi int, c *component) {
 	r := md.rad.Ratio2
 	tail := md.tailRatio()
 	at := func(x float64) float64 {
-		f := lineShape(x, c.x, c.w, c.eta, c.asym, tail)
+		f := profile.LineShape(x, c.x, c.w, c.eta, c.asym, tail)
 		if dbl {
-			f += r * lineShape(x, x2, c.w, c.eta, c.asym, tail)
+			f += r * profile.LineShape(x, x2, c.w, c.eta, c.asym, tail)
 		}
 		return c.h * f
 	}
@@ -123,7 +125,7 @@ func (md *model) fitGroup(cs []*component, lo, hi int, base []float64) float64 {
 		lob[j+1], hib[j+1] = 0, math.Inf(1)
 		lob[j+2], hib[j+2] = math.Max(0.3*c.w, 0.8*step), 3*c.w
 		lob[j+3], hib[j+3] = 0, 1
-		lob[j+4], hib[j+4] = -maxAsym, maxAsym
+		lob[j+4], hib[j+4] = -profile.MaxAsym, profile.MaxAsym
 		p0[j+4] = math.Min(math.Max(p0[j+4], lob[j+4]), hib[j+4])
 		free[j], free[j+1] = true, true
 		free[j+2], free[j+3] = !c.fixedShape, !c.fixedShape
@@ -159,9 +161,9 @@ func (md *model) fitGroup(cs []*component, lo, hi int, base []float64) float64 {
 			b := sort.SearchFloat64s(xs, math.Min(x2, x0+3)+15*tail*w)
 			if jac == nil {
 				for i := a; i < b; i++ {
-					f := lineShape(xs[i], x0, w, eta, as, tail)
+					f := profile.LineShape(xs[i], x0, w, eta, as, tail)
 					if dbl {
-						f += r * lineShape(xs[i], x2, w, eta, as, tail)
+						f += r * profile.LineShape(xs[i], x2, w, eta, as, tail)
 					}
 					m[i] += h * f
 				}
@@ -175,9 +177,9 @@ func (md *model) fitGroup(cs []*component, lo, hi int, base []float64) float64 {
 			}
 			for i := a; i < b; i++ {
 				xi := xs[i]
-				f, dx, dw, de, da := lineGrad(xi, x0, w, eta, as, tail)
+				f, dx, dw, de, da := profile.LineGrad(xi, x0, w, eta, as, tail)
 				if dbl {
-					f2, dx2i, dw2, de2, da2 := lineGrad(xi, x2, w, eta, as, tail)
+					f2, dx2i, dw2, de2, da2 := profile.LineGrad(xi, x2, w, eta, as, tail)
 					f += r * f2
 					dx += r * dx2i * dx2
 					dw += r * dw2
@@ -190,8 +192,8 @@ func (md *model) fitGroup(cs []*component, lo, hi int, base []float64) float64 {
 			}
 		}
 	}
-	prob := &lsqProblem{y: y, w: wts, eval: eval, lo: lob, hi: hib, free: free, chiTol: md.chiTol}
-	res, err := levenbergMarquardt(prob, p0, 40)
+	prob := &profile.Problem{Y: y, W: wts, Eval: eval, Lo: lob, Hi: hib, Free: free, ChiTol: md.chiTol}
+	res, err := profile.LevenbergMarquardt(prob, p0, 40)
 	if err != nil {
 		for _, c := range cs {
 			c.sx, c.sh = math.Inf(1), math.Inf(1)
@@ -199,21 +201,21 @@ func (md *model) fitGroup(cs []*component, lo, hi int, base []float64) float64 {
 		return 1
 	}
 	red := 1.0
-	if res.dof > 0 {
-		red = res.chi2 / float64(res.dof)
+	if res.DOF > 0 {
+		red = res.Chi2 / float64(res.DOF)
 	}
 	// Scale the covariance by the reduced χ² when the fit is worse than the
 	// counting statistics allow (never shrink it below them).
 	scale := math.Max(red, 1)
-	sd := func(j int) float64 { return math.Sqrt(math.Max(res.cov.At(j, j), 0) * scale) }
+	sd := func(j int) float64 { return math.Sqrt(math.Max(res.Cov.At(j, j), 0) * scale) }
 	for k, c := range cs {
 		j := 2 + per*k
-		c.x, c.h, c.w, c.eta, c.asym = res.p[j], res.p[j+1], res.p[j+2], res.p[j+3], res.p[j+4]
+		c.x, c.h, c.w, c.eta, c.asym = res.P[j], res.P[j+1], res.P[j+2], res.P[j+3], res.P[j+4]
 		c.sx, c.sh = sd(j), sd(j+1)
 		c.sw, c.seta = sd(j+2), sd(j+3)
 		c.sasym = sd(j + 4)
-		c.b0, c.b1, c.xc = res.p[0], res.p[1], xc
-		c.red, c.dof = red, res.dof
+		c.b0, c.b1, c.xc = res.P[0], res.P[1], xc
+		c.red, c.dof = red, res.DOF
 		if len(cs) > 1 {
 			c.flags |= FlagShared
 		} else {

@@ -8,50 +8,9 @@ import (
 	"gonum.org/v1/gonum/stat/distuv"
 
 	"reticle/internal/order"
+
+	"reticle/profile"
 )
-
-// Caglioti is the instrumental width curve FWHM² = U tan²θ + V tanθ + W
-// (Caglioti, Paoletti & Ricci, Nucl. Instrum. 3 (1958) 223), FWHM in
-// degrees 2θ.
-type Caglioti struct{ U, V, W float64 }
-
-// At returns the FWHM in degrees at twoTheta degrees.
-func (c Caglioti) At(twoTheta float64) float64 {
-	t := math.Tan(twoTheta * deg / 2)
-	return math.Sqrt(math.Max(c.U*t*t+c.V*t+c.W, 1e-12))
-}
-
-// Asymmetry is the angular law of the line asymmetry A of split
-// pseudo-Voigt lines (see lineShape): a polynomial in 2θ,
-//
-//	A(2θ) = C[0] + C[1]·t + C[2]·t²,  t = (2θ − 90°)/90°,
-//
-// of the lowest degree the strong lines require, held to the bounds of a
-// single line's fit. The published closed forms (1/tan 2θ for axial
-// divergence, or 1/tan θ and 1/tan 2θ together) describe real
-// laboratory scans less well than this over a full range: on measured
-// patterns A falls roughly linearly with angle. The polynomial is not
-// extrapolated: outside Lo..Hi degrees 2θ, the range of the lines it was
-// fitted on, the law follows its tangent at the nearer end.
-type Asymmetry struct {
-	C      [3]float64
-	Lo, Hi float64
-}
-
-// At returns A at twoTheta degrees.
-func (s Asymmetry) At(twoTheta float64) float64 {
-	a := s.poly(twoTheta)
-	if s.Hi > s.Lo {
-		// Beyond the fitted range, the tangent at the nearer end.
-		edge := math.Max(s.Lo, math.Min(s.Hi, twoTheta))
-		te := (edge - 90) / 90
-		a = s.poly(edge) + (s.C[1]+2*s.C[2]*te)*(twoTheta-edge)/90
-	}
-	return math.Max(-maxAsym, math.Min(maxAsym, a))
-}
-
-// Zero reports whether the law is A = 0 (a symmetric scan).
-func (s Asymmetry) Zero() bool { return s.C == [3]float64{} }
 
 // asymLevel is the significance level of the asymmetry tests: a term of
 // the law is kept when it lowers Σ((A − law)/σ_A)² by more than the
@@ -71,7 +30,7 @@ const asymOutlier = 4
 // three remain, and the degree is chosen again. The scan is symmetric unless
 // the constant term passes: a free asymmetry costs precision in the
 // position, so it is used only where the data require it.
-func asymmetryLaw(xs, as, sas []float64) (Asymmetry, bool) {
+func asymmetryLaw(xs, as, sas []float64) (profile.Asymmetry, bool) {
 	idx := make([]int, 0, len(xs))
 	for i := range xs {
 		if sas[i] > 0 {
@@ -79,12 +38,12 @@ func asymmetryLaw(xs, as, sas []float64) (Asymmetry, bool) {
 		}
 	}
 	crit := (distuv.ChiSquared{K: 1}).Quantile(1 - asymLevel)
-	var law Asymmetry
+	var law profile.Asymmetry
 	for range xs {
-		law = Asymmetry{}
+		law = profile.Asymmetry{}
 		chi := fitAsym(xs, as, sas, idx, 0, &law)
 		for terms := 1; terms <= 3 && len(idx) >= 2*terms; terms++ {
-			var next Asymmetry
+			var next profile.Asymmetry
 			c := fitAsym(xs, as, sas, idx, terms, &next)
 			if chi-c <= crit {
 				break
@@ -93,7 +52,7 @@ func asymmetryLaw(xs, as, sas []float64) (Asymmetry, bool) {
 		}
 		worst, wr := -1, 0.0
 		for k, i := range idx {
-			if r := math.Abs(as[i]-law.poly(xs[i])) / sas[i]; r > wr {
+			if r := math.Abs(as[i]-law.Poly(xs[i])) / sas[i]; r > wr {
 				worst, wr = k, r
 			}
 		}
@@ -103,7 +62,7 @@ func asymmetryLaw(xs, as, sas []float64) (Asymmetry, bool) {
 		idx = append(idx[:worst:worst], idx[worst+1:]...)
 	}
 	if law.Zero() {
-		return Asymmetry{}, false
+		return profile.Asymmetry{}, false
 	}
 	law.Lo, law.Hi = math.Inf(1), math.Inf(-1)
 	for _, i := range idx {
@@ -112,16 +71,10 @@ func asymmetryLaw(xs, as, sas []float64) (Asymmetry, bool) {
 	return law, true
 }
 
-// poly is the unclamped law.
-func (s Asymmetry) poly(twoTheta float64) float64 {
-	t := (twoTheta - 90) / 90
-	return s.C[0] + t*(s.C[1]+t*s.C[2])
-}
-
 // fitAsym fits the first terms of the law to the lines idx, stores it in
 // law and returns its Σ((A − law)/σ_A)².
-func fitAsym(xs, as, sas []float64, idx []int, terms int, law *Asymmetry) float64 {
-	*law = Asymmetry{}
+func fitAsym(xs, as, sas []float64, idx []int, terms int, law *profile.Asymmetry) float64 {
+	*law = profile.Asymmetry{}
 	if terms > 0 {
 		a := mat.NewDense(len(idx), terms, nil)
 		b := mat.NewVecDense(len(idx), nil)
@@ -142,7 +95,7 @@ func fitAsym(xs, as, sas []float64, idx []int, terms int, law *Asymmetry) float6
 	}
 	var chi float64
 	for _, i := range idx {
-		chi += sq((as[i] - law.poly(xs[i])) / sas[i])
+		chi += sq((as[i] - law.Poly(xs[i])) / sas[i])
 	}
 	return chi
 }
@@ -151,7 +104,7 @@ func fitAsym(xs, as, sas []float64, idx []int, terms int, law *Asymmetry) float6
 // law to the components whose shape was refined and is well determined;
 // with fewer than four such peaks the width is the constant median. It
 // reports whether the lines are asymmetric (see asymmetryLaw).
-func shapeCurve(md *model, cs []*component, o Options, fwhm0 float64) (Caglioti, float64, Asymmetry, bool) {
+func shapeCurve(md *model, cs []*component, o Options, fwhm0 float64) (profile.Caglioti, float64, profile.Asymmetry, bool) {
 	var xs, ws, etas, as, sas []float64
 	for _, c := range cs {
 		if c.fixedShape || c.sh <= 0 || c.h/c.sh < 2*o.FreeShapeSNR || !md.isolated(c, cs) {
@@ -171,9 +124,9 @@ func shapeCurve(md *model, cs []*component, o Options, fwhm0 float64) (Caglioti,
 	}
 	law, asym := asymmetryLaw(xs, as, sas)
 	if len(ws) == 0 {
-		return Caglioti{W: fwhm0 * fwhm0}, eta, law, asym
+		return profile.Caglioti{W: fwhm0 * fwhm0}, eta, law, asym
 	}
-	flat := Caglioti{W: sq(median(ws))}
+	flat := profile.Caglioti{W: sq(median(ws))}
 	if len(ws) < 2 {
 		return flat, eta, law, asym
 	}
@@ -200,7 +153,7 @@ func shapeCurve(md *model, cs []*component, o Options, fwhm0 float64) (Caglioti,
 	if err := sol.SolveVec(a, b); err != nil {
 		return flat, eta, law, asym
 	}
-	c := Caglioti{sol.AtVec(0), sol.AtVec(1), sol.AtVec(2)}
+	c := profile.Caglioti{U: sol.AtVec(0), V: sol.AtVec(1), W: sol.AtVec(2)}
 	// The curve must stay positive and near the measured widths over the
 	// scan; otherwise fall back to the constant.
 	lo, hi := md.x[0], md.x[len(md.x)-1]
@@ -232,7 +185,7 @@ func median(v []float64) float64 {
 // widthLaw fits FWHM² = U tan²θ + W to the widths ws at 2θ = xs
 // (degrees) by least squares; it fails unless both terms come out
 // positive and the law is within 30 % of every width.
-func widthLaw(xs, ws []float64) (Caglioti, bool) {
+func widthLaw(xs, ws []float64) (profile.Caglioti, bool) {
 	var stt, st, sy, sty float64
 	for i, x := range xs {
 		t := sq(math.Tan(x * deg / 2))
@@ -244,15 +197,15 @@ func widthLaw(xs, ws []float64) (Caglioti, bool) {
 	n := float64(len(xs))
 	det := n*stt - st*st
 	if !(det > 1e-12*n*stt) {
-		return Caglioti{}, false
+		return profile.Caglioti{}, false
 	}
-	c := Caglioti{U: (n*sty - st*sy) / det, W: (stt*sy - st*sty) / det}
+	c := profile.Caglioti{U: (n*sty - st*sy) / det, W: (stt*sy - st*sty) / det}
 	if !(c.U > 0 && c.W > 0) {
-		return Caglioti{}, false
+		return profile.Caglioti{}, false
 	}
 	for i, x := range xs {
 		if r := c.At(x) / ws[i]; r < 0.7 || r > 1.4 {
-			return Caglioti{}, false
+			return profile.Caglioti{}, false
 		}
 	}
 	return c, true

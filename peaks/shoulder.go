@@ -5,6 +5,8 @@ import (
 	"sort"
 
 	"gonum.org/v1/gonum/stat/distuv"
+
+	"reticle/profile"
 )
 
 // shoulderLevel is the significance level of the test that keeps a
@@ -106,7 +108,7 @@ const blendWidth = 1.2
 // ((χ²₁ − χ²₂)/5)/(χ²₂/ν₂) (the pair adds five parameters) must exceed the
 // (1 − shoulderLevel) point of F(5, ν₂), the two must not slide onto one
 // another, and each must be significant at the threshold.
-func splitBlends(md *model, cs []*component, curve Caglioti, o Options) []*component {
+func splitBlends(md *model, cs []*component, curve profile.Caglioti, o Options) []*component {
 	for _, g := range md.groups(cs) {
 		for _, c := range g {
 			if c.fixedShape || c.sh <= 0 || c.h/c.sh < 2*o.FreeShapeSNR || c.w < blendWidth*curve.At(c.x) {

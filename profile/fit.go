@@ -1,4 +1,4 @@
-package peaks
+package profile
 
 import (
 	"errors"
@@ -8,29 +8,30 @@ import (
 	"gonum.org/v1/gonum/mat"
 )
 
-// lsqProblem is a weighted least-squares problem for the Levenberg–Marquardt
-// solver: eval fills the model m_i and, when jac is not nil, the derivatives
-// ∂m_i/∂p_j at jac[i*len(p)+j] for all parameters.
-type lsqProblem struct {
-	y, w   []float64 // data and weights 1/σ²
-	eval   func(p, m, jac []float64)
-	lo, hi []float64 // bounds of each parameter (±Inf when free)
-	free   []bool    // parameters to vary
-	// chiTol is the decrease of χ² below which the search ends; zero
+// A Problem is a weighted least-squares problem for the Levenberg–Marquardt
+// solver: Eval fills the model m_i and, when jac is not nil, the
+// derivatives ∂m_i/∂p_j at jac[i*len(p)+j] for all parameters.
+type Problem struct {
+	Y, W   []float64 // data and weights 1/σ²
+	Eval   func(p, m, jac []float64)
+	Lo, Hi []float64 // bounds of each parameter (±Inf when free)
+	Free   []bool    // parameters to vary
+	// ChiTol is the decrease of χ² below which the search ends; zero
 	// means 1e-4, which moves no parameter by more than 1 % of its esd.
-	chiTol float64
+	ChiTol float64
 }
 
-// lsqResult holds the solution and its covariance.
-type lsqResult struct {
-	p    []float64
-	cov  *mat.SymDense // unscaled (JᵀWJ)⁻¹ over all parameters; fixed ones have zero rows, uninfluential ones +Inf variance
-	chi2 float64
-	dof  int
-	iter int
+// A Solution holds the fitted parameters and their covariance.
+type Solution struct {
+	P    []float64
+	Cov  *mat.SymDense // unscaled (JᵀWJ)⁻¹ over all parameters; fixed ones have zero rows, uninfluential ones +Inf variance
+	Chi2 float64
+	DOF  int
+	Iter int
 }
 
-var errSingular = errors.New("normal matrix is singular")
+// ErrSingular: the normal matrix of the fit cannot be solved.
+var ErrSingular = errors.New("normal matrix is singular")
 
 // lmScratch is the working memory of one fit, reused through lmPool: a
 // scan's thousands of fits would otherwise each take fresh memory, which
@@ -58,7 +59,7 @@ func (s *lmScratch) take(nf, ni int) ([]float64, []int) {
 // normal fills the normal matrix a (k×k, free parameters idx) and the
 // gradient g = JᵀW(y − m), working in the scratch ws (k·k + 2k numbers)
 // and col (k indices).
-func normal(prob *lsqProblem, idx []int, np int, m, jac []float64, a *mat.SymDense, g *mat.VecDense, ws []float64, col []int) {
+func normal(prob *Problem, idx []int, np int, m, jac []float64, a *mat.SymDense, g *mat.VecDense, ws []float64, col []int) {
 	k := len(idx)
 	acc, gv, val := ws[:k*k], ws[k*k:k*k+k], ws[k*k+k:k*k+2*k]
 	clear(acc)
@@ -66,8 +67,8 @@ func normal(prob *lsqProblem, idx []int, np int, m, jac []float64, a *mat.SymDen
 	// A line's derivatives vanish beyond its reach, so each point's row
 	// is gathered as its non-zero entries (column, value) only.
 	for i := range m {
-		wi := prob.w[i]
-		ri := wi * (prob.y[i] - m[i])
+		wi := prob.W[i]
+		ri := wi * (prob.Y[i] - m[i])
 		base := jac[i*np : (i+1)*np]
 		nz := 0
 		for r, j := range idx {
@@ -96,23 +97,23 @@ func normal(prob *lsqProblem, idx []int, np int, m, jac []float64, a *mat.SymDen
 	}
 }
 
-// levenbergMarquardt minimises Σ w_i (y_i − m_i(p))² from p0 (Marquardt,
+// LevenbergMarquardt minimises Σ w_i (y_i − m_i(p))² from p0 (Marquardt,
 // J. Soc. Ind. Appl. Math. 11 (1963) 431), projecting each step onto the
 // bounds. It stops when a step lowers χ² by less than 1e-4 or
 // the predicted decrease is below 1e-6: such changes move no parameter by
 // more than about 1 % of its esd.
-func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult, error) {
-	n := len(prob.y)
+func LevenbergMarquardt(prob *Problem, p0 []float64, maxIter int) (*Solution, error) {
+	n := len(prob.Y)
 	np := len(p0)
 	var idx []int
 	for j := 0; j < np; j++ {
-		if prob.free[j] {
+		if prob.Free[j] {
 			idx = append(idx, j)
 		}
 	}
 	k := len(idx)
 	if k == 0 || n <= k {
-		return nil, errSingular
+		return nil, ErrSingular
 	}
 	p := append([]float64(nil), p0...)
 	sc := lmPool.Get().(*lmScratch)
@@ -126,11 +127,11 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 	m := cut(n)
 	jac := cut(n * np)
 	chi2 := func(p []float64, m []float64) float64 {
-		prob.eval(p, m, nil)
+		prob.Eval(p, m, nil)
 		var s float64
 		for i := range m {
-			d := prob.y[i] - m[i]
-			s += prob.w[i] * d * d
+			d := prob.Y[i] - m[i]
+			s += prob.W[i] * d * d
 		}
 		return s
 	}
@@ -144,7 +145,7 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 	mt := cut(n)
 	delta := mat.NewVecDense(k, cut(k))
 	ws := cut(k*k + 2*k)
-	tol := prob.chiTol
+	tol := prob.ChiTol
 	if tol == 0 {
 		tol = 1e-4
 	}
@@ -152,7 +153,7 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 	// fresh: the normal matrix a was formed at the current p.
 	fresh := false
 	for done := false; iter < maxIter && !done; iter++ {
-		prob.eval(p, m, jac)
+		prob.Eval(p, m, jac)
 		normal(prob, idx, np, m, jac, a, g, ws, col)
 		fresh = true
 		improved := false
@@ -180,7 +181,7 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 			}
 			copy(trial, p)
 			for r, j := range idx {
-				trial[j] = math.Min(math.Max(p[j]+delta.AtVec(r), prob.lo[j]), prob.hi[j])
+				trial[j] = math.Min(math.Max(p[j]+delta.AtVec(r), prob.Lo[j]), prob.Hi[j])
 			}
 			c := chi2(trial, mt)
 			if c <= cur {
@@ -206,7 +207,7 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 	// position of a peak whose height went to zero) is left out and gets
 	// an infinite variance.
 	if !fresh {
-		prob.eval(p, m, jac)
+		prob.Eval(p, m, jac)
 		normal(prob, idx, np, m, jac, a, nil, ws, col)
 	}
 	var keep []int
@@ -225,7 +226,7 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 	}
 	kk := len(keep)
 	if kk == 0 {
-		return nil, errSingular
+		return nil, ErrSingular
 	}
 	scale := make([]float64, kk)
 	for r := range scale {
@@ -239,11 +240,11 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 	}
 	var fac mat.Cholesky
 	if !fac.Factorize(ak) {
-		return nil, errSingular
+		return nil, ErrSingular
 	}
 	var inv mat.SymDense
 	if err := fac.InverseTo(&inv); err != nil {
-		return nil, errSingular
+		return nil, ErrSingular
 	}
 	cov := mat.NewSymDense(np, nil)
 	for r := 0; r < k; r++ {
@@ -254,7 +255,7 @@ func levenbergMarquardt(prob *lsqProblem, p0 []float64, maxIter int) (*lsqResult
 			cov.SetSym(idx[keep[r]], idx[keep[c]], inv.At(r, c)*scale[r]*scale[c])
 		}
 	}
-	return &lsqResult{p: p, cov: cov, chi2: cur, dof: n - k, iter: iter}, nil
+	return &Solution{P: p, Cov: cov, Chi2: cur, DOF: n - k, Iter: iter}, nil
 }
 
 // smallStep reports whether every component of the step is below 1e-3 of

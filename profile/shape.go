@@ -1,4 +1,4 @@
-package peaks
+package profile
 
 import "math"
 
@@ -17,10 +17,11 @@ func PseudoVoigt(x, x0, fwhm, eta float64) float64 {
 // PseudoVoigtArea returns the integral over x of a pseudo-Voigt of the
 // given height: H Γ (η π/2 + (1 − η) √(π / (4 ln 2))).
 func PseudoVoigtArea(height, fwhm, eta float64) float64 {
-	return height * fwhm * areaFactor(eta)
+	return height * fwhm * AreaFactor(eta)
 }
 
-func areaFactor(eta float64) float64 {
+// AreaFactor is the area of a pseudo-Voigt of height 1 and FWHM 1.
+func AreaFactor(eta float64) float64 {
 	return eta*math.Pi/2 + (1-eta)*math.Sqrt(math.Pi/(4*ln2))
 }
 
@@ -80,9 +81,9 @@ func tailedGrad(x, x0, fwhm, eta, tail float64) (f, dx0, dw, deta float64) {
 	return
 }
 
-// tailedFWHM returns the full width at half maximum of a tailed curve of
+// TailedFWHM returns the full width at half maximum of a tailed curve of
 // width parameter fwhm (equal to it when τ = 1).
-func tailedFWHM(fwhm, eta, tail float64) float64 {
+func TailedFWHM(fwhm, eta, tail float64) float64 {
 	if tail == 1 || eta == 0 {
 		return fwhm
 	}
@@ -104,20 +105,20 @@ func tailedFWHM(fwhm, eta, tail float64) float64 {
 // position is the maximum, the mean of the two half-widths is w/2 and the
 // area is that of the symmetric curve; A > 0 widens the low-angle side, as
 // the axial divergence of a Bragg–Brentano instrument does below 90° 2θ.
-const maxAsym = 0.6 // bound on |A|
+const MaxAsym = 0.6 // bound on |A|
 
-// lineShape returns the profile of height 1 at x for a line at x0 with
+// LineShape returns the profile of height 1 at x for a line at x0 with
 // the scan's tail ratio.
-func lineShape(x, x0, w, eta, asym, tail float64) float64 {
+func LineShape(x, x0, w, eta, asym, tail float64) float64 {
 	if x < x0 {
 		return tailedVoigt(x, x0, w*(1+asym), eta, tail)
 	}
 	return tailedVoigt(x, x0, w*(1-asym), eta, tail)
 }
 
-// lineGrad returns lineShape and its derivatives with respect to x0, w,
+// LineGrad returns LineShape and its derivatives with respect to x0, w,
 // eta and A.
-func lineGrad(x, x0, w, eta, asym, tail float64) (f, dx0, dw, deta, dasym float64) {
+func LineGrad(x, x0, w, eta, asym, tail float64) (f, dx0, dw, deta, dasym float64) {
 	k := 1 - asym
 	if x < x0 {
 		k = 1 + asym
