@@ -55,7 +55,7 @@ const maxHeap = 2 << 30
 func usage() string {
 	var b strings.Builder
 	b.WriteString("reticle: powder diffraction scans from the command line\n\nusage:\n")
-	for _, c := range []command{cmdPeaks, cmdIndex, cmdRefine, cmdContents, cmdReport} {
+	for _, c := range []command{cmdPeaks, cmdIndex, cmdRefine, cmdFit, cmdContents, cmdReport} {
 		fmt.Fprintf(&b, "  reticle %s %s\n      %s\n", commandNames[c], synopsis[c], wrap(about[c], 5, 78))
 	}
 	b.WriteString("\n`reticle COMMAND --help` lists the options of a command.\n")
@@ -80,6 +80,8 @@ func runContext(ctx context.Context, args []string, stdout, stderr io.Writer) in
 		return cmdIndexRun(ctx, args[1:], stdout, stderr)
 	case "refine":
 		return cmdRefineRun(ctx, args[1:], stdout, stderr)
+	case "fit":
+		return cmdFitRun(ctx, args[1:], stdout, stderr)
 	case "contents":
 		return cmdContentsRun(args[1:], stdout, stderr)
 	case "report":

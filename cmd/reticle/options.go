@@ -27,9 +27,10 @@ const (
 	cmdRefine
 	cmdContents
 	cmdReport
+	cmdFit
 )
 
-var commandNames = map[command]string{cmdPeaks: "peaks", cmdIndex: "index", cmdRefine: "refine", cmdContents: "contents", cmdReport: "report"}
+var commandNames = map[command]string{cmdPeaks: "peaks", cmdIndex: "index", cmdRefine: "refine", cmdContents: "contents", cmdReport: "report", cmdFit: "fit"}
 
 // request is everything a command line asks for: the analysis settings
 // and the options of the command itself.
@@ -45,6 +46,7 @@ type request struct {
 	solution int
 	jobs     int    // scans analysed at once
 	summary  string // base path of the batch summary table
+	curves   bool   // fit: the observed, calculated and difference curves in the JSON
 }
 
 // An option is one command-line option: its name, the placeholder of its
@@ -59,10 +61,10 @@ type option struct {
 }
 
 // scanCommands are the commands that read scans.
-const scanCommands = cmdPeaks | cmdIndex | cmdRefine | cmdReport
+const scanCommands = cmdPeaks | cmdIndex | cmdRefine | cmdReport | cmdFit
 
 // analysisCommands are the commands that index, refine or report.
-const analysisCommands = cmdIndex | cmdRefine | cmdReport
+const analysisCommands = cmdIndex | cmdRefine | cmdReport | cmdFit
 
 func floatOpt(dst func(r *request) *float64, check func(float64) bool, want string) func(*request, string) error {
 	return func(r *request, v string) error {
@@ -178,7 +180,7 @@ var options = []option{
 			}
 			return nil
 		}},
-	{name: "cell", arg: "CELL", in: cmdRefine | cmdContents, def: "required",
+	{name: "cell", arg: "CELL", in: cmdRefine | cmdContents | cmdFit, def: "required",
 		help: "the cell, e.g. 'tetragonal P a=4.59 c=2.96' or 'monoclinic C a=9.41 b=5.38 c=6.12 beta=102.4'; values may carry esds, a=5.6402(3)",
 		set: func(r *request, v string) error {
 			c, _, err := cell.Parse(v)
@@ -256,7 +258,10 @@ var options = []option{
 	{name: "force", in: cmdIndex | cmdReport,
 		help: "replace report or summary files that exist (otherwise nothing is written)",
 		set:  func(r *request, _ string) error { r.force = true; return nil }},
-	{name: "json", in: cmdPeaks | cmdIndex | cmdRefine | cmdContents,
+	{name: "curves", in: cmdFit,
+		help: "add the observed, calculated, background and difference curves to the JSON document",
+		set:  func(r *request, _ string) error { r.curves = true; return nil }},
+	{name: "json", in: cmdPeaks | cmdIndex | cmdRefine | cmdContents | cmdFit,
 		help: "print a JSON document instead of text",
 		set:  func(r *request, _ string) error { r.json = true; return nil }},
 }
@@ -371,6 +376,7 @@ var synopsis = map[command]string{
 	cmdRefine:   "--cell CELL [options] FILE...",
 	cmdContents: "--cell CELL --formula F [--z N | --density D] [options]",
 	cmdReport:   "--out DIR [options] FILE... | --out DIR --session FILE",
+	cmdFit:      "--cell CELL [options] FILE...",
 }
 
 var about = map[command]string{
@@ -379,4 +385,5 @@ var about = map[command]string{
 	cmdRefine:   "Refines a known cell against the peaks of each scan.",
 	cmdContents: "Works out formula units, X-ray density and atoms per cell of a cell.",
 	cmdReport:   "Runs the analysis of index and writes its records (PDF, CIF, CSV, JSON) into a folder.",
+	cmdFit:      "Fits every point of each scan with a known cell (Pawley's whole-pattern method), starting from the cell refined on the peaks.",
 }

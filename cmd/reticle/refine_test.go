@@ -388,3 +388,52 @@ func TestCellTextRoundTrip(t *testing.T) {
 		}
 	}
 }
+
+// TestFitCommand fits the demo scan's whole pattern with its cell
+// (made with a = 8.083 Å, assets/demo/make_demo.go): the JSON has
+// refine's keys at the top level and the fit's figures, the cell lies
+// within 3 esd, Rwp/Rexp is near 1 (the demo's lines are the model's
+// shape), and --curves adds the curves; a cell far off is fitted but
+// warned about.
+func TestFitCommand(t *testing.T) {
+	code, out, errs := runCmd("fit", "--json", "--curves", "--cell", "cubic F a=8.08", demo)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var doc []map[string]any
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		var one map[string]any
+		if err := json.Unmarshal([]byte(out), &one); err != nil {
+			t.Fatal(err)
+		}
+		doc = []map[string]any{one}
+	}
+	d := doc[0]
+	for _, k := range []string{"a", "a_esd", "volume", "volume_esd", "cell", "rwp", "rexp", "chi2", "gof", "phases", "curves", "esd_scaling"} {
+		if _, ok := d[k]; !ok {
+			t.Errorf("the document lacks %q", k)
+		}
+	}
+	a, e := d["a"].(float64), d["a_esd"].(float64)
+	if !(e > 0) || math.Abs(a-8.083) > 3*e {
+		t.Errorf("a = %.5f(%.5f), made with 8.083", a, e)
+	}
+	if q := d["rwp"].(float64) / d["rexp"].(float64); q > 1.3 {
+		t.Errorf("Rwp/Rexp = %.2f", q)
+	}
+	cv := d["curves"].(map[string]any)
+	if n := len(cv["calculated"].([]any)); n != int(d["points"].(float64)) {
+		t.Errorf("%d calculated points of %v", n, d["points"])
+	}
+	refl := d["phases"].([]any)[0].(map[string]any)["reflections"].([]any)
+	if len(refl) < 15 {
+		t.Errorf("%d reflections", len(refl))
+	}
+	code, out, _ = runCmd("fit", "--cell", "cubic F a=9.0", demo)
+	if code != 0 || !strings.Contains(out, "leaves part of the pattern unexplained") {
+		t.Errorf("a cell far off: exit %d, output lacks the warning:\n%s", code, out)
+	}
+	if code, _, errs := runCmd("fit", demo); code != 2 || !strings.Contains(errs, "--cell is required") {
+		t.Errorf("without --cell: exit %d, %q", code, errs)
+	}
+}

@@ -1,0 +1,45 @@
+package analysis
+
+import (
+	"context"
+	"fmt"
+
+	"reticle/cell"
+	"reticle/refine"
+)
+
+// A PatternFit is a whole-pattern fit of a cell with the peak refinement
+// it started from.
+type PatternFit struct {
+	Start *refine.Result // the cell refined on the peak positions
+	Fit   *refine.PatternResult
+}
+
+// FitPattern fits every point of the scan with the cell c (Pawley's
+// method, refine.FitPattern). It starts from the cell refined on the
+// extraction's lines (RefineCell) with the corrections that refinement
+// chose, and from the width law and mixing the extraction measured: a
+// whole-pattern fit only converges from a cell whose lines already fall
+// within a width or two of their peaks.
+func FitPattern(ctx context.Context, e *Extraction, c cell.Cell, s Settings) (*PatternFit, error) {
+	start, err := RefineCell(ctx, e, c, s)
+	if err != nil {
+		return nil, err
+	}
+	sc := e.Scan
+	sig := make([]float64, sc.Len())
+	for i := range sig {
+		sig[i] = sc.Sigma(i)
+	}
+	rad := e.Result.Radiation
+	opt := refine.PatternOptions{Lambda1: rad.Lambda1, Radius: start.Radius, Corrections: start.ChosenCorrections(),
+		Width: e.Result.FWHMCurve, Eta: e.Result.Eta}
+	if rad.Doublet() {
+		opt.Lambda2, opt.Ratio2 = rad.Lambda2, rad.Ratio2
+	}
+	fit, err := refine.FitPattern(ctx, start.Cell, sc.TwoTheta, sc.Intensity, sig, opt)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", sc.Path, err)
+	}
+	return &PatternFit{Start: start, Fit: fit}, nil
+}

@@ -1,0 +1,171 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"text/tabwriter"
+
+	"reticle/analysis"
+	"reticle/cell"
+	"reticle/esd"
+	"reticle/report"
+)
+
+// reflectionJSON is one fitted position of a phase.
+type reflectionJSON struct {
+	HKL          []cell.HKL `json:"hkl"`
+	Multiplicity int        `json:"multiplicity"`
+	TwoTheta     float64    `json:"two_theta"`
+	Intensity    float64    `json:"intensity"`
+	IntensityESD float64    `json:"intensity_esd"`
+}
+
+// phaseJSON is one phase of a whole-pattern fit.
+type phaseJSON struct {
+	report.CellValues
+	Parameters  []report.Param   `json:"parameters"`
+	Reflections []reflectionJSON `json:"reflections"`
+}
+
+// curvesJSON are the fit's curves, point by point.
+type curvesJSON struct {
+	TwoTheta   []float64 `json:"two_theta"`
+	Observed   []float64 `json:"observed"`
+	Calculated []float64 `json:"calculated"`
+	Background []float64 `json:"background"`
+	Difference []float64 `json:"difference"`
+}
+
+// fitDocJSON is the --json document of reticle fit: the main phase's
+// cell at the top level with refine's keys, the agreement factors
+// (percent, as the pdCIF dictionary's R factors are usually quoted) and
+// every phase.
+type fitDocJSON struct {
+	report.ScanInfo
+	StartCell string `json:"start_cell"`
+	report.CellValues
+	Rp          float64     `json:"rp"`
+	Rwp         float64     `json:"rwp"`
+	Rexp        float64     `json:"rexp"`
+	Chi2        float64     `json:"chi2"`
+	GoF         float64     `json:"gof"`
+	Points      int         `json:"points"`
+	Parameters  int         `json:"parameters"`
+	Corrections string      `json:"corrections"`
+	ESDScaling  string      `json:"esd_scaling"`
+	Phases      []phaseJSON `json:"phases"`
+	Warnings    []string    `json:"warnings"`
+	Curves      *curvesJSON `json:"curves,omitempty"`
+}
+
+func cmdFitRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
+	r, files, code, ok := start(cmdFit, args, stderr)
+	if !ok {
+		return code
+	}
+	if r.cell == nil {
+		fmt.Fprintln(stderr, "reticle fit: --cell is required, e.g. --cell 'cubic F a=5.64'")
+		return 2
+	}
+	if len(files) == 0 {
+		fmt.Fprintln(stderr, "reticle fit: no scan file given")
+		return 2
+	}
+	var docs []fitDocJSON
+	status := 0
+	for _, path := range files {
+		if ctx.Err() != nil {
+			return 130
+		}
+		doc, err := fitFile(ctx, path, r)
+		if err != nil {
+			fmt.Fprintf(stderr, "reticle fit: %v\n", err)
+			status = 1
+			continue
+		}
+		if r.json {
+			docs = append(docs, doc)
+		} else {
+			printFit(stdout, doc)
+		}
+	}
+	if r.json && len(docs) > 0 {
+		if err := encodeDocs(stdout, docs); err != nil {
+			fmt.Fprintf(stderr, "reticle fit: %v\n", err)
+			return 1
+		}
+	}
+	return status
+}
+
+// fitFile extracts a scan's peaks, refines the cell on them and fits the
+// whole pattern from there.
+func fitFile(ctx context.Context, path string, r *request) (fitDocJSON, error) {
+	e, err := analysis.ReadExtract(ctx, path, r.settings, nil)
+	if err != nil {
+		return fitDocJSON{}, err
+	}
+	pf, err := analysis.FitPattern(ctx, e, *r.cell, r.settings)
+	if err != nil {
+		return fitDocJSON{}, err
+	}
+	f := pf.Fit
+	cv := report.NewCellValues(f.Cell, f.ESD, f.Volume, f.VolumeESD)
+	scaling := "esds are (JᵀWJ)⁻¹ with weights 1/σ² of the counts"
+	if f.Scaled {
+		scaling += fmt.Sprintf(", multiplied by GoF = %.3f (χ²_red above 1)", f.GoF)
+	}
+	doc := fitDocJSON{ScanInfo: report.NewScanInfo(e.Scan, e.Result.Radiation), StartCell: r.cellText, CellValues: cv,
+		Rp: 100 * f.Rp, Rwp: 100 * f.Rwp, Rexp: 100 * f.Rexp, Chi2: f.Chi2, GoF: f.GoF, Points: f.Points, Parameters: f.Parameters,
+		Corrections: f.Corrections.String(), ESDScaling: scaling, Warnings: append([]string{}, f.Warnings...)}
+	ph := phaseJSON{CellValues: cv, Parameters: []report.Param{}, Reflections: []reflectionJSON{}}
+	for _, p := range f.Params {
+		ph.Parameters = append(ph.Parameters, report.Param{Name: p.Name, Value: p.Value, ESD: p.ESD, Unit: p.Unit, Text: esd.Format(p.Value, p.ESD)})
+	}
+	for _, rf := range f.Reflections {
+		ph.Reflections = append(ph.Reflections, reflectionJSON{HKL: rf.HKL, Multiplicity: rf.Mult, TwoTheta: rf.TwoTheta, Intensity: rf.Intensity, IntensityESD: finiteOrZero(rf.IntensityESD)})
+	}
+	doc.Phases = []phaseJSON{ph}
+	if r.curves {
+		c := &curvesJSON{TwoTheta: e.Scan.TwoTheta, Observed: e.Scan.Intensity, Calculated: f.Calc, Background: f.Background, Difference: make([]float64, len(f.Calc))}
+		for i := range f.Calc {
+			c.Difference[i] = e.Scan.Intensity[i] - f.Calc[i]
+		}
+		doc.Curves = c
+	}
+	return doc, nil
+}
+
+// finiteOrZero keeps JSON free of infinities (an intensity held at its
+// bound has no esd).
+func finiteOrZero(v float64) float64 {
+	if v != v || v > 1e300 || v < -1e300 {
+		return 0
+	}
+	return v
+}
+
+func printFit(w io.Writer, d fitDocJSON) {
+	fmt.Fprintf(w, "%s  %s, λ = %.7f Å\n", d.File, d.Radiation, d.Wavelength)
+	fmt.Fprintf(w, "whole-pattern fit from %s (Pawley; %d points, %d parameters, corrections %s):\n", d.StartCell, d.Points, d.Parameters, d.Corrections)
+	fmt.Fprintf(w, "  cell  %s   V = %s Å³\n", d.CellValues.Text, esd.Format(d.Volume, d.VolumeESD))
+	fmt.Fprintf(w, "  Rp %.2f %%  Rwp %.2f %%  Rexp %.2f %%  χ²_red %.3f  GoF %.3f\n", d.Rp, d.Rwp, d.Rexp, d.Chi2, d.GoF)
+	fmt.Fprintf(w, "  %s\n", d.ESDScaling)
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	for _, p := range d.Phases[0].Parameters {
+		fmt.Fprintf(tw, "  %s\t%s\t%s\n", p.Name, p.Text, p.Unit)
+	}
+	tw.Flush()
+	fmt.Fprintf(w, "reflections (%d):\n", len(d.Phases[0].Reflections))
+	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintln(tw, "hkl\t2θ (°)\tintensity\t")
+	for _, r := range d.Phases[0].Reflections {
+		fmt.Fprintf(tw, "%s\t%.4f\t%s\t\n", report.HKLText(r.HKL), r.TwoTheta, esd.Format(r.Intensity, r.IntensityESD))
+	}
+	tw.Flush()
+	for _, warn := range d.Warnings {
+		fmt.Fprintf(w, "warning: %s\n", warn)
+	}
+	fmt.Fprintln(w)
+}
