@@ -17,8 +17,9 @@ type PatternFit struct {
 
 // FitPattern fits every point of the scan with the cell c (Pawley's
 // method, refine.FitPattern). It starts from the cell refined on the
-// extraction's lines (RefineCell) with the corrections that refinement
-// chose, and from the width law and mixing the extraction measured: a
+// extraction's lines (RefineCell) and from the width law and mixing the
+// extraction measured; the corrections are the settings' when they fix
+// them, otherwise both shifts. A
 // whole-pattern fit only converges from a cell whose lines already fall
 // within a width or two of their peaks.
 func FitPattern(ctx context.Context, e *Extraction, c cell.Cell, s Settings) (*PatternFit, error) {
@@ -32,7 +33,19 @@ func FitPattern(ctx context.Context, e *Extraction, c cell.Cell, s Settings) (*P
 		sig[i] = sc.Sigma(i)
 	}
 	rad := e.Result.Radiation
-	opt := refine.PatternOptions{Lambda1: rad.Lambda1, Radius: start.Radius, Corrections: start.ChosenCorrections(),
+	// The corrections: as the settings fix them; when the settings
+	// leave the choice to the data, both shifts are refined. Up to
+	// about 110° 2θ the zero shift and the displacement move the lines
+	// almost alike, so a choice of one of them on the pattern's χ²
+	// (refine.Auto) keeps the cell that the other's share biases, with
+	// an esd far below that bias (on the benchmark's laboratory scans,
+	// 5 to 15 esd); with both, the esd holds the uncertainty of the
+	// split.
+	corr := start.Corrections
+	if start.Selection != nil {
+		corr = refine.Zero | refine.Displacement
+	}
+	opt := refine.PatternOptions{Lambda1: rad.Lambda1, Radius: start.Radius, Corrections: corr,
 		Width: e.Result.FWHMCurve, Eta: e.Result.Eta}
 	if rad.Doublet() {
 		opt.Lambda2, opt.Ratio2 = rad.Lambda2, rad.Ratio2

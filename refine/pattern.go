@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 
 	"reticle/cell"
 	"reticle/profile"
@@ -18,7 +19,8 @@ type PatternOptions struct {
 	// Radius is the goniometer radius, mm; zero means DefaultRadius.
 	Radius float64
 	// Corrections are refined with the cell: Zero, Displacement or
-	// both (Auto is not taken here); None refines neither.
+	// both; None refines neither; Auto lets the pattern choose (see
+	// FitPattern). Transparency is not refined here.
 	Corrections Corrections
 	// Width and Eta start the profile: the Caglioti width law and the
 	// Lorentzian fraction, e.g. those the peak extraction measured.
@@ -31,6 +33,10 @@ type PatternOptions struct {
 	// MaxIter bounds the Levenberg–Marquardt iterations; zero means 80.
 	MaxIter int
 }
+
+// broadIter bounds the iterations of each broadened stage, which only
+// draw the cell in: the last stage refines everything to convergence.
+const broadIter = 30
 
 // DefaultBackgroundTerms is the number of Chebyshev polynomial terms of
 // the background: a smooth curve over a laboratory scan's range (common
@@ -58,6 +64,9 @@ type PatternResult struct {
 	VolumeESD  float64
 
 	Corrections Corrections
+	// CorrectionChoice says how the corrections were chosen, when the
+	// pattern chose them (Auto).
+	CorrectionChoice string
 	// Params are the refined cell, corrections and profile parameters
 	// (U, V, W in degrees², eta) with their esds.
 	Params      []Param
@@ -107,7 +116,46 @@ type patternFit struct {
 // model yet), and a Chebyshev background. The least squares are solved by
 // Levenberg–Marquardt over the sparse Jacobian (each point depends on the
 // few lines near it). The context cancels the work between iterations.
+//
+// With Auto among the corrections, the pattern itself chooses them: the
+// fits with none, the zero shift, the displacement and both are made and
+// the one of lowest BIC (Schwarz 1978; χ² + k·ln N over the N points) is
+// kept, as the peak refinement chooses on its lines; the whole pattern
+// separates the two shifts far better than a few peak positions do.
 func FitPattern(ctx context.Context, c cell.Cell, x, y, sig []float64, opt PatternOptions) (*PatternResult, error) {
+	if !opt.Corrections.Has(Auto) {
+		return fitPattern(ctx, c, x, y, sig, opt)
+	}
+	var best *PatternResult
+	var bestBIC float64
+	var lastErr error
+	var report []string
+	for _, m := range []Corrections{None, Zero, Displacement, Zero | Displacement} {
+		o := opt
+		o.Corrections = m
+		r, err := fitPattern(ctx, c, x, y, sig, o)
+		if err != nil {
+			if ctx.Err() != nil {
+				return nil, err
+			}
+			lastErr = err
+			continue
+		}
+		bic := r.Chi2*float64(r.Points-r.Parameters) + float64(r.Parameters)*math.Log(float64(r.Points))
+		report = append(report, fmt.Sprintf("%s %.1f", m, bic))
+		if best == nil || bic < bestBIC {
+			best, bestBIC = r, bic
+		}
+	}
+	if best == nil {
+		return nil, lastErr
+	}
+	best.CorrectionChoice = fmt.Sprintf("%s, chosen by the lowest BIC of the whole-pattern fits (%s)", best.Corrections, strings.Join(report, ", "))
+	return best, nil
+}
+
+// fitPattern is FitPattern with the corrections given.
+func fitPattern(ctx context.Context, c cell.Cell, x, y, sig []float64, opt PatternOptions) (*PatternResult, error) {
 	if err := c.Check(); err != nil {
 		return nil, fmt.Errorf("%w: %w", ErrPattern, err)
 	}
@@ -127,7 +175,7 @@ func FitPattern(ctx context.Context, c cell.Cell, x, y, sig []float64, opt Patte
 		opt.Background = DefaultBackgroundTerms
 	}
 	if opt.MaxIter <= 0 {
-		opt.MaxIter = 80
+		opt.MaxIter = 400
 	}
 	if opt.Eta <= 0 || opt.Eta > 1 {
 		opt.Eta = 0.5
@@ -155,7 +203,7 @@ func FitPattern(ctx context.Context, c cell.Cell, x, y, sig []float64, opt Patte
 			kept = append(kept, r)
 		}
 	}
-	pf.refl = kept
+	pf.refl = mergeClose(kept, opt)
 	if len(pf.refl) == 0 {
 		return nil, fmt.Errorf("%w: the cell has no reflection within %.2f–%.2f° 2θ", ErrPattern, pf.lo, pf.hi)
 	}
@@ -185,7 +233,7 @@ func FitPattern(ctx context.Context, c cell.Cell, x, y, sig []float64, opt Patte
 		}
 		p[pf.iU], p[pf.iU+1], p[pf.iU+2] = 0, 0, fw*fw
 		pf.startLinear(p)
-		sol, it, err := pf.solve(ctx, p, opt.MaxIter, fixed)
+		sol, it, err := pf.solve(ctx, p, min(opt.MaxIter, broadIter), fixed)
 		if err != nil {
 			return nil, err
 		}
@@ -311,4 +359,31 @@ func countNear(ls []line, tt, w float64) int {
 		}
 	}
 	return n
+}
+
+// closeShare is the separation, as a share of the FWHM, below which two
+// reflections take one intensity: their profiles then differ by under a
+// per cent of a line's height, far below any scan's noise, and their
+// intensities are not separately determined (Pawley's fit of exact and
+// near overlaps is singular).
+const closeShare = 0.02
+
+// mergeClose joins reflections (in increasing Q) whose K-alpha1 lines lie
+// closer than closeShare of the starting width; the first one's indices
+// give the position.
+func mergeClose(refl []cell.Reflection, opt PatternOptions) []cell.Reflection {
+	var out []cell.Reflection
+	prev := math.Inf(-1)
+	for _, r := range refl {
+		tt := cell.TwoThetaOfQ(r.Q, opt.Lambda1)
+		if n := len(out); n > 0 && tt-prev < closeShare*opt.Width.At(tt) {
+			last := &out[n-1]
+			last.HKL = append(append([]cell.HKL(nil), last.HKL...), r.HKL...)
+			last.Mult += r.Mult
+			continue
+		}
+		out = append(out, r)
+		prev = tt
+	}
+	return out
 }

@@ -2,6 +2,7 @@ package refine
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 
@@ -131,11 +132,11 @@ func normalEquations(rows []sparseRow, res []float64, k int) (*mat.SymDense, []f
 				continue
 			}
 			g[iu] += vu * res[i]
-			base := iu * k
-			for v, iv := range row.idx {
-				if iv >= iu {
-					a[base+iv] += vu * row.val[v]
-				}
+			// The indices increase along a row: the upper triangle is
+			// the rest of the row.
+			ar := a[iu*k:]
+			for v := u; v < len(row.idx); v++ {
+				ar[row.idx[v]] += vu * row.val[v]
 			}
 		}
 	}
@@ -186,16 +187,47 @@ func (pf *patternFit) solve(ctx context.Context, p []float64, maxIter int, fixed
 			a.SetSym(j, j, 1)
 			g[j] = 0
 		}
+		// Intensities at their bound that the gradient pushes further
+		// out are held for this step (an active set): a projected step
+		// would otherwise be cut short on every iteration.
+		for j := pf.iI; j < k; j++ {
+			if p[j] <= 0 && g[j] <= 0 {
+				for i := 0; i < k; i++ {
+					a.SetSym(i, j, 0)
+				}
+				a.SetSym(j, j, 1)
+				g[j] = 0
+			}
+		}
+		// The equations scaled to a unit diagonal (the parameters'
+		// units differ by many orders: reciprocal coefficients near
+		// 0.01 Å⁻², intensities in the thousands), so that Marquardt's
+		// damping of the diagonal is λ·I and the solve stays well
+		// conditioned.
+		sc := make([]float64, k)
+		for j := range sc {
+			if d := a.At(j, j); d > 0 {
+				sc[j] = 1 / math.Sqrt(d)
+			} else {
+				sc[j] = 1
+			}
+		}
+		scaled := mat.NewSymDense(k, nil)
+		for i := 0; i < k; i++ {
+			for j := i; j < k; j++ {
+				scaled.SetSym(i, j, a.At(i, j)*sc[i]*sc[j])
+			}
+		}
+		gs := make([]float64, k)
+		for j := range gs {
+			gs[j] = g[j] * sc[j]
+		}
 		improved := false
 		for try := 0; try < 12; try++ {
 			damped := mat.NewSymDense(k, nil)
-			damped.CopySym(a)
+			damped.CopySym(scaled)
 			for j := 0; j < k; j++ {
-				d := a.At(j, j)
-				if d == 0 {
-					d = 1
-				}
-				damped.SetSym(j, j, d*(1+lambda))
+				damped.SetSym(j, j, scaled.At(j, j)+lambda)
 			}
 			var ch mat.Cholesky
 			if !ch.Factorize(damped) {
@@ -203,13 +235,18 @@ func (pf *patternFit) solve(ctx context.Context, p []float64, maxIter int, fixed
 				continue
 			}
 			var step mat.VecDense
-			if err := ch.SolveVecTo(&step, mat.NewVecDense(k, g)); err != nil {
-				lambda *= 10
-				continue
+			if err := ch.SolveVecTo(&step, mat.NewVecDense(k, gs)); err != nil {
+				var cond mat.Condition
+				if !errors.As(err, &cond) {
+					lambda *= 10
+					continue
+				}
+				// Ill conditioned: the step is still the
+				// solution, and the χ² test below judges it.
 			}
 			q := make([]float64, k)
 			for j := range q {
-				q[j] = p[j] + step.AtVec(j)
+				q[j] = p[j] + step.AtVec(j)*sc[j]
 			}
 			pf.project(q)
 			r2, c2, b2 := pf.evaluate(q, nil)
@@ -217,8 +254,12 @@ func (pf *patternFit) solve(ctx context.Context, p []float64, maxIter int, fixed
 				rel := (chi - c) / chi
 				p, res, calc, bg, chi = q, r2, c2, b2, c
 				res, calc, bg = pf.evaluate(p, rows)
+				// A small decrease counts as convergence only
+				// with a step near Gauss–Newton's: a heavily
+				// damped step is small whatever the distance
+				// to the minimum.
+				improved = rel >= convergedShare || lambda > 1e-2
 				lambda = math.Max(lambda/10, 1e-9)
-				improved = rel >= convergedShare
 				break
 			}
 			lambda *= 10

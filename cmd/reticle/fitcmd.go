@@ -53,6 +53,7 @@ type fitDocJSON struct {
 	Points      int         `json:"points"`
 	Parameters  int         `json:"parameters"`
 	Corrections string      `json:"corrections"`
+	Choice      string      `json:"correction_choice,omitempty"`
 	ESDScaling  string      `json:"esd_scaling"`
 	Phases      []phaseJSON `json:"phases"`
 	Warnings    []string    `json:"warnings"`
@@ -118,7 +119,7 @@ func fitFile(ctx context.Context, path string, r *request) (fitDocJSON, error) {
 	}
 	doc := fitDocJSON{ScanInfo: report.NewScanInfo(e.Scan, e.Result.Radiation), StartCell: r.cellText, CellValues: cv,
 		Rp: 100 * f.Rp, Rwp: 100 * f.Rwp, Rexp: 100 * f.Rexp, Chi2: f.Chi2, GoF: f.GoF, Points: f.Points, Parameters: f.Parameters,
-		Corrections: f.Corrections.String(), ESDScaling: scaling, Warnings: append([]string{}, f.Warnings...)}
+		Corrections: f.Corrections.String(), Choice: f.CorrectionChoice, ESDScaling: scaling, Warnings: append([]string{}, f.Warnings...)}
 	ph := phaseJSON{CellValues: cv, Parameters: []report.Param{}, Reflections: []reflectionJSON{}}
 	for _, p := range f.Params {
 		ph.Parameters = append(ph.Parameters, report.Param{Name: p.Name, Value: p.Value, ESD: p.ESD, Unit: p.Unit, Text: esd.Format(p.Value, p.ESD)})
@@ -151,6 +152,9 @@ func printFit(w io.Writer, d fitDocJSON) {
 	fmt.Fprintf(w, "whole-pattern fit from %s (Pawley; %d points, %d parameters, corrections %s):\n", d.StartCell, d.Points, d.Parameters, d.Corrections)
 	fmt.Fprintf(w, "  cell  %s   V = %s Å³\n", d.CellValues.Text, esd.Format(d.Volume, d.VolumeESD))
 	fmt.Fprintf(w, "  Rp %.2f %%  Rwp %.2f %%  Rexp %.2f %%  χ²_red %.3f  GoF %.3f\n", d.Rp, d.Rwp, d.Rexp, d.Chi2, d.GoF)
+	if d.Choice != "" {
+		fmt.Fprintf(w, "  corrections %s\n", d.Choice)
+	}
 	fmt.Fprintf(w, "  %s\n", d.ESDScaling)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	for _, p := range d.Phases[0].Parameters {
