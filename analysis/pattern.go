@@ -36,10 +36,9 @@ func FitPattern(ctx context.Context, e *Extraction, c cell.Cell, s Settings) (*P
 	// The corrections: as the settings fix them; when the settings
 	// leave the choice to the data, both shifts are refined. Up to
 	// about 110° 2θ the zero shift and the displacement move the lines
-	// almost alike, so a choice of one of them on the pattern's χ²
-	// (refine.Auto) keeps the cell that the other's share biases, with
-	// an esd far below that bias (on the benchmark's laboratory scans,
-	// 5 to 15 esd); with both, the esd holds the uncertainty of the
+	// almost alike, so a fit with one of them keeps the cell that the
+	// other's share biases, with an esd far below that bias
+	// (BENCHMARKS.md); with both, the esd holds the uncertainty of the
 	// split.
 	corr := start.Corrections
 	if start.Selection != nil {

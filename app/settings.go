@@ -15,9 +15,6 @@ import (
 	"reticle/report"
 )
 
-// allSystems are the crystal systems in the order the search takes them.
-var allSystems = []cell.System{cell.Cubic, cell.Tetragonal, cell.Hexagonal, cell.Rhombohedral, cell.Orthorhombic, cell.Monoclinic, cell.Triclinic}
-
 // A settingsForm holds the settings dialog's fields: every analysis
 // setting of the command line that the steps do not show, and the paper
 // size of the report.
@@ -64,7 +61,7 @@ func newSettingsForm(s analysis.Settings, paper report.Paper) *settingsForm {
 		f.unindexed.SetText("0")
 	}
 	var names, on []string
-	for _, sys := range allSystems {
+	for _, sys := range cell.Systems {
 		names = append(names, sys.String())
 	}
 	f.systems = widget.NewCheckGroup(names, nil)
@@ -162,7 +159,7 @@ func (f *settingsForm) apply(s analysis.Settings) (analysis.Settings, report.Pap
 	if len(f.systems.Selected) == 0 {
 		return s, "", fmt.Errorf("Systems searched: choose at least one")
 	}
-	if len(f.systems.Selected) < len(allSystems) {
+	if len(f.systems.Selected) < len(cell.Systems) {
 		for _, name := range f.systems.Selected {
 			sys, err := cell.ParseSystem(name)
 			if err != nil {

@@ -5,7 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"strings"
+	"sort"
 
 	"reticle/cell"
 	"reticle/profile"
@@ -19,8 +19,8 @@ type PatternOptions struct {
 	// Radius is the goniometer radius, mm; zero means DefaultRadius.
 	Radius float64
 	// Corrections are refined with the cell: Zero, Displacement or
-	// both; None refines neither; Auto lets the pattern choose (see
-	// FitPattern). Transparency is not refined here.
+	// both; None refines neither. Auto and Transparency are not taken
+	// here.
 	Corrections Corrections
 	// Width and Eta start the profile: the Caglioti width law and the
 	// Lorentzian fraction, e.g. those the peak extraction measured.
@@ -35,7 +35,8 @@ type PatternOptions struct {
 }
 
 // broadIter bounds the iterations of each broadened stage, which only
-// draw the cell in: the last stage refines everything to convergence.
+// draw the cell in: the last stage refines everything to convergence
+// (BENCHMARKS.md has the bound's effect on the public sets).
 const broadIter = 30
 
 // DefaultBackgroundTerms is the number of Chebyshev polynomial terms of
@@ -52,7 +53,7 @@ type PatternReflection struct {
 	Mult         int
 	TwoTheta     float64 // K-alpha1, corrections included, degrees
 	Intensity    float64
-	IntensityESD float64
+	IntensityESD float64 // zero when no point determines the intensity
 }
 
 // A PatternResult is a whole-pattern fit of one cell.
@@ -64,9 +65,6 @@ type PatternResult struct {
 	VolumeESD  float64
 
 	Corrections Corrections
-	// CorrectionChoice says how the corrections were chosen, when the
-	// pattern chose them (Auto).
-	CorrectionChoice string
 	// Params are the refined cell, corrections and profile parameters
 	// (U, V, W in degrees², eta) with their esds.
 	Params      []Param
@@ -104,6 +102,7 @@ type patternFit struct {
 	iBg, nb   int   // background terms
 	iI        int   // first intensity
 	lo, hi    float64
+	cheb      [][]float64 // the background's Chebyshev terms at each point
 }
 
 // FitPattern fits every point of a scan (2θ x in degrees, counts y with
@@ -116,46 +115,7 @@ type patternFit struct {
 // model yet), and a Chebyshev background. The least squares are solved by
 // Levenberg–Marquardt over the sparse Jacobian (each point depends on the
 // few lines near it). The context cancels the work between iterations.
-//
-// With Auto among the corrections, the pattern itself chooses them: the
-// fits with none, the zero shift, the displacement and both are made and
-// the one of lowest BIC (Schwarz 1978; χ² + k·ln N over the N points) is
-// kept, as the peak refinement chooses on its lines; the whole pattern
-// separates the two shifts far better than a few peak positions do.
 func FitPattern(ctx context.Context, c cell.Cell, x, y, sig []float64, opt PatternOptions) (*PatternResult, error) {
-	if !opt.Corrections.Has(Auto) {
-		return fitPattern(ctx, c, x, y, sig, opt)
-	}
-	var best *PatternResult
-	var bestBIC float64
-	var lastErr error
-	var report []string
-	for _, m := range []Corrections{None, Zero, Displacement, Zero | Displacement} {
-		o := opt
-		o.Corrections = m
-		r, err := fitPattern(ctx, c, x, y, sig, o)
-		if err != nil {
-			if ctx.Err() != nil {
-				return nil, err
-			}
-			lastErr = err
-			continue
-		}
-		bic := r.Chi2*float64(r.Points-r.Parameters) + float64(r.Parameters)*math.Log(float64(r.Points))
-		report = append(report, fmt.Sprintf("%s %.1f", m, bic))
-		if best == nil || bic < bestBIC {
-			best, bestBIC = r, bic
-		}
-	}
-	if best == nil {
-		return nil, lastErr
-	}
-	best.CorrectionChoice = fmt.Sprintf("%s, chosen by the lowest BIC of the whole-pattern fits (%s)", best.Corrections, strings.Join(report, ", "))
-	return best, nil
-}
-
-// fitPattern is FitPattern with the corrections given.
-func fitPattern(ctx context.Context, c cell.Cell, x, y, sig []float64, opt PatternOptions) (*PatternResult, error) {
 	if err := c.Check(); err != nil {
 		return nil, fmt.Errorf("%w: %w", ErrPattern, err)
 	}
@@ -210,6 +170,11 @@ func fitPattern(ctx context.Context, c cell.Cell, x, y, sig []float64, opt Patte
 	pf.iU = pf.nr + pf.nc
 	pf.iBg, pf.nb = pf.iU+4, opt.Background
 	pf.iI = pf.iBg + pf.nb
+	pf.cheb = make([][]float64, len(x))
+	for i, xi := range x {
+		pf.cheb[i] = make([]float64, pf.nb)
+		chebyshev(2*(xi-pf.lo)/(pf.hi-pf.lo)-1, pf.cheb[i])
+	}
 	k := pf.iI + len(pf.refl)
 	if k >= len(x)/2 {
 		return nil, fmt.Errorf("%w: %d parameters (%d reflections) for %d points: too many reflections for the range; a shorter range or a smaller cell", ErrPattern, k, len(pf.refl), len(x))
@@ -333,21 +298,16 @@ func (pf *patternFit) startLinear(p []float64) {
 	}
 }
 
-// nearest returns the index of the point nearest tt.
+// nearest returns the index of the point nearest tt (x increasing).
 func nearest(x []float64, tt float64) int {
-	lo, hi := 0, len(x)-1
-	for hi-lo > 1 {
-		m := (lo + hi) / 2
-		if x[m] < tt {
-			lo = m
-		} else {
-			hi = m
-		}
+	i := sort.SearchFloat64s(x, tt)
+	switch {
+	case i == len(x):
+		return i - 1
+	case i > 0 && tt-x[i-1] < x[i]-tt:
+		return i - 1
 	}
-	if math.Abs(x[hi]-tt) < math.Abs(x[lo]-tt) {
-		return hi
-	}
-	return lo
+	return i
 }
 
 // countNear counts the other lines within a width of tt.

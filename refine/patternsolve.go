@@ -29,14 +29,11 @@ func (pf *patternFit) evaluate(p []float64, rows []sparseRow) (res, calc, bg []f
 	eta := p[pf.iU+3]
 	af := profile.AreaFactor(eta)
 	daf := math.Pi/2 - math.Sqrt(math.Pi/(4*math.Ln2)) // dAF/dη
-	cb := make([]float64, pf.nb)
-	span := pf.hi - pf.lo
 	// Lines sorted by position come from increasing Q; a window of
 	// candidate lines slides along the points.
 	first := 0
 	for i, x := range pf.x {
-		u := 2*(x-pf.lo)/span - 1
-		chebyshev(u, cb)
+		cb := pf.cheb[i]
 		var c float64
 		for j, b := range cb {
 			c += p[pf.iBg+j] * b
@@ -150,10 +147,10 @@ func normalEquations(rows []sparseRow, res []float64, k int) (*mat.SymDense, []f
 
 // patternSolution is the state at the end of the iterations.
 type patternSolution struct {
-	p             []float64
-	res, calc, bg []float64
-	a             *mat.SymDense // JᵀJ at p
-	chi2          float64
+	p        []float64
+	calc, bg []float64
+	a        *mat.SymDense // JᵀJ at p
+	chi2     float64
 }
 
 // convergedShare is the relative decrease of χ² below which the fit has
@@ -273,7 +270,7 @@ func (pf *patternFit) solve(ctx context.Context, p []float64, maxIter int, fixed
 		return nil, iter, fmt.Errorf("%w: the fit diverged (χ² not finite); the cell is far from the data", ErrPattern)
 	}
 	a, _ := normalEquations(rows, res, k)
-	return &patternSolution{p: p, res: res, calc: calc, bg: bg, a: a, chi2: chi}, iter, nil
+	return &patternSolution{p: p, calc: calc, bg: bg, a: a, chi2: chi}, iter, nil
 }
 
 // project holds parameters to their bounds.
@@ -344,20 +341,21 @@ func (pf *patternFit) result(s *patternSolution, iter int, opt PatternOptions) (
 	if out.Chi2 > 1 {
 		scale, out.Scaled = out.Chi2, true
 	}
+	// pos[j] is parameter j's place among the live ones, −1 for none.
+	pos := make([]int, k)
+	for j := range pos {
+		pos[j] = -1
+	}
+	for x, l := range live {
+		pos[l] = x
+	}
+	// cov is the covariance of two parameters; an esd is zero for a
+	// parameter no point depends on.
 	cov := func(i, j int) float64 {
-		a, b := -1, -1
-		for x, l := range live {
-			if l == i {
-				a = x
-			}
-			if l == j {
-				b = x
-			}
+		if pos[i] < 0 || pos[j] < 0 {
+			return 0
 		}
-		if a < 0 || b < 0 {
-			return math.Inf(1)
-		}
-		return inv.At(a, b) * scale
+		return inv.At(pos[i], pos[j]) * scale
 	}
 	// The cell and its covariance through the reciprocal coefficients.
 	m := pf.m1

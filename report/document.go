@@ -262,6 +262,11 @@ type Param struct {
 	FromStandard bool    `json:"from_standard,omitempty"`
 }
 
+// NewParam converts one refined parameter.
+func NewParam(p refine.Param) Param {
+	return Param{Name: p.Name, Value: p.Value, ESD: p.ESD, Unit: p.Unit, Text: esd.Format(p.Value, p.ESD), FromStandard: p.Fixed}
+}
+
 // A Residual is one line after the refinement.
 type Residual struct {
 	HKL          []cell.HKL `json:"hkl"`
@@ -358,7 +363,7 @@ func NewRefined(r *refine.Result) Refined {
 		j.Transparency, j.TransparencyESD = &d, &e
 	}
 	for _, p := range r.Params {
-		j.Params = append(j.Params, Param{Name: p.Name, Value: p.Value, ESD: p.ESD, Unit: p.Unit, Text: esd.Format(p.Value, p.ESD), FromStandard: p.Fixed})
+		j.Params = append(j.Params, NewParam(p))
 	}
 	for _, rr := range r.Residuals {
 		j.Residuals = append(j.Residuals, NewResidual(rr))

@@ -53,7 +53,6 @@ type fitDocJSON struct {
 	Points      int         `json:"points"`
 	Parameters  int         `json:"parameters"`
 	Corrections string      `json:"corrections"`
-	Choice      string      `json:"correction_choice,omitempty"`
 	ESDScaling  string      `json:"esd_scaling"`
 	Phases      []phaseJSON `json:"phases"`
 	Warnings    []string    `json:"warnings"`
@@ -75,11 +74,13 @@ func cmdFitRun(ctx context.Context, args []string, stdout, stderr io.Writer) int
 	}
 	var docs []fitDocJSON
 	status := 0
-	for _, path := range files {
+	done := make([]bool, len(files))
+	for i, path := range files {
 		if ctx.Err() != nil {
-			return 130
+			return interrupted(cmdFit, files, done, stderr)
 		}
 		doc, err := fitFile(ctx, path, r)
+		done[i] = err == nil
 		if err != nil {
 			fmt.Fprintf(stderr, "reticle fit: %v\n", err)
 			status = 1
@@ -90,6 +91,9 @@ func cmdFitRun(ctx context.Context, args []string, stdout, stderr io.Writer) int
 		} else {
 			printFit(stdout, doc)
 		}
+	}
+	if ctx.Err() != nil {
+		return interrupted(cmdFit, files, done, stderr)
 	}
 	if r.json && len(docs) > 0 {
 		if err := encodeDocs(stdout, docs); err != nil {
@@ -119,13 +123,13 @@ func fitFile(ctx context.Context, path string, r *request) (fitDocJSON, error) {
 	}
 	doc := fitDocJSON{ScanInfo: report.NewScanInfo(e.Scan, e.Result.Radiation), StartCell: r.cellText, CellValues: cv,
 		Rp: 100 * f.Rp, Rwp: 100 * f.Rwp, Rexp: 100 * f.Rexp, Chi2: f.Chi2, GoF: f.GoF, Points: f.Points, Parameters: f.Parameters,
-		Corrections: f.Corrections.String(), Choice: f.CorrectionChoice, ESDScaling: scaling, Warnings: append([]string{}, f.Warnings...)}
+		Corrections: f.Corrections.String(), ESDScaling: scaling, Warnings: append([]string{}, f.Warnings...)}
 	ph := phaseJSON{CellValues: cv, Parameters: []report.Param{}, Reflections: []reflectionJSON{}}
 	for _, p := range f.Params {
-		ph.Parameters = append(ph.Parameters, report.Param{Name: p.Name, Value: p.Value, ESD: p.ESD, Unit: p.Unit, Text: esd.Format(p.Value, p.ESD)})
+		ph.Parameters = append(ph.Parameters, report.NewParam(p))
 	}
 	for _, rf := range f.Reflections {
-		ph.Reflections = append(ph.Reflections, reflectionJSON{HKL: rf.HKL, Multiplicity: rf.Mult, TwoTheta: rf.TwoTheta, Intensity: rf.Intensity, IntensityESD: finiteOrZero(rf.IntensityESD)})
+		ph.Reflections = append(ph.Reflections, reflectionJSON{HKL: rf.HKL, Multiplicity: rf.Mult, TwoTheta: rf.TwoTheta, Intensity: rf.Intensity, IntensityESD: rf.IntensityESD})
 	}
 	doc.Phases = []phaseJSON{ph}
 	if r.curves {
@@ -138,23 +142,11 @@ func fitFile(ctx context.Context, path string, r *request) (fitDocJSON, error) {
 	return doc, nil
 }
 
-// finiteOrZero keeps JSON free of infinities (an intensity held at its
-// bound has no esd).
-func finiteOrZero(v float64) float64 {
-	if v != v || v > 1e300 || v < -1e300 {
-		return 0
-	}
-	return v
-}
-
 func printFit(w io.Writer, d fitDocJSON) {
 	fmt.Fprintf(w, "%s  %s, λ = %.7f Å\n", d.File, d.Radiation, d.Wavelength)
 	fmt.Fprintf(w, "whole-pattern fit from %s (Pawley; %d points, %d parameters, corrections %s):\n", d.StartCell, d.Points, d.Parameters, d.Corrections)
 	fmt.Fprintf(w, "  cell  %s   V = %s Å³\n", d.CellValues.Text, esd.Format(d.Volume, d.VolumeESD))
 	fmt.Fprintf(w, "  Rp %.2f %%  Rwp %.2f %%  Rexp %.2f %%  χ²_red %.3f  GoF %.3f\n", d.Rp, d.Rwp, d.Rexp, d.Chi2, d.GoF)
-	if d.Choice != "" {
-		fmt.Fprintf(w, "  corrections %s\n", d.Choice)
-	}
 	fmt.Fprintf(w, "  %s\n", d.ESDScaling)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	for _, p := range d.Phases[0].Parameters {
