@@ -17,6 +17,17 @@ type Matching struct {
 	Tolerance float64
 }
 
+// Window returns the half window, degrees 2θ, within which a calculated
+// line claims an observed line of esd esd (degrees 2θ): Tolerance or
+// three esds, whichever is wider.
+func (m Matching) Window(esd float64) float64 {
+	t := m.Tolerance
+	if t == 0 {
+		t = cell.MatchTolerance
+	}
+	return math.Max(t, 3*esd)
+}
+
 // startSlack is the extra window, degrees 2θ, of the first assignment
 // passes when an internal standard of known cell is sought: the
 // instrument's offsets must be within about this.
@@ -186,7 +197,7 @@ func assign(c cell.Cell, lines []Observation, o Options, v shifts, m Matching, w
 		std = calcLines(o.Standard.Cell, o, v, ttmax)
 	}
 	for _, l := range lines {
-		w := math.Max(m.Tolerance, 3*l.ESD) + win.at(l.TwoTheta)
+		w := m.Window(l.ESD) + win.at(l.TwoTheta)
 		a, da, na := nearestCalc(own, l.TwoTheta, w)
 		b, db, nb := nearestCalc(std, l.TwoTheta, w)
 		okA, okB := da <= w, db <= w

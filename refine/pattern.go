@@ -18,21 +18,35 @@ type PatternOptions struct {
 	Lambda1, Lambda2, Ratio2 float64
 	// Radius is the goniometer radius, mm; zero means DefaultRadius.
 	Radius float64
-	// Corrections are refined with the cell: Zero, Displacement or
+	// Corrections are refined with the cells: Zero, Displacement or
 	// both; None refines neither. Auto and Transparency are not taken
 	// here.
 	Corrections Corrections
-	// Width and Eta start the profile: the Caglioti width law and the
-	// Lorentzian fraction, e.g. those the peak extraction measured.
-	// A zero Width means FWHM 0.1° everywhere; Eta 0 means 0.5.
+	// Width and Eta start every phase's profile: the Caglioti width law
+	// and the Lorentzian fraction, e.g. those the peak extraction
+	// measured. A zero Width means FWHM 0.1° everywhere; Eta 0 means 0.5.
 	Width profile.Caglioti
 	Eta   float64
+	// Asymmetry starts the instrument's asymmetry law (profile.Asymmetry,
+	// split pseudo-Voigt lines), shared by all phases. Its terms up to
+	// the highest nonzero one are refined; a zero law means symmetric
+	// lines, with no asymmetry refined.
+	Asymmetry profile.Asymmetry
+	// Tail is the ratio of the lines' Lorentzian to Gaussian width
+	// (profile.LineShape), held; zero means 1, plain pseudo-Voigt lines.
+	Tail float64
 	// Background is the number of Chebyshev terms of the background;
 	// zero means DefaultBackgroundTerms.
 	Background int
-	// MaxIter bounds the Levenberg–Marquardt iterations; zero means 80.
+	// MaxIter bounds the Levenberg–Marquardt iterations; zero means 400.
 	MaxIter int
 }
+
+// settledShare is the share of a broadened stage's width by which the
+// lines still move in an iteration when the stage has done its work:
+// the lines then sit well inside the next, narrower stage's reach, and
+// the narrower stage finishes what the broad one only draws in.
+const settledShare = 0.05
 
 // broadIter bounds the iterations of each broadened stage, which only
 // draw the cell in: the last stage refines everything to convergence
@@ -44,7 +58,7 @@ const broadIter = 30
 // practice uses 4 to 12).
 const DefaultBackgroundTerms = 8
 
-// A PatternReflection is one position of the fitted pattern: every
+// A PatternReflection is one position of a fitted phase: every
 // reflection of one d-spacing (exact overlaps, which no fit can share
 // out, take one intensity), with its integrated intensity (counts ×
 // degrees 2θ, K-alpha1 part).
@@ -56,19 +70,41 @@ type PatternReflection struct {
 	IntensityESD float64 // zero when no point determines the intensity
 }
 
-// A PatternResult is a whole-pattern fit of one cell.
-type PatternResult struct {
+// A PatternPhase is one phase of a whole-pattern fit.
+type PatternPhase struct {
 	Cell       cell.Cell
 	ESD        cell.ESD
 	Covariance cell.Covariance
 	Volume     float64 // Å³
 	VolumeESD  float64
-
-	Corrections Corrections
-	// Params are the refined cell, corrections and profile parameters
-	// (U, V, W in degrees², eta) with their esds.
+	// Params are the phase's refined cell and profile parameters (U, V,
+	// W in degrees², eta) with their esds.
 	Params      []Param
 	Reflections []PatternReflection
+	// Calc is the phase's lines at each point, background excluded.
+	Calc []float64
+}
+
+// A Correlation is the correlation coefficient of two refined
+// parameters.
+type Correlation struct {
+	A, B string
+	R    float64
+}
+
+// A PatternResult is a whole-pattern fit of one or more phases.
+type PatternResult struct {
+	// Phases are the fitted phases in the order given, the first the
+	// main phase.
+	Phases      []PatternPhase
+	Corrections Corrections
+	// Params are the parameters all phases share: the corrections and
+	// the asymmetry terms.
+	Params []Param
+	// Correlations are the strongest correlations among the refined
+	// parameters other than intensities and background terms,
+	// strongest first (at most MaxCorrelations, |r| ≥ 0.5).
+	Correlations []Correlation
 	// Calc and Background are the fitted curve and its background at
 	// each point.
 	Calc, Background []float64
@@ -86,38 +122,71 @@ type PatternResult struct {
 	Warnings []string
 }
 
+// MaxCorrelations bounds PatternResult.Correlations.
+const MaxCorrelations = 6
+
 // ErrPattern: the pattern cannot be fitted with the cell.
 var ErrPattern = errors.New("whole-pattern fit")
 
-// patternFit holds one fit's data and layout of parameters.
+// phaseFit is one phase's models and place in the parameter vector.
+type phaseFit struct {
+	cen    cell.Centring
+	m1, m2 *model
+	nr     int // free reciprocal coefficients
+	iR, iU int // first coefficient; U, V, W, eta
+}
+
+// patternRefl is one fitted position of a phase.
+type patternRefl struct {
+	cell.Reflection
+	phase int
+}
+
+// patternFit holds one fit's data and layout of parameters: the
+// parameters that many points share (corrections, asymmetry terms,
+// background terms, each phase's cell and profile) come first, the
+// intensities after them in order of position, so that the intensities'
+// block of the normal matrix is banded.
 type patternFit struct {
 	x, y, sig []float64
-	m1, m2    *model
 	ratio     float64
-	cen       cell.Centring
-	refl      []cell.Reflection
+	tail      float64
+	phases    []phaseFit
+	refl      []patternRefl
 	corr      []int // indices in shifts of the refined corrections
-	nr, nc    int   // reciprocal coefficients, corrections
-	iU        int   // U, V, W, eta follow
+	iA, nA    int   // asymmetry terms
 	iBg, nb   int   // background terms
-	iI        int   // first intensity
+	iI        int   // first intensity; the number of shared parameters
 	lo, hi    float64
 	cheb      [][]float64 // the background's Chebyshev terms at each point
 }
 
 // FitPattern fits every point of a scan (2θ x in degrees, counts y with
-// esds sig) with the cell c, as Pawley (J. Appl. Cryst. 14 (1981) 357)
-// described: the cell constrained by its system, a free integrated
-// intensity for each distinct d-spacing (bounded below by zero), the
-// K-alpha doublet with its ratio, the instrument corrections chosen, a
-// Caglioti width law (Caglioti, Paoletti & Ricci 1958) with one
-// pseudo-Voigt mixing η for all lines (symmetric lines: no asymmetry
-// model yet), and a Chebyshev background. The least squares are solved by
-// Levenberg–Marquardt over the sparse Jacobian (each point depends on the
-// few lines near it). The context cancels the work between iterations.
+// esds sig) with the cell c: FitPhases with one phase.
 func FitPattern(ctx context.Context, c cell.Cell, x, y, sig []float64, opt PatternOptions) (*PatternResult, error) {
-	if err := c.Check(); err != nil {
-		return nil, fmt.Errorf("%w: %w", ErrPattern, err)
+	return FitPhases(ctx, []cell.Cell{c}, x, y, sig, opt)
+}
+
+// FitPhases fits every point of a scan (2θ x in degrees, counts y with
+// esds sig) with one or more phases, as Pawley (J. Appl. Cryst. 14
+// (1981) 357) described: each cell constrained by its system, a free
+// integrated intensity for each distinct d-spacing of each phase
+// (bounded below by zero), each phase's Caglioti width law (Caglioti,
+// Paoletti & Ricci 1958) with one pseudo-Voigt mixing η, the instrument's
+// split pseudo-Voigt asymmetry (Toraya, J. Appl. Cryst. 23 (1990) 485;
+// the angular law of profile.Asymmetry), the K-alpha doublet with its
+// ratio, the instrument corrections chosen, and a Chebyshev background.
+// The least squares are solved by Levenberg–Marquardt over the sparse
+// Jacobian (each point depends on the few lines near it). The context
+// cancels the work between iterations.
+func FitPhases(ctx context.Context, cells []cell.Cell, x, y, sig []float64, opt PatternOptions) (*PatternResult, error) {
+	if len(cells) == 0 {
+		return nil, fmt.Errorf("%w: no cell", ErrPattern)
+	}
+	for i, c := range cells {
+		if err := c.Check(); err != nil {
+			return nil, fmt.Errorf("%w: phase %d: %w", ErrPattern, i+1, err)
+		}
 	}
 	if len(x) != len(y) || len(sig) != len(y) {
 		return nil, fmt.Errorf("%w: %d angles, %d counts, %d esds", ErrPattern, len(x), len(y), len(sig))
@@ -125,70 +194,40 @@ func FitPattern(ctx context.Context, c cell.Cell, x, y, sig []float64, opt Patte
 	if len(x) < 50 {
 		return nil, fmt.Errorf("%w: %d points, too few for a whole-pattern fit (at least 50)", ErrPattern, len(x))
 	}
+	for i, s := range sig {
+		if !(s > 0) || math.IsInf(s, 0) || math.IsNaN(y[i]) || math.IsNaN(x[i]) {
+			return nil, fmt.Errorf("%w: point %d (%g° 2θ, %g counts, esd %g): an esd must be positive and every value a number", ErrPattern, i+1, x[i], y[i], s)
+		}
+		if i > 0 && !(x[i] > x[i-1]) {
+			return nil, fmt.Errorf("%w: point %d: 2θ %g° does not increase from %g°", ErrPattern, i+1, x[i], x[i-1])
+		}
+	}
 	if !(opt.Lambda1 > 0) {
 		return nil, fmt.Errorf("%w: wavelength %g Å", ErrPattern, opt.Lambda1)
 	}
-	if opt.Radius == 0 {
-		opt.Radius = DefaultRadius
+	opt = opt.withDefaults()
+	pf, p, err := newPatternFit(cells, x, y, sig, opt)
+	if err != nil {
+		return nil, err
 	}
-	if opt.Background <= 0 {
-		opt.Background = DefaultBackgroundTerms
-	}
-	if opt.MaxIter <= 0 {
-		opt.MaxIter = 400
-	}
-	if opt.Eta <= 0 || opt.Eta > 1 {
-		opt.Eta = 0.5
-	}
-	if opt.Width == (profile.Caglioti{}) {
-		opt.Width = profile.Caglioti{W: 0.01}
-	}
-	pf := &patternFit{x: x, y: y, sig: sig, cen: c.Centring, lo: x[0], hi: x[len(x)-1]}
-	pf.m1 = newModel(c.System, opt.Lambda1, opt.Radius)
-	if opt.Lambda2 > 0 && opt.Ratio2 > 0 {
-		pf.m2, pf.ratio = newModel(c.System, opt.Lambda2, opt.Radius), opt.Ratio2
-	}
-	for i, n := range corrNames {
-		if opt.Corrections.Has(n.c) && n.c != Transparency {
-			pf.corr = append(pf.corr, i)
+	k := len(p)
+	setProfile := func(w profile.Caglioti, eta float64) {
+		for _, ph := range pf.phases {
+			p[ph.iU], p[ph.iU+1], p[ph.iU+2], p[ph.iU+3] = w.U, w.V, w.W, eta
 		}
 	}
-	r0 := start(c)
-	pf.nr, pf.nc = len(r0), len(pf.corr)
-	pf.refl = cell.Reflections(c, cell.QOf(math.Min(pf.hi+1, 179), opt.Lambda1))
-	// Reflections whose lines lie wholly below the scan add nothing.
-	var kept []cell.Reflection
-	for _, r := range pf.refl {
-		if tt := cell.TwoThetaOfQ(r.Q, opt.Lambda1); tt > pf.lo-1 {
-			kept = append(kept, r)
-		}
-	}
-	pf.refl = mergeClose(kept, opt)
-	if len(pf.refl) == 0 {
-		return nil, fmt.Errorf("%w: the cell has no reflection within %.2f–%.2f° 2θ", ErrPattern, pf.lo, pf.hi)
-	}
-	pf.iU = pf.nr + pf.nc
-	pf.iBg, pf.nb = pf.iU+4, opt.Background
-	pf.iI = pf.iBg + pf.nb
-	pf.cheb = make([][]float64, len(x))
-	for i, xi := range x {
-		pf.cheb[i] = make([]float64, pf.nb)
-		chebyshev(2*(xi-pf.lo)/(pf.hi-pf.lo)-1, pf.cheb[i])
-	}
-	k := pf.iI + len(pf.refl)
-	if k >= len(x)/2 {
-		return nil, fmt.Errorf("%w: %d parameters (%d reflections) for %d points: too many reflections for the range; a shorter range or a smaller cell", ErrPattern, k, len(pf.refl), len(x))
-	}
-	p := make([]float64, k)
-	copy(p, r0)
-	p[pf.iU], p[pf.iU+1], p[pf.iU+2], p[pf.iU+3] = opt.Width.U, opt.Width.V, opt.Width.W, opt.Eta
 	// Continuation: the lines are first broadened to FWHM 0.4° and then
 	// 0.15° with the profile held, so that a cell a few tenths of a per
 	// cent off, whose lines miss their peaks by more than a width at
 	// high angle, is drawn in before the widths are fitted (each stage
 	// starts where the broader one ended).
 	fixed := make([]bool, k)
-	for j := pf.iU; j < pf.iU+4; j++ {
+	for _, ph := range pf.phases {
+		for j := ph.iU; j < ph.iU+4; j++ {
+			fixed[j] = true
+		}
+	}
+	for j := pf.iA; j < pf.iA+pf.nA; j++ {
 		fixed[j] = true
 	}
 	iter := 0
@@ -196,136 +235,126 @@ func FitPattern(ctx context.Context, c cell.Cell, x, y, sig []float64, opt Patte
 		if math.Sqrt(opt.Width.W) >= fw {
 			continue
 		}
-		p[pf.iU], p[pf.iU+1], p[pf.iU+2] = 0, 0, fw*fw
+		setProfile(profile.Caglioti{W: fw * fw}, opt.Eta)
 		pf.startLinear(p)
-		sol, it, err := pf.solve(ctx, p, min(opt.MaxIter, broadIter), fixed)
+		sol, it, err := pf.solve(ctx, p, min(opt.MaxIter, broadIter), fixed, settledShare*fw)
 		if err != nil {
 			return nil, err
 		}
 		copy(p, sol.p)
 		iter += it
 	}
-	p[pf.iU], p[pf.iU+1], p[pf.iU+2], p[pf.iU+3] = opt.Width.U, opt.Width.V, opt.Width.W, opt.Eta
+	setProfile(opt.Width, opt.Eta)
 	pf.startLinear(p)
-	sol, it, err := pf.solve(ctx, p, opt.MaxIter, nil)
+	sol, it, err := pf.solve(ctx, p, opt.MaxIter, nil, 0)
 	if err != nil {
 		return nil, err
 	}
 	return pf.result(sol, iter+it, opt)
 }
 
-// width returns the FWHM and its derivatives with respect to U, V, W at
-// 2θ tt.
-func width(p []float64, iU int, tt float64) (w, dU, dV, dW float64) {
-	t := math.Tan(tt * deg / 2)
-	w2 := p[iU]*t*t + p[iU+1]*t + p[iU+2]
-	w = math.Sqrt(math.Max(w2, 1e-8))
-	return w, t * t / (2 * w), t / (2 * w), 1 / (2 * w)
-}
-
-// chebyshev fills b with T_0..T_{n−1} at u in [−1, 1].
-func chebyshev(u float64, b []float64) {
-	for j := range b {
-		switch j {
-		case 0:
-			b[j] = 1
-		case 1:
-			b[j] = u
-		default:
-			b[j] = 2*u*b[j-1] - b[j-2]
+// newPatternFit lays out the parameters of a fit of the cells and
+// returns their starting values.
+func newPatternFit(cells []cell.Cell, x, y, sig []float64, opt PatternOptions) (*patternFit, []float64, error) {
+	pf := &patternFit{x: x, y: y, sig: sig, tail: opt.Tail, lo: x[0], hi: x[len(x)-1]}
+	if opt.Lambda2 > 0 && opt.Ratio2 > 0 {
+		pf.ratio = opt.Ratio2
+	}
+	for i, n := range corrNames {
+		if opt.Corrections.Has(n.c) && n.c != Transparency {
+			pf.corr = append(pf.corr, i)
 		}
 	}
-}
-
-// line is one reflection's lines at the current parameters.
-type line struct {
-	tt1, tt2 float64 // K-alpha1, K-alpha2 positions (tt2 NaN when none)
-	d1, d2   []float64
-	c1, c2   shifts
-	w1, w2   float64 // FWHM at each
-	g1, g2   [3]float64
-	reach    float64 // half window, degrees
-	ok       bool
-}
-
-func (pf *patternFit) lines(p []float64) []line {
-	var corr shifts
-	for j, i := range pf.corr {
-		corr[i] = p[pf.nr+j]
+	pf.iA = len(pf.corr)
+	for j := range opt.Asymmetry.C {
+		if opt.Asymmetry.C[j] != 0 {
+			pf.nA = j + 1
+		}
 	}
-	r := p[:pf.nr]
-	out := make([]line, len(pf.refl))
-	for k, rf := range pf.refl {
-		pt := pf.m1.eval(r, rf.HKL[0], corr)
-		if !pt.inside {
-			continue
+	pf.iBg, pf.nb = pf.iA+pf.nA, opt.Background
+	next := pf.iBg + pf.nb
+	for i, c := range cells {
+		ph := phaseFit{cen: c.Centring, m1: newModel(c.System, opt.Lambda1, opt.Radius)}
+		if pf.ratio > 0 {
+			ph.m2 = newModel(c.System, opt.Lambda2, opt.Radius)
 		}
-		l := line{tt1: pt.tt, d1: pt.dR, c1: pt.dCorr, tt2: math.NaN(), ok: true}
-		var dU, dV, dW float64
-		l.w1, dU, dV, dW = width(p, pf.iU, l.tt1)
-		l.g1 = [3]float64{dU, dV, dW}
-		if pf.m2 != nil {
-			if q := pf.m2.eval(r, rf.HKL[0], corr); q.inside {
-				l.tt2, l.d2, l.c2 = q.tt, q.dR, q.dCorr
-				l.w2, dU, dV, dW = width(p, pf.iU, l.tt2)
-				l.g2 = [3]float64{dU, dV, dW}
-			}
+		ph.nr = len(start(c))
+		ph.iR, ph.iU = next, next+ph.nr
+		next = ph.iU + 4
+		pf.phases = append(pf.phases, ph)
+		n := len(pf.refl)
+		pf.refl = append(pf.refl, phaseReflections(c, i, pf.lo, pf.hi, opt)...)
+		if len(pf.refl) == n {
+			return nil, nil, fmt.Errorf("%w: phase %d (%s) has no reflection within %.2f–%.2f° 2θ", ErrPattern, i+1, c, pf.lo, pf.hi)
 		}
-		// Beyond 25 FWHM a Lorentzian keeps under 0.04 % of its height.
-		l.reach = 25 * math.Max(l.w1, l.w2)
-		out[k] = l
+	}
+	pf.iI = next
+	// Intensities in order of position, all phases together.
+	sort.SliceStable(pf.refl, func(a, b int) bool { return pf.refl[a].Q < pf.refl[b].Q })
+	pf.cheb = make([][]float64, len(x))
+	for i, xi := range x {
+		pf.cheb[i] = make([]float64, pf.nb)
+		chebyshev(2*(xi-pf.lo)/(pf.hi-pf.lo)-1, pf.cheb[i])
+	}
+	k := pf.iI + len(pf.refl)
+	if k >= len(x)/2 {
+		return nil, nil, fmt.Errorf("%w: %d parameters (%d reflections) for %d points: too many reflections for the range; a shorter range or a smaller cell", ErrPattern, k, len(pf.refl), len(x))
+	}
+	p := make([]float64, k)
+	for i, c := range cells {
+		copy(p[pf.phases[i].iR:], start(c))
+	}
+	copy(p[pf.iA:], opt.Asymmetry.C[:pf.nA])
+	return pf, p, nil
+}
+
+func (o PatternOptions) withDefaults() PatternOptions {
+	if o.Radius == 0 {
+		o.Radius = DefaultRadius
+	}
+	if o.Background <= 0 {
+		o.Background = DefaultBackgroundTerms
+	}
+	if o.MaxIter <= 0 {
+		o.MaxIter = 400
+	}
+	if o.Eta <= 0 || o.Eta > 1 {
+		o.Eta = 0.5
+	}
+	if o.Width == (profile.Caglioti{}) {
+		o.Width = profile.Caglioti{W: 0.01}
+	}
+	if !(o.Tail >= 1) {
+		o.Tail = 1
+	}
+	return o
+}
+
+// phaseReflections returns the reflections of c whose K-alpha1 lines lie
+// within the range lo..hi degrees 2θ or half a width beyond its ends,
+// those closer than closeShare of a width joined. A line further out
+// shows the scan only its tail, which determines no intensity (the
+// background takes it up).
+func phaseReflections(c cell.Cell, phase int, lo, hi float64, opt PatternOptions) []patternRefl {
+	var kept []cell.Reflection
+	for _, r := range cell.Reflections(c, cell.QOf(math.Min(hi+1, 179), opt.Lambda1)) {
+		tt := cell.TwoThetaOfQ(r.Q, opt.Lambda1)
+		if w := opt.Width.At(tt) / 2; tt >= lo-w && tt <= hi+w {
+			kept = append(kept, r)
+		}
+	}
+	var out []patternRefl
+	for _, r := range mergeClose(kept, opt) {
+		out = append(out, patternRefl{Reflection: r, phase: phase})
 	}
 	return out
 }
 
-// startLinear sets the background to the lowest counts and each
-// intensity to the counts above it at the line.
-func (pf *patternFit) startLinear(p []float64) {
-	lo := math.Inf(1)
-	for _, v := range pf.y {
-		lo = math.Min(lo, v)
-	}
-	p[pf.iBg] = math.Max(lo, 0)
-	ls := pf.lines(p)
-	eta := p[pf.iU+3]
-	for k, l := range ls {
-		if !l.ok {
-			continue
-		}
-		i := nearest(pf.x, l.tt1)
-		h := math.Max(pf.y[i]-p[pf.iBg], 0)
-		p[pf.iI+k] = h * l.w1 * profile.AreaFactor(eta) / float64(1+countNear(ls, l.tt1, l.w1))
-	}
-}
-
-// nearest returns the index of the point nearest tt (x increasing).
-func nearest(x []float64, tt float64) int {
-	i := sort.SearchFloat64s(x, tt)
-	switch {
-	case i == len(x):
-		return i - 1
-	case i > 0 && tt-x[i-1] < x[i]-tt:
-		return i - 1
-	}
-	return i
-}
-
-// countNear counts the other lines within a width of tt.
-func countNear(ls []line, tt, w float64) int {
-	n := 0
-	for _, l := range ls {
-		if l.ok && l.tt1 != tt && math.Abs(l.tt1-tt) < w {
-			n++
-		}
-	}
-	return n
-}
-
 // closeShare is the separation, as a share of the FWHM, below which two
-// reflections take one intensity: their profiles then differ by under a
-// per cent of a line's height, far below any scan's noise, and their
-// intensities are not separately determined (Pawley's fit of exact and
-// near overlaps is singular).
+// reflections of a phase take one intensity: their profiles then differ
+// by under a per cent of a line's height, far below any scan's noise,
+// and their intensities are not separately determined (Pawley's fit of
+// exact and near overlaps is singular).
 const closeShare = 0.02
 
 // mergeClose joins reflections (in increasing Q) whose K-alpha1 lines lie
@@ -346,4 +375,18 @@ func mergeClose(refl []cell.Reflection, opt PatternOptions) []cell.Reflection {
 		prev = tt
 	}
 	return out
+}
+
+// chebyshev fills b with T_0..T_{n−1} at u in [−1, 1].
+func chebyshev(u float64, b []float64) {
+	for j := range b {
+		switch j {
+		case 0:
+			b[j] = 1
+		case 1:
+			b[j] = u
+		default:
+			b[j] = 2*u*b[j-1] - b[j-2]
+		}
+	}
 }

@@ -57,8 +57,8 @@ func TestFitPatternRecoversCell(t *testing.T) {
 		if err != nil {
 			t.Fatalf("%s: %v", c.truth, err)
 		}
-		got := r.Cell.Params()
-		esd := [6]float64{r.ESD.A, r.ESD.B, r.ESD.C}
+		got := r.Phases[0].Cell.Params()
+		esd := [6]float64{r.Phases[0].ESD.A, r.Phases[0].ESD.B, r.Phases[0].ESD.C}
 		for k := 0; k < 3; k++ {
 			if d := math.Abs(got[k] - p[k]); d > 3*esd[k] || !(esd[k] > 0) {
 				t.Errorf("%s: edge %d refined to %.6f(%.6f), truth %.6f", c.truth, k, got[k], esd[k], p[k])
@@ -76,7 +76,7 @@ func TestFitPatternRecoversCell(t *testing.T) {
 		if q := r.Rwp / r.Rexp; q > 1.3 || q < 0.8 {
 			t.Errorf("%s: Rwp %.4f, Rexp %.4f", c.truth, r.Rwp, r.Rexp)
 		}
-		t.Logf("%s: a %.6f(%.6f) Rwp %.4f Rexp %.4f GoF %.3f, %d reflections, %d iterations", c.truth, got[0], esd[0], r.Rwp, r.Rexp, r.GoF, len(r.Reflections), r.Iterations)
+		t.Logf("%s: a %.6f(%.6f) Rwp %.4f Rexp %.4f GoF %.3f, %d reflections, %d iterations", c.truth, got[0], esd[0], r.Rwp, r.Rexp, r.GoF, len(r.Phases[0].Reflections), r.Iterations)
 	}
 }
 
@@ -123,7 +123,8 @@ func BenchmarkFitPattern(b *testing.B) {
 		if err != nil {
 			b.Fatal(err)
 		}
-		b.ReportMetric(float64(len(r.Reflections)), "reflections")
+		b.ReportMetric(float64(len(r.Phases[0].Reflections)), "reflections")
 		b.ReportMetric(float64(r.Points), "points")
+		b.ReportMetric(float64(r.Iterations), "iterations")
 	}
 }

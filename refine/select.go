@@ -217,7 +217,14 @@ func refineAuto(ctx context.Context, c cell.Cell, obs []Observation, opt Options
 		}
 	}
 	if best < 0 {
-		return nil, firstErr
+		if len(sel.Models) == 1 {
+			return nil, firstErr
+		}
+		var why []string
+		for _, m := range sel.Models {
+			why = append(why, fmt.Sprintf("%s: %s", m.Corrections, m.Err))
+		}
+		return nil, fmt.Errorf("no model of the corrections fits (%s): %w", strings.Join(why, "; "), firstErr)
 	}
 	total := 0.0
 	for i := range sel.Models {

@@ -24,6 +24,10 @@ func cmdContentsRun(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintln(stderr, "reticle contents: --cell and --formula are required, e.g. --cell 'cubic F a=5.6402(3)' --formula NaCl --z 4")
 		return 2
 	}
+	if len(r.more) > 0 {
+		fmt.Fprintln(stderr, "reticle contents: --cell given more than once; contents takes one cell")
+		return 2
+	}
 	_, e, _ := cell.Parse(r.cellText)
 	cov := cell.IndependentCovariance(r.cell.System, e)
 	c, err := analysis.Contents(*r.cell, cov, s)

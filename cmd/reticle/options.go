@@ -39,14 +39,18 @@ type request struct {
 	json     bool
 	cell     *cell.Cell // --cell
 	cellText string
-	out      string // report
-	paper    string
-	force    bool
-	session  string
-	solution int
-	jobs     int    // scans analysed at once
-	summary  string // base path of the batch summary table
-	curves   bool   // fit: the observed, calculated and difference curves in the JSON
+	// more are the further --cell values, the further phases of fit, with
+	// their texts.
+	more      []cell.Cell
+	moreTexts []string
+	out       string // report
+	paper     string
+	force     bool
+	session   string
+	solution  int
+	jobs      int    // scans analysed at once
+	summary   string // base path of the batch summary table
+	curves    bool   // fit: the observed, calculated and difference curves in the JSON
 }
 
 // An option is one command-line option: its name, the placeholder of its
@@ -181,11 +185,15 @@ var options = []option{
 			return nil
 		}},
 	{name: "cell", arg: "CELL", in: cmdRefine | cmdContents | cmdFit, def: "required",
-		help: "the cell, e.g. 'tetragonal P a=4.59 c=2.96' or 'monoclinic C a=9.41 b=5.38 c=6.12 beta=102.4'; values may carry esds, a=5.6402(3)",
+		help: "the cell, e.g. 'tetragonal P a=4.59 c=2.96' or 'monoclinic C a=9.41 b=5.38 c=6.12 beta=102.4'; values may carry esds, a=5.6402(3); fit takes it again for each further phase",
 		set: func(r *request, v string) error {
 			c, _, err := cell.Parse(v)
 			if err != nil {
 				return err
+			}
+			if r.cell != nil {
+				r.more, r.moreTexts = append(r.more, c), append(r.moreTexts, v)
+				return nil
 			}
 			r.cell, r.cellText = &c, v
 			return nil

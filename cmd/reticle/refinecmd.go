@@ -43,6 +43,10 @@ func cmdRefineRun(ctx context.Context, args []string, stdout, stderr io.Writer) 
 		fmt.Fprintln(stderr, "reticle refine: --cell is required, e.g. --cell 'cubic F a=5.64'")
 		return 2
 	}
+	if len(r.more) > 0 {
+		fmt.Fprintln(stderr, "reticle refine: --cell given more than once; refine takes one cell (reticle fit takes one per phase)")
+		return 2
+	}
 	if len(files) == 0 {
 		fmt.Fprintln(stderr, "reticle refine: no scan file given")
 		return 2

@@ -1,0 +1,141 @@
+package refine
+
+import (
+	"math"
+
+	"reticle/profile"
+)
+
+// A sparseRow is one point's weighted Jacobian row: the derivatives
+// ∂c/∂p / σ of the shared parameters, and those of the intensities of
+// the lines that reach the point, near (within jacReach widths) and far.
+type sparseRow struct {
+	g           []float64
+	near, far   []int
+	nearV, farV []float64
+}
+
+// areaFactor is the area of a line of height 1 and FWHM 1 with the
+// Lorentzian fraction eta and tail ratio tail, and its derivative with
+// respect to eta.
+func areaFactor(eta, tail float64) (af, daf float64) {
+	l, g := math.Pi/2*tail, math.Sqrt(math.Pi/(4*math.Ln2))
+	return eta*l + (1-eta)*g, l - g
+}
+
+// evaluate returns the weighted residuals (y − c)/σ, the calculated
+// curve and the background at every point, and fills rows, when not
+// nil, with the Jacobian. When only is a phase's index, the curve holds
+// that phase's lines alone (no background); −1 means all.
+func (pf *patternFit) evaluate(p []float64, rows []sparseRow, only int) (res, calc, bg []float64) {
+	ls := pf.lines(p)
+	n := len(pf.x)
+	res, calc, bg = make([]float64, n), make([]float64, n), make([]float64, n)
+	af := make([]float64, len(pf.phases))
+	daf := make([]float64, len(pf.phases))
+	for i, ph := range pf.phases {
+		af[i], daf[i] = areaFactor(p[ph.iU+3], pf.tail)
+	}
+	// Lines in order of position: a window of lines slides along the
+	// points.
+	first := 0
+	for i, x := range pf.x {
+		var c float64
+		if only < 0 {
+			for j, b := range pf.cheb[i] {
+				c += p[pf.iBg+j] * b
+			}
+		}
+		bg[i] = c
+		var row *sparseRow
+		if rows != nil {
+			row = &rows[i]
+			if row.g == nil {
+				row.g = make([]float64, pf.iI)
+			}
+			clear(row.g)
+			copy(row.g[pf.iBg:], pf.cheb[i])
+			row.near, row.nearV, row.far, row.farV = row.near[:0], row.nearV[:0], row.far[:0], row.farV[:0]
+		}
+		for first < len(ls) && (!ls[first].ok || ls[first].hi < x) {
+			first++
+		}
+		for k := first; k < len(ls); k++ {
+			l := &ls[k]
+			if !l.ok {
+				continue
+			}
+			if l.lo > x {
+				// Lines start in order of position (to within the
+				// slow change of the reach with angle).
+				break
+			}
+			ph := &pf.phases[pf.refl[k].phase]
+			if only >= 0 && pf.refl[k].phase != only {
+				continue
+			}
+			amp := p[pf.iI+k]
+			eta := p[ph.iU+3]
+			fa := af[pf.refl[k].phase]
+			var dI float64
+			near := false
+			for _, cp := range l.comp[:l.n] {
+				if math.Abs(x-cp.tt) > l.reach {
+					continue
+				}
+				norm := cp.scale / (cp.w * fa)
+				if row == nil {
+					a := profile.LineShape(x, cp.tt, cp.w, eta, cp.asym, pf.tail) * norm
+					c += amp * a
+					continue
+				}
+				f, dx0, dw, deta, dasym := profile.LineGrad(x, cp.tt, cp.w, eta, cp.asym, pf.tail)
+				a := f * norm // area-normalised line
+				c += amp * a
+				dI += a
+				near = near || math.Abs(x-cp.tt) <= jacReach*cp.w*(1+math.Abs(cp.asym))
+				dpos := amp * dx0 * norm
+				for j, d := range cp.dR {
+					row.g[ph.iR+j] += dpos * d
+				}
+				for j, ci := range pf.corr {
+					row.g[j] += dpos * cp.dC[ci]
+				}
+				dwid := amp * (dw*norm - a/cp.w)
+				row.g[ph.iU] += dwid * cp.gw[0]
+				row.g[ph.iU+1] += dwid * cp.gw[1]
+				row.g[ph.iU+2] += dwid * cp.gw[2]
+				row.g[ph.iU+3] += amp * (deta*norm - a*daf[pf.refl[k].phase]/fa)
+				if cp.free {
+					da, f := amp*dasym*norm, 1.0
+					for j := 0; j < pf.nA; j++ {
+						row.g[pf.iA+j] += da * f
+						f *= cp.tA
+					}
+				}
+			}
+			if row != nil && dI != 0 {
+				if near {
+					row.near, row.nearV = append(row.near, k), append(row.nearV, dI)
+				} else {
+					row.far, row.farV = append(row.far, k), append(row.farV, dI)
+				}
+			}
+		}
+		calc[i] = c
+		res[i] = (pf.y[i] - c) / pf.sig[i]
+		if row != nil {
+			s := 1 / pf.sig[i]
+			for j := range row.g {
+				row.g[j] *= s
+			}
+			for j := range row.nearV {
+				row.nearV[j] *= s
+			}
+			for j := range row.farV {
+				row.farV[j] *= s
+			}
+		}
+	}
+	return res, calc, bg
+}

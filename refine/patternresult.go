@@ -1,0 +1,222 @@
+package refine
+
+import (
+	"fmt"
+	"math"
+	"sort"
+
+	"reticle/cell"
+)
+
+// reported is one reported parameter: its value and its gradient with
+// respect to the shared parameters (the rows of the transformation of
+// their covariance).
+type reported struct {
+	Param
+	phase int // −1: shared
+	grad  map[int]float64
+}
+
+// result turns the solution into a PatternResult, with the covariance
+// (JᵀJ)⁻¹ scaled by χ²_red when that exceeds 1.
+func (pf *patternFit) result(s *patternSolution, iter int, opt PatternOptions) (*PatternResult, error) {
+	k := len(s.p)
+	n := len(pf.x)
+	dof := n - k
+	out := &PatternResult{Corrections: opt.Corrections & (Zero | Displacement), Calc: s.calc, Background: s.bg,
+		Points: n, Parameters: k, Iterations: iter}
+	// Agreement factors (pdCIF meanings).
+	var sa, sy, swy2 float64
+	for i := range pf.y {
+		sa += math.Abs(pf.y[i] - s.calc[i])
+		sy += math.Abs(pf.y[i])
+		w := 1 / (pf.sig[i] * pf.sig[i])
+		swy2 += w * pf.y[i] * pf.y[i]
+	}
+	out.Chi2 = s.chi2 / float64(dof)
+	out.GoF = math.Sqrt(out.Chi2)
+	out.Rp = sa / sy
+	out.Rwp = math.Sqrt(s.chi2 / swy2)
+	out.Rexp = math.Sqrt(float64(dof) / swy2)
+	// The covariance; a matrix singular to rounding gets a ridge of
+	// 10⁻⁹ of its (unit) diagonal, which leaves determined parameters'
+	// esds as they are and makes undetermined ones' huge.
+	f, err := s.ne.factorize(0, nil)
+	if err != nil {
+		if f, err = s.ne.factorize(1e-9, nil); err != nil {
+			return nil, fmt.Errorf("%w: the parameters are not determined by the points (singular normal matrix)", ErrPattern)
+		}
+		out.Warnings = append(out.Warnings, "the normal matrix is singular to rounding: some parameters are not determined by the points (their esds are very large)")
+	}
+	cg, vi, err := f.covariance()
+	if err != nil {
+		return nil, fmt.Errorf("%w: the parameters are not determined by the points: %w", ErrPattern, err)
+	}
+	scale := 1.0
+	if out.Chi2 > 1 {
+		scale, out.Scaled = out.Chi2, true
+	}
+	cov := func(a, b int) float64 { return cg.At(a, b) * scale }
+	var reps []reported
+	for i, ph := range pf.phases {
+		pp, rs, err := pf.phaseResult(i, ph, s, cov, vi, scale)
+		if err != nil {
+			return nil, err
+		}
+		out.Phases = append(out.Phases, pp)
+		reps = append(reps, rs...)
+	}
+	for j, ci := range pf.corr {
+		reps = append(reps, reported{Param: Param{Name: corrNames[ci].name, Unit: corrNames[ci].unit, Value: s.p[j]}, phase: -1, grad: map[int]float64{j: 1}})
+	}
+	for j := 0; j < pf.nA; j++ {
+		reps = append(reps, reported{Param: Param{Name: fmt.Sprintf("asymmetry %d", j), Value: s.p[pf.iA+j]}, phase: -1, grad: map[int]float64{pf.iA + j: 1}})
+	}
+	// Every reported parameter's variance and the correlations.
+	rc := func(x, y reported) float64 {
+		var v float64
+		for a, ga := range x.grad {
+			for b, gb := range y.grad {
+				v += ga * cov(a, b) * gb
+			}
+		}
+		return v
+	}
+	for i := range reps {
+		reps[i].ESD = math.Sqrt(math.Max(rc(reps[i], reps[i]), 0))
+	}
+	for _, r := range reps {
+		if r.phase < 0 {
+			out.Params = append(out.Params, r.Param)
+		}
+	}
+	pi := 0
+	for i := range out.Phases {
+		for j := range out.Phases[i].Params {
+			for reps[pi].phase != i {
+				pi++
+			}
+			out.Phases[i].Params[j].ESD = reps[pi].ESD
+			pi++
+		}
+	}
+	out.Correlations = correlations(reps, rc, len(pf.phases) > 1)
+	// Warnings.
+	for i, ph := range out.Phases {
+		zero := 0
+		for _, r := range ph.Reflections {
+			if r.Intensity == 0 {
+				zero++
+			}
+		}
+		name := ""
+		if len(out.Phases) > 1 {
+			name = fmt.Sprintf("phase %d: ", i+1)
+		}
+		switch {
+		case len(ph.Reflections) > 0 && zero == len(ph.Reflections) && i == 0:
+			return nil, fmt.Errorf("%w: every intensity went to zero: the cell does not describe the pattern", ErrPattern)
+		case len(ph.Reflections) > 0 && zero == len(ph.Reflections):
+			out.Warnings = append(out.Warnings, fmt.Sprintf("%severy intensity went to zero: the cell does not describe any line of the pattern (its parameters are not determined)", name))
+		case zero > 0:
+			out.Warnings = append(out.Warnings, fmt.Sprintf("%s%d of %d reflections fitted to zero intensity (held at the bound; their esds are not meaningful)", name, zero, len(ph.Reflections)))
+		}
+	}
+	if out.Rwp > 2*out.Rexp {
+		// Common practice: a fit whose Rwp exceeds twice the counting
+		// statistics' Rexp misses part of the pattern.
+		out.Warnings = append(out.Warnings, fmt.Sprintf("Rwp is %.1f times Rexp: the cells or the profile model leave part of the pattern unexplained (see the difference curve)", out.Rwp/out.Rexp))
+	}
+	return out, nil
+}
+
+// phaseResult returns phase i's cell, parameters (esds filled in by the
+// caller from the reported list) and reflections.
+func (pf *patternFit) phaseResult(i int, ph phaseFit, s *patternSolution, cov func(a, b int) float64, vi []float64, scale float64) (PatternPhase, []reported, error) {
+	var out PatternPhase
+	c, err := ph.m1.cellOf(s.p[ph.iR:ph.iR+ph.nr], ph.cen)
+	if err != nil {
+		return out, nil, fmt.Errorf("%w: phase %d: the refined cell is not a lattice: %w", ErrPattern, i+1, err)
+	}
+	// The cell's covariance through the reciprocal coefficients.
+	j6 := c.ReciprocalToDirect()
+	var c6 cell.Covariance
+	for a := 0; a < 6; a++ {
+		for b := 0; b < 6; b++ {
+			var v float64
+			for x := 0; x < ph.nr; x++ {
+				for y := 0; y < ph.nr; y++ {
+					v += j6[a][x] * cov(ph.iR+x, ph.iR+y) * j6[b][y]
+				}
+			}
+			c6[a][b] = v
+		}
+	}
+	out.Cell, out.Covariance = c, c6
+	out.ESD = c6.ESD()
+	out.Volume, out.VolumeESD = c.Volume(), c.VolumeESD(c6)
+	var reps []reported
+	params := c.Params()
+	for _, name := range c.System.FreeNames() {
+		pi := paramIndex(name)
+		unit := "Å"
+		if pi >= 3 {
+			unit = "°"
+		}
+		g := map[int]float64{}
+		for x := 0; x < ph.nr; x++ {
+			g[ph.iR+x] = j6[pi][x]
+		}
+		reps = append(reps, reported{Param: Param{Name: name, Unit: unit, Value: params[pi]}, phase: i, grad: g})
+	}
+	for j, name := range []string{"U", "V", "W", "eta"} {
+		unit := "°²"
+		if name == "eta" {
+			unit = ""
+		}
+		reps = append(reps, reported{Param: Param{Name: name, Unit: unit, Value: s.p[ph.iU+j]}, phase: i, grad: map[int]float64{ph.iU + j: 1}})
+	}
+	for _, r := range reps {
+		out.Params = append(out.Params, r.Param)
+	}
+	ls := pf.lines(s.p)
+	for k, r := range pf.refl {
+		l := ls[k]
+		if r.phase != i || !l.ok || l.comp[0].tt < pf.lo || l.comp[0].tt > pf.hi {
+			continue
+		}
+		v := s.p[pf.iI+k]
+		out.Reflections = append(out.Reflections, PatternReflection{HKL: r.HKL, Mult: r.Mult, TwoTheta: l.comp[0].tt,
+			Intensity: v, IntensityESD: math.Sqrt(math.Max(vi[k]*scale, 0))})
+	}
+	_, out.Calc, _ = pf.evaluate(s.p, nil, i)
+	return out, reps, nil
+}
+
+// correlations returns the strongest correlations among the reported
+// parameters, at most MaxCorrelations with |r| ≥ 0.5, strongest first.
+func correlations(reps []reported, cov func(x, y reported) float64, phases bool) []Correlation {
+	name := func(r reported) string {
+		if phases && r.phase >= 0 {
+			return fmt.Sprintf("%s (phase %d)", r.Name, r.phase+1)
+		}
+		return r.Name
+	}
+	var out []Correlation
+	for i := range reps {
+		for j := i + 1; j < len(reps); j++ {
+			if !(reps[i].ESD > 0) || !(reps[j].ESD > 0) {
+				continue
+			}
+			r := cov(reps[i], reps[j]) / (reps[i].ESD * reps[j].ESD)
+			if math.Abs(r) >= 0.5 {
+				out = append(out, Correlation{A: name(reps[i]), B: name(reps[j]), R: r})
+			}
+		}
+	}
+	sort.SliceStable(out, func(a, b int) bool { return math.Abs(out[a].R) > math.Abs(out[b].R) })
+	if len(out) > MaxCorrelations {
+		out = out[:MaxCorrelations]
+	}
+	return out
+}
