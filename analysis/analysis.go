@@ -38,7 +38,11 @@ type Analysis struct {
 	// Candidates are the cells found, best first.
 	Candidates []Candidate
 	// Chosen is the index of the candidate the user chose (0: the best).
-	Chosen   int
+	Chosen int
+	// Pattern is a whole-pattern fit of the chosen cell (and any further
+	// phases) when one was asked for (FitPattern); nil otherwise. A
+	// re-run after an edit starts without one.
+	Pattern  *PatternFit
 	Warnings []string
 }
 

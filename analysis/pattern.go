@@ -12,7 +12,9 @@ import (
 // A PatternFit is a whole-pattern fit of one or more phases with the
 // peak refinement of the main phase it started from.
 type PatternFit struct {
-	Start *refine.Result // the main cell refined on the peak positions
+	// Texts are the phases' cells as given, the main phase first.
+	Texts []string
+	Start *refine.Result // the main cell refined on the peak positions; nil when that failed
 	Fit   *refine.PatternResult
 	// Unexplained are the fitted lines of the scan (companions and
 	// rejected lines left out) that no phase explains: no reflection
@@ -37,13 +39,44 @@ type UnexplainedLine struct {
 // they fix them, otherwise both shifts. A whole-pattern fit only
 // converges from cells whose lines already fall within a width or two of
 // their peaks.
-func FitPattern(ctx context.Context, e *Extraction, cells []cell.Cell, s Settings) (*PatternFit, error) {
+func FitPattern(ctx context.Context, e *Extraction, cells []cell.Cell, s Settings, progress Progress) (*PatternFit, error) {
 	if len(cells) == 0 {
 		return nil, fmt.Errorf("%s: whole-pattern fit: no cell", e.Scan.Path)
 	}
-	start, err := RefineCell(ctx, e, cells[0], s)
-	if err != nil {
-		return nil, err
+	// When the peaks cannot refine the main cell (too few lines match
+	// it, e.g. under a large zero shift), the fit starts from the cell
+	// as given: its broadened stages draw in a cell whose lines miss
+	// their peaks by a few widths.
+	start, startErr := RefineCell(ctx, e, cells[0], s)
+	if ctx.Err() != nil {
+		return nil, ctx.Err()
+	}
+	first := cells[0]
+	res := s.Resolved(e.Scan)
+	radius := res.Radius
+	corr := refine.Zero | refine.Displacement
+	if startErr == nil {
+		first, radius = start.Cell, start.Radius
+		// The corrections: as the settings fix them; when the
+		// settings leave the choice to the data, both shifts are
+		// refined if the peaks could refine both. Up to about 110° 2θ
+		// the zero shift and the displacement move the lines almost
+		// alike, so a fit with one of them keeps the cell that the
+		// other's share biases, with an esd far below that bias
+		// (BENCHMARKS.md); with both, the esd holds the uncertainty
+		// of the split. When the peaks found both implausible (over a
+		// short range of angles the two and the cell are one
+		// direction), the model they chose is taken.
+		corr = start.Corrections
+		if sel := start.Selection; sel != nil {
+			for _, m := range sel.Models {
+				if m.Corrections == refine.Zero|refine.Displacement && m.Err == "" {
+					corr = m.Corrections
+				}
+			}
+		}
+	} else if c := res.Corrections; c != nil && !c.Has(refine.Auto) {
+		corr = *c
 	}
 	sc := e.Scan
 	sig := make([]float64, sc.Len())
@@ -51,28 +84,29 @@ func FitPattern(ctx context.Context, e *Extraction, cells []cell.Cell, s Setting
 		sig[i] = sc.Sigma(i)
 	}
 	rad := e.Result.Radiation
-	// The corrections: as the settings fix them; when the settings
-	// leave the choice to the data, both shifts are refined. Up to
-	// about 110° 2θ the zero shift and the displacement move the lines
-	// almost alike, so a fit with one of them keeps the cell that the
-	// other's share biases, with an esd far below that bias
-	// (BENCHMARKS.md); with both, the esd holds the uncertainty of the
-	// split.
-	corr := start.Corrections
-	if start.Selection != nil {
-		corr = refine.Zero | refine.Displacement
-	}
-	opt := refine.PatternOptions{Lambda1: rad.Lambda1, Radius: start.Radius, Corrections: corr,
-		Width: e.Result.FWHMCurve, Eta: e.Result.Eta, Asymmetry: e.Result.Asymmetry, Tail: e.Result.TailRatio}
+	opt := refine.PatternOptions{Lambda1: rad.Lambda1, Radius: radius, Corrections: corr,
+		Width: e.Result.FWHMCurve, Eta: e.Result.Eta, Asymmetry: e.Result.Asymmetry, Tail: e.Result.TailRatio,
+		Progress: progress.of(StagePattern)}
 	if rad.Doublet() {
 		opt.Lambda2, opt.Ratio2 = rad.Lambda2, rad.Ratio2
 	}
-	phases := append([]cell.Cell{start.Cell}, cells[1:]...)
+	phases := append([]cell.Cell{first}, cells[1:]...)
 	fit, err := refine.FitPhases(ctx, phases, sc.TwoTheta, sc.Intensity, sig, opt)
 	if err != nil {
+		if startErr != nil {
+			return nil, fmt.Errorf("%s: %w (the peaks could not refine the cell either: %w)", sc.Path, err, startErr)
+		}
 		return nil, fmt.Errorf("%s: %w", sc.Path, err)
 	}
-	return &PatternFit{Start: start, Fit: fit, Unexplained: unexplained(e, fit, s)}, nil
+	if startErr != nil {
+		fit.Warnings = append(fit.Warnings, fmt.Sprintf("the fit started from the cell as given: the peaks could not refine it (%v)", startErr))
+		start = nil
+	}
+	texts := make([]string, len(cells))
+	for i, c := range cells {
+		texts[i] = c.String()
+	}
+	return &PatternFit{Texts: texts, Start: start, Fit: fit, Unexplained: unexplained(e, fit, s)}, nil
 }
 
 // unexplained returns the extraction's lines that no phase of the fit

@@ -8,6 +8,7 @@ const (
 	StageExtraction Stage = iota + 1 // finding and fitting peaks
 	StageIndexing                    // searching for cells
 	StageRefinement                  // refining the candidate cells
+	StagePattern                     // fitting the whole pattern, a step of its own
 )
 
 func (s Stage) String() string {
@@ -18,6 +19,8 @@ func (s Stage) String() string {
 		return "cells"
 	case StageRefinement:
 		return "refinement"
+	case StagePattern:
+		return "whole-pattern fit"
 	}
 	return "stage?"
 }
@@ -37,7 +40,8 @@ func (p Progress) of(s Stage) func(done, total int) {
 }
 
 // Fraction returns the share of the whole analysis done when stage s has
-// done done of total units, weighting the stages by their usual cost.
+// done done of total units, weighting the stages by their usual cost (a
+// whole-pattern fit, run on its own, is the whole).
 func Fraction(s Stage, done, total int) float64 {
 	f := 0.0
 	if total > 0 {
@@ -48,6 +52,8 @@ func Fraction(s Stage, done, total int) float64 {
 		return 0.3 * f
 	case StageIndexing:
 		return 0.3 + 0.6*f
+	case StagePattern:
+		return f
 	}
 	return 0.9 + 0.1*f
 }

@@ -191,6 +191,8 @@ func (m *Model) Select(k int) {
 	m.push()
 	m.Selected = k
 	m.A.Chosen = k
+	// A whole-pattern fit belongs to the cell it fitted.
+	m.A.Pattern = nil
 }
 
 // CanUndo and CanRedo report whether there is a step to take.
@@ -226,6 +228,9 @@ func (m *Model) restore(s snapshot) error {
 	}
 	m.Settings, m.Selected = s.settings, s.selected
 	if m.A != nil && m.Selected < len(m.A.Candidates) {
+		if m.A.Chosen != m.Selected {
+			m.A.Pattern = nil
+		}
 		m.A.Chosen = m.Selected
 	}
 	m.sync()

@@ -103,6 +103,15 @@ func (u *ui) takeScreenshots(dir, name string) {
 			u.plot.setRange(lo+0.3*(hi-lo), lo+0.45*(hi-lo))
 		})
 		save("9-zoomed")
+		// The whole-pattern fit of the chosen cell, with the next
+		// candidate as a second phase when there is one.
+		fyne.DoAndWait(func() {
+			u.plot.resetZoom()
+			u.tabs.SelectIndex(3)
+			u.fitWhole()
+		})
+		u.wait()
+		save("12-whole-pattern-fit")
 		fyne.DoAndWait(u.settingsDialog)
 		save("10-settings")
 		fyne.DoAndWait(u.shortcutsDialog)

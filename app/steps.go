@@ -11,6 +11,7 @@ import (
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/theme"
 	"fyne.io/fyne/v2/widget"
 
 	"reticle/analysis"
@@ -497,8 +498,30 @@ func (u *ui) refineStep() fyne.CanvasObject {
 	u.cellEntry = widget.NewEntry()
 	u.cellEntry.SetPlaceHolder("refine a cell you know, e.g. cubic F a=8.08 (Enter)")
 	u.cellEntry.OnSubmitted = u.refineTyped
+	u.phasesEntry = widget.NewEntry()
+	u.phasesEntry.SetPlaceHolder("none; or cells separated by ;, e.g. cubic F a=5.43119")
+	u.phasesEntry.OnSubmitted = func(string) { u.fitWhole() }
+	u.phaseSel = widget.NewSelect(nil, func(v string) {
+		if u.refreshing || v == "" {
+			return
+		}
+		// The choice's cell text joins the further phases.
+		if i := strings.Index(v, ": "); i >= 0 {
+			t := strings.TrimSpace(u.phasesEntry.Text)
+			if t != "" {
+				t += "; "
+			}
+			u.phasesEntry.SetText(t + v[i+2:])
+		}
+		u.refreshing = true
+		u.phaseSel.ClearSelected()
+		u.refreshing = false
+	})
+	u.phaseSel.PlaceHolder = "add a candidate as a phase"
+	u.fitBtn = widget.NewButtonWithIcon("Fit the whole pattern", theme.MediaPlayIcon(), u.fitWhole)
 	form := widget.NewForm(
 		widget.NewFormItem("Typed cell", u.cellEntry),
+		widget.NewFormItem("Whole pattern", container.NewBorder(nil, nil, nil, u.phaseSel, container.NewBorder(nil, nil, u.fitBtn, nil, u.phasesEntry))),
 		widget.NewFormItem("Corrections", container.NewHBox(u.autoCheck, u.zeroCheck, u.dispCheck)),
 		widget.NewFormItem("Goniometer radius (mm)", u.radiusEntry),
 		widget.NewFormItem("Scale esds by χ²_red", u.scalingSel),
@@ -569,7 +592,71 @@ func (u *ui) paramsSummary() string {
 	for _, w := range c.Refined.Warnings {
 		fmt.Fprintf(&b, "note: %s\n", w)
 	}
+	if pf := u.m.A.Pattern; pf != nil {
+		b.WriteString("\nwhole-pattern fit\n")
+		b.WriteString(report.Text(report.PatternRows(pf)))
+	}
 	return b.String()
+}
+
+// fillPhaseChoices lists the candidates other than the chosen one as
+// further phases of a whole-pattern fit.
+func (u *ui) fillPhaseChoices() {
+	var opts []string
+	if a := u.m.A; a != nil {
+		for i := range a.Candidates {
+			if i != a.Chosen {
+				opts = append(opts, fmt.Sprintf("candidate %d: %s", i+1, a.Candidates[i].Cell()))
+			}
+		}
+	}
+	u.phaseSel.SetOptions(opts)
+}
+
+// fitWhole fits every point of the scan with the chosen cell and the
+// further phases typed, off the UI thread; the fit joins the analysis
+// it was made for (an edit made meanwhile drops it, as it drops every
+// result of the analysis it supersedes).
+func (u *ui) fitWhole() {
+	a := u.m.A
+	c := a.ChosenCandidate()
+	if c == nil || u.m.Ext == nil {
+		u.showError("There is no cell to fit", fmt.Errorf("no candidate cell"), "Index the lines first, or refine a typed cell and choose it.")
+		return
+	}
+	cells := []cell.Cell{c.Cell()}
+	for _, t := range strings.Split(u.phasesEntry.Text, ";") {
+		if t = strings.TrimSpace(t); t == "" || strings.EqualFold(t, "none") {
+			continue
+		}
+		pc, _, err := cell.Parse(t)
+		if err != nil {
+			u.showError("A further phase is not usable", fmt.Errorf("%q: %w", t, err), "Type each further phase's cell as the program prints cells, e.g. cubic F a=5.43119, separated by semicolons.")
+			return
+		}
+		cells = append(cells, pc)
+	}
+	ext, settings := u.m.Ext.Clone(), u.m.Settings.Clone()
+	var pf *analysis.PatternFit
+	u.work("fitting the whole pattern…", func(ctx context.Context, progress analysis.Progress) (err error) {
+		pf, err = analysis.FitPattern(ctx, ext, cells, settings, progress)
+		return err
+	}, func(err error) {
+		switch {
+		case errors.Is(err, context.Canceled):
+			u.setStatus("stopped; the whole pattern was not fitted")
+			return
+		case err != nil:
+			u.showError("The whole pattern could not be fitted", err, "A whole-pattern fit needs cells whose lines lie within about 1 % in d of the peaks; check the further phases and the wavelength. The previous result stays.")
+			return
+		case u.m.A != a || a.Chosen != u.m.Selected:
+			u.setStatus("the analysis changed while the pattern was fitted: press Fit the whole pattern again")
+			return
+		}
+		a.Pattern = pf
+		u.refreshAll()
+		u.setStatus("whole-pattern fit: Rwp %.2f %%, Rexp %.2f %%, GoF %.3f (%d phase(s))", 100*pf.Fit.Rwp, 100*pf.Fit.Rexp, pf.Fit.GoF, len(pf.Fit.Phases))
+	})
 }
 
 func (u *ui) contentsStep() fyne.CanvasObject {

@@ -66,6 +66,9 @@ type ui struct {
 	zeroCheck, dispCheck *widget.Check
 	autoCheck            *widget.Check
 	cellEntry            *widget.Entry
+	phasesEntry          *widget.Entry  // further phases of a whole-pattern fit
+	phaseSel             *widget.Select // a candidate to add as a phase
+	fitBtn               *widget.Button
 	radiusEntry          *widget.Entry
 	standardEntry        *widget.Entry
 	scalingSel           *widget.Select
@@ -431,6 +434,7 @@ func (u *ui) refreshAll() {
 	u.resTable.Refresh()
 	u.paramsText.SetText(u.paramsSummary())
 	u.contentsText.SetText(u.contentsSummary())
+	u.fillPhaseChoices()
 	u.showChosenCorrections()
 	u.updateButtons()
 }

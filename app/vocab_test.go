@@ -65,7 +65,9 @@ func TestWindowVocabulary(t *testing.T) {
 			}
 			return
 		case *widget.Select:
-			if w != u.waveSel { // anode names, from the radiation table
+			// Anode names come from the radiation table, and the
+			// phases to add are cells in the cell text form.
+			if w != u.waveSel && w != u.phaseSel {
 				for _, opt := range w.Options {
 					names[opt] = true
 				}
@@ -91,6 +93,7 @@ func TestWindowVocabulary(t *testing.T) {
 		}
 	}
 	walk(widget.NewForm(newSettingsForm(u.m.Settings, report.A4).items()...))
+	names[u.phaseSel.PlaceHolder] = true
 	delete(names, "")
 	for n := range names {
 		if !terms[n] {

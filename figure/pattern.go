@@ -1,6 +1,7 @@
 package figure
 
 import (
+	"fmt"
 	"image/color"
 	"math"
 	"sort"
@@ -25,6 +26,9 @@ var (
 	ColourBackground = color.RGBA{0x00, 0x72, 0xb2, 0xff}
 	ColourDifference = color.RGBA{0x00, 0x9e, 0x73, 0xff}
 	ColourTicks      = color.RGBA{0xcc, 0x79, 0xa7, 0xff}
+	// PhaseColours mark the lines of each phase of a whole-pattern fit,
+	// the main phase first.
+	PhaseColours = []color.Color{ColourTicks, color.RGBA{0x56, 0xb4, 0xe9, 0xff}, color.RGBA{0xe6, 0x9f, 0x00, 0xff}, color.RGBA{0xf0, 0xe4, 0x42, 0xff}}
 )
 
 // figureFont is the figures' typeface: sans-serif, like the text around
@@ -209,6 +213,15 @@ func Pattern(a *analysis.Analysis, o Options) *plot.Plot {
 		lo, hi = math.Max(lo, o.XMin), math.Min(hi, o.XMax)
 	}
 	pt := pattern{TwoTheta: a.Scan.TwoTheta, Intensity: a.Scan.Intensity, Background: a.Extraction.Result.Background, Profile: a.Extraction.Profile}
+	// A whole-pattern fit, when there is one, replaces the peaks' profile:
+	// its curve, background and difference, and a row of ticks per
+	// phase.
+	var whole *analysis.PatternFit
+	fitName := "fitted"
+	if pf := a.Pattern; pf != nil && len(pf.Fit.Calc) == len(pt.TwoTheta) {
+		whole, fitName = pf, "whole-pattern fit"
+		pt.Profile, pt.Background = pf.Fit.Calc, pf.Fit.Background
+	}
 	lam := a.Radiation.Lambda1
 	// The points in view: decimated over the raw values first (min and
 	// max per column survive any monotonic scale), transformed after, so
@@ -248,7 +261,11 @@ func Pattern(a *analysis.Analysis, o Options) *plot.Plot {
 	}
 	// The difference curve sits below the data, its zero at −12 % of the
 	// span; the ticks between it and the data.
-	diffZero := math.Min(low, 0) - 0.12*span
+	rows := 1
+	if whole != nil {
+		rows = len(whole.Fit.Phases)
+	}
+	diffZero := math.Min(low, 0) - (0.08+0.04*float64(rows))*span
 	tickTop, tickLow := math.Min(low, 0)-0.02*span, math.Min(low, 0)-0.05*span
 
 	add := func(xy plotter.XYs, c color.Color, width vg.Length, dashes []vg.Length, name string) {
@@ -264,7 +281,7 @@ func Pattern(a *analysis.Analysis, o Options) *plot.Plot {
 	}
 	haveFit := len(pt.Profile) == len(pt.TwoTheta)
 	if haveFit {
-		add(curve(func(i int) float64 { return pt.Profile[i] }, 0), ColourFitted, vg.Points(1.4), nil, "fitted")
+		add(curve(func(i int) float64 { return pt.Profile[i] }, 0), ColourFitted, vg.Points(1.4), nil, fitName)
 	}
 	add(obs, o.ink(), vg.Points(0.5), nil, "observed")
 	if len(pt.Background) == len(pt.TwoTheta) {
@@ -276,7 +293,23 @@ func Pattern(a *analysis.Analysis, o Options) *plot.Plot {
 		}, diffZero)
 		add(diff, ColourDifference, vg.Points(0.5), nil, "difference")
 	}
-	if c := a.ChosenCandidate(); c != nil {
+	if whole != nil {
+		for i, ph := range whole.Fit.Phases {
+			var segs plotter.XYs
+			off := 0.04 * float64(i) * span
+			for _, r := range ph.Reflections {
+				if r.TwoTheta >= lo && r.TwoTheta <= hi {
+					x := o.X(r.TwoTheta, lam)
+					segs = append(segs, plotter.XY{X: x, Y: tickLow - off}, plotter.XY{X: x, Y: tickTop - off})
+				}
+			}
+			if len(segs) > 0 {
+				ticks := &tickMarks{xy: segs, colour: PhaseColours[i%len(PhaseColours)]}
+				p.Add(ticks)
+				p.Legend.Add(fmt.Sprintf("phase %d lines", i+1), ticks)
+			}
+		}
+	} else if c := a.ChosenCandidate(); c != nil {
 		var segs plotter.XYs
 		for _, r := range c.Calculated {
 			if tt := c.Position(r.HKL[0], lam); tt >= lo && tt <= hi {
@@ -338,12 +371,23 @@ func MarkerY(pk analysis.Peak, sc Scale, span float64) float64 {
 	return sc.apply(pk.Background+pk.Height) + 0.04*span
 }
 
-// tickMarks draws vertical segments given as pairs of points.
-type tickMarks struct{ xy plotter.XYs }
+// tickMarks draws vertical segments given as pairs of points, in colour
+// (ColourTicks when nil).
+type tickMarks struct {
+	xy     plotter.XYs
+	colour color.Color
+}
+
+func (t *tickMarks) ink() color.Color {
+	if t.colour == nil {
+		return ColourTicks
+	}
+	return t.colour
+}
 
 func (t *tickMarks) Plot(c draw.Canvas, p *plot.Plot) {
 	tr, ty := p.Transforms(&c)
-	ls := draw.LineStyle{Color: ColourTicks, Width: vg.Points(0.8)}
+	ls := draw.LineStyle{Color: t.ink(), Width: vg.Points(0.8)}
 	for i := 0; i+1 < len(t.xy); i += 2 {
 		a, b := t.xy[i], t.xy[i+1]
 		c.StrokeLine2(ls, tr(a.X), ty(a.Y), tr(b.X), ty(b.Y))
@@ -353,5 +397,5 @@ func (t *tickMarks) Plot(c draw.Canvas, p *plot.Plot) {
 // Thumbnail draws the legend entry.
 func (t *tickMarks) Thumbnail(c *draw.Canvas) {
 	x := (c.Min.X + c.Max.X) / 2
-	c.StrokeLine2(draw.LineStyle{Color: ColourTicks, Width: vg.Points(0.8)}, x, c.Min.Y, x, c.Max.Y)
+	c.StrokeLine2(draw.LineStyle{Color: t.ink(), Width: vg.Points(0.8)}, x, c.Min.Y, x, c.Max.Y)
 }

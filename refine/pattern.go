@@ -40,6 +40,10 @@ type PatternOptions struct {
 	Background int
 	// MaxIter bounds the Levenberg–Marquardt iterations; zero means 400.
 	MaxIter int
+	// Progress, when not nil, is told after each iteration how many of
+	// the fit's three stages (two broadened, one final) are done, in
+	// hundredths of a stage: done of total = 300.
+	Progress func(done, total int)
 }
 
 // settledShare is the share of a broadened stage's width by which the
@@ -130,10 +134,18 @@ var ErrPattern = errors.New("whole-pattern fit")
 
 // phaseFit is one phase's models and place in the parameter vector.
 type phaseFit struct {
+	start  cell.Cell
 	cen    cell.Centring
 	m1, m2 *model
 	nr     int // free reciprocal coefficients
-	iR, iU int // first coefficient; U, V, W, eta
+	// iR is the first reciprocal coefficient; iU is U, V, W, eta, the
+	// main phase's for every phase. A further phase (a standard, an
+	// impurity) is usually weak, and its few lines cannot determine a
+	// width law of their own: given one (or a width of its own, as
+	// small crystallites have), its lines widen until they fit the
+	// background's undulations. Its lines take the main phase's
+	// profile, whose width the instrument dominates.
+	iR, iU int
 }
 
 // patternRefl is one fitted position of a phase.
@@ -159,6 +171,11 @@ type patternFit struct {
 	iI        int   // first intensity; the number of shared parameters
 	lo, hi    float64
 	cheb      [][]float64 // the background's Chebyshev terms at each point
+	minFWHM   float64     // the scan's mean step, degrees: the narrowest line
+	progress  func(done, total int)
+	stage     int         // the stage running, 0..2
+	rows      []sparseRow // the Jacobian's rows, reused by every stage
+	farGrad   []float64   // the far lines' share of the intensities' gradient
 }
 
 // FitPattern fits every point of a scan (2θ x in degrees, counts y with
@@ -210,6 +227,7 @@ func FitPhases(ctx context.Context, cells []cell.Cell, x, y, sig []float64, opt 
 	if err != nil {
 		return nil, err
 	}
+	pf.progress = opt.Progress
 	k := len(p)
 	setProfile := func(w profile.Caglioti, eta float64) {
 		for _, ph := range pf.phases {
@@ -230,8 +248,18 @@ func FitPhases(ctx context.Context, cells []cell.Cell, x, y, sig []float64, opt 
 	for j := pf.iA; j < pf.iA+pf.nA; j++ {
 		fixed[j] = true
 	}
+	// Further phases (a declared standard, a known impurity) keep their
+	// cells while the lines are broadened: a weak phase's few lines,
+	// widened, would be drawn to the main phase's strong ones; their
+	// cells are refined in the last stage.
+	for _, ph := range pf.phases[1:] {
+		for j := ph.iR; j < ph.iR+ph.nr; j++ {
+			fixed[j] = true
+		}
+	}
 	iter := 0
-	for _, fw := range []float64{0.4, 0.15} {
+	for stage, fw := range []float64{0.4, 0.15} {
+		pf.stage = stage
 		if math.Sqrt(opt.Width.W) >= fw {
 			continue
 		}
@@ -246,6 +274,7 @@ func FitPhases(ctx context.Context, cells []cell.Cell, x, y, sig []float64, opt 
 	}
 	setProfile(opt.Width, opt.Eta)
 	pf.startLinear(p)
+	pf.stage = 2
 	sol, it, err := pf.solve(ctx, p, opt.MaxIter, nil, 0)
 	if err != nil {
 		return nil, err
@@ -257,6 +286,7 @@ func FitPhases(ctx context.Context, cells []cell.Cell, x, y, sig []float64, opt 
 // returns their starting values.
 func newPatternFit(cells []cell.Cell, x, y, sig []float64, opt PatternOptions) (*patternFit, []float64, error) {
 	pf := &patternFit{x: x, y: y, sig: sig, tail: opt.Tail, lo: x[0], hi: x[len(x)-1]}
+	pf.minFWHM = (pf.hi - pf.lo) / float64(len(x)-1)
 	if opt.Lambda2 > 0 && opt.Ratio2 > 0 {
 		pf.ratio = opt.Ratio2
 	}
@@ -274,13 +304,17 @@ func newPatternFit(cells []cell.Cell, x, y, sig []float64, opt PatternOptions) (
 	pf.iBg, pf.nb = pf.iA+pf.nA, opt.Background
 	next := pf.iBg + pf.nb
 	for i, c := range cells {
-		ph := phaseFit{cen: c.Centring, m1: newModel(c.System, opt.Lambda1, opt.Radius)}
+		ph := phaseFit{start: c, cen: c.Centring, m1: newModel(c.System, opt.Lambda1, opt.Radius)}
 		if pf.ratio > 0 {
 			ph.m2 = newModel(c.System, opt.Lambda2, opt.Radius)
 		}
 		ph.nr = len(start(c))
 		ph.iR, ph.iU = next, next+ph.nr
 		next = ph.iU + 4
+		if i > 0 {
+			ph.iU = pf.phases[0].iU
+			next -= 4
+		}
 		pf.phases = append(pf.phases, ph)
 		n := len(pf.refl)
 		pf.refl = append(pf.refl, phaseReflections(c, i, pf.lo, pf.hi, opt)...)

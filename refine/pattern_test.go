@@ -3,6 +3,7 @@ package refine
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"strings"
@@ -106,25 +107,32 @@ func TestFitPatternBadInput(t *testing.T) {
 	}
 }
 
-// BenchmarkFitPattern times a fit of 5,000 points with about 300
-// reflections (a primitive tetragonal cell, a 11 Å, c 8 Å, over 15–115° 2θ).
+// BenchmarkFitPattern times fits of about 300 reflections (a primitive
+// tetragonal cell, a 11 Å, c 8 Å, over 15–115° 2θ) sampled at 5,000 and
+// at 50,000 points.
 func BenchmarkFitPattern(b *testing.B) {
-	c := cell.Must(cell.Tetragonal, cell.P, 11, 8)
-	in := synth.Instrument{Lambda1: cuKa1, Lambda2: cuKa2, Ratio2: 0.5}
-	s := synth.Simulate(synth.Spec{Phases: []synth.Phase{{Cell: c}}, Instrument: in, From: 15, To: 115, Step: 0.02, Peak: 5000}, rand.New(rand.NewPCG(5, 5)))
-	sig := make([]float64, len(s.Counts))
-	for i, v := range s.Counts {
-		sig[i] = math.Sqrt(math.Max(v, 1))
-	}
-	opt := PatternOptions{Lambda1: cuKa1, Lambda2: cuKa2, Ratio2: 0.5, Corrections: Zero, Width: profile.Caglioti{U: 0.004, V: -0.001, W: 0.0045}, Eta: 0.5}
-	b.ResetTimer()
-	for i := 0; i < b.N; i++ {
-		r, err := FitPattern(context.Background(), c, s.TwoTheta, s.Counts, sig, opt)
-		if err != nil {
-			b.Fatal(err)
-		}
-		b.ReportMetric(float64(len(r.Phases[0].Reflections)), "reflections")
-		b.ReportMetric(float64(r.Points), "points")
-		b.ReportMetric(float64(r.Iterations), "iterations")
+	for _, step := range []float64{0.02, 0.002} {
+		n := int(math.Round(100/step)) + 1
+		b.Run(fmt.Sprintf("points=%d", n), func(b *testing.B) {
+			c := cell.Must(cell.Tetragonal, cell.P, 11, 8)
+			in := synth.Instrument{Lambda1: cuKa1, Lambda2: cuKa2, Ratio2: 0.5}
+			s := synth.Simulate(synth.Spec{Phases: []synth.Phase{{Cell: c}}, Instrument: in, From: 15, To: 115, Step: step, Peak: 5000}, rand.New(rand.NewPCG(5, 5)))
+			sig := make([]float64, len(s.Counts))
+			for i, v := range s.Counts {
+				sig[i] = math.Sqrt(math.Max(v, 1))
+			}
+			opt := PatternOptions{Lambda1: cuKa1, Lambda2: cuKa2, Ratio2: 0.5, Corrections: Zero, Width: profile.Caglioti{U: 0.004, V: -0.001, W: 0.0045}, Eta: 0.5}
+			b.ReportAllocs()
+			b.ResetTimer()
+			for i := 0; i < b.N; i++ {
+				r, err := FitPattern(context.Background(), c, s.TwoTheta, s.Counts, sig, opt)
+				if err != nil {
+					b.Fatal(err)
+				}
+				b.ReportMetric(float64(len(r.Phases[0].Reflections)), "reflections")
+				b.ReportMetric(float64(r.Points), "points")
+				b.ReportMetric(float64(r.Iterations), "iterations")
+			}
+		})
 	}
 }

@@ -8,11 +8,13 @@ import (
 
 // A sparseRow is one point's weighted Jacobian row: the derivatives
 // ∂c/∂p / σ of the shared parameters, and those of the intensities of
-// the lines that reach the point, near (within jacReach widths) and far.
+// the lines near the point (within jacReach widths). The far lines'
+// derivatives enter only the gradient, which evaluate sums directly
+// (patternFit.farGrad), so that no row holds them.
 type sparseRow struct {
-	g           []float64
-	near, far   []int
-	nearV, farV []float64
+	g     []float64
+	near  []int32
+	nearV []float64
 }
 
 // areaFactor is the area of a line of height 1 and FWHM 1 with the
@@ -36,6 +38,14 @@ func (pf *patternFit) evaluate(p []float64, rows []sparseRow, only int) (res, ca
 	for i, ph := range pf.phases {
 		af[i], daf[i] = areaFactor(p[ph.iU+3], pf.tail)
 	}
+	if rows != nil {
+		if len(pf.farGrad) != len(pf.refl) {
+			pf.farGrad = make([]float64, len(pf.refl))
+		}
+		clear(pf.farGrad)
+	}
+	var farK []int
+	var farV []float64
 	// Lines in order of position: a window of lines slides along the
 	// points.
 	first := 0
@@ -55,7 +65,8 @@ func (pf *patternFit) evaluate(p []float64, rows []sparseRow, only int) (res, ca
 			}
 			clear(row.g)
 			copy(row.g[pf.iBg:], pf.cheb[i])
-			row.near, row.nearV, row.far, row.farV = row.near[:0], row.nearV[:0], row.far[:0], row.farV[:0]
+			row.near, row.nearV = row.near[:0], row.nearV[:0]
+			farK, farV = farK[:0], farV[:0]
 		}
 		for first < len(ls) && (!ls[first].ok || ls[first].hi < x) {
 			first++
@@ -116,9 +127,9 @@ func (pf *patternFit) evaluate(p []float64, rows []sparseRow, only int) (res, ca
 			}
 			if row != nil && dI != 0 {
 				if near {
-					row.near, row.nearV = append(row.near, k), append(row.nearV, dI)
+					row.near, row.nearV = append(row.near, int32(k)), append(row.nearV, dI)
 				} else {
-					row.far, row.farV = append(row.far, k), append(row.farV, dI)
+					farK, farV = append(farK, k), append(farV, dI)
 				}
 			}
 		}
@@ -132,8 +143,8 @@ func (pf *patternFit) evaluate(p []float64, rows []sparseRow, only int) (res, ca
 			for j := range row.nearV {
 				row.nearV[j] *= s
 			}
-			for j := range row.farV {
-				row.farV[j] *= s
+			for j, k := range farK {
+				pf.farGrad[k] += farV[j] * s * res[i]
 			}
 		}
 	}

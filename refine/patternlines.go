@@ -20,27 +20,32 @@ const (
 	jacReach  = 8
 )
 
-// width returns the FWHM and its derivatives with respect to U, V, W at
-// 2θ tt for the width law at p[iU:].
-func width(p []float64, iU int, tt float64) (w float64, g [3]float64) {
+// width returns the FWHM at 2θ tt for the width law at p[iU:] and its
+// derivatives with respect to U, V, W. The width is held at least
+// minFWHM degrees (where it has no derivative): a line narrower than the
+// scan's step has no shape the points can define.
+func width(p []float64, iU int, tt, minFWHM float64) (w float64, g [3]float64) {
 	t := math.Tan(tt * deg / 2)
 	w2 := p[iU]*t*t + p[iU+1]*t + p[iU+2]
-	w = math.Sqrt(math.Max(w2, 1e-8))
+	if w2 <= minFWHM*minFWHM {
+		return minFWHM, [3]float64{}
+	}
+	w = math.Sqrt(w2)
 	return w, [3]float64{t * t / (2 * w), t / (2 * w), 1 / (2 * w)}
 }
 
 // component is one line (K-alpha1 or K-alpha2) of a reflection at the
 // current parameters.
 type component struct {
-	tt    float64   // position, degrees 2θ
-	dR    []float64 // ∂2θ/∂ the phase's reciprocal coefficients
-	dC    shifts    // ∂2θ/∂ each correction
-	w     float64   // FWHM, degrees
-	gw    [3]float64
-	asym  float64 // the asymmetry A at tt
-	tA    float64 // (2θ − 90°)/90°, the variable of the asymmetry law
-	free  bool    // A lies inside its bounds (its terms act on it)
-	scale float64 // 1, or the K-alpha2 ratio
+	tt    float64    // position, degrees 2θ
+	dR    []float64  // ∂2θ/∂ the phase's reciprocal coefficients
+	dC    shifts     // ∂2θ/∂ each correction
+	w     float64    // FWHM, degrees
+	gw    [3]float64 // ∂w/∂U, V, W
+	asym  float64    // the asymmetry A at tt
+	tA    float64    // (2θ − 90°)/90°, the variable of the asymmetry law
+	free  bool       // A lies inside its bounds (its terms act on it)
+	scale float64    // 1, or the K-alpha2 ratio
 }
 
 // line is one reflection's components at the current parameters.
@@ -93,7 +98,7 @@ func (pf *patternFit) lines(p []float64) []line {
 			if c == 1 {
 				cp.scale = pf.ratio
 			}
-			cp.w, cp.gw = width(p, ph.iU, cp.tt)
+			cp.w, cp.gw = width(p, ph.iU, cp.tt, pf.minFWHM)
 			cp.asym, cp.tA, cp.free = pf.asymmetryAt(p, cp.tt)
 			l.comp[l.n] = cp
 			l.n++

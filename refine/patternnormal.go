@@ -22,12 +22,13 @@ type normal struct {
 }
 
 // normalEquations accumulates the blocks over the rows (r the weighted
-// residuals). Far intensities enter the gradient only (see jacReach).
-func normalEquations(rows []sparseRow, res []float64, ng, ni int) *normal {
+// residuals); farGrad is the far intensities' share of the gradient
+// (see jacReach).
+func normalEquations(rows []sparseRow, res []float64, ng, ni int, farGrad []float64) *normal {
 	kb := 0
 	for _, row := range rows {
 		if n := len(row.near); n > 1 {
-			kb = max(kb, row.near[n-1]-row.near[0])
+			kb = max(kb, int(row.near[n-1]-row.near[0]))
 		}
 	}
 	n := &normal{ng: ng, ni: ni, kb: kb, d: make([]float64, ng*ng), c: make([]float64, ng*ni),
@@ -46,20 +47,21 @@ func normalEquations(rows []sparseRow, res []float64, ng, ni int) *normal {
 			}
 			ca := n.c[a*ni:]
 			for u, k := range row.near {
-				ca[k] += va * row.nearV[u]
+				ca[int(k)] += va * row.nearV[u]
 			}
 		}
-		for u, k := range row.near {
+		for u, k32 := range row.near {
+			k := int(k32)
 			vu := row.nearV[u]
 			n.g[ng+k] += vu * r
 			bk := n.b[k*w:]
 			for v := u; v < len(row.near); v++ {
-				bk[row.near[v]-k] += vu * row.nearV[v]
+				bk[int(row.near[v])-k] += vu * row.nearV[v]
 			}
 		}
-		for u, k := range row.far {
-			n.g[ng+k] += row.farV[u] * r
-		}
+	}
+	for k, v := range farGrad {
+		n.g[ng+k] += v
 	}
 	for a := 0; a < ng; a++ {
 		for b := 0; b < a; b++ {

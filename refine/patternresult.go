@@ -17,6 +17,11 @@ type reported struct {
 	grad  map[int]float64
 }
 
+// maxMoveShare is the relative change of a phase's volume beyond which
+// the fit is taken to have left the start's minimum: three times the 1 %
+// in d within which a start must lie.
+const maxMoveShare = 0.03
+
 // result turns the solution into a PatternResult, with the covariance
 // (JᵀJ)⁻¹ scaled by χ²_red when that exceeds 1.
 func (pf *patternFit) result(s *patternSolution, iter int, opt PatternOptions) (*PatternResult, error) {
@@ -109,15 +114,27 @@ func (pf *patternFit) result(s *patternSolution, iter int, opt PatternOptions) (
 				zero++
 			}
 		}
+		// What the phase's lines add to the fit: the rise of χ² were
+		// they taken away with the rest held, Σ (c_φ² + 2c_φ(y − c))/σ².
+		// Were the phase absent, that rise would be a χ² with as many
+		// degrees of freedom as the phase has parameters (Wilks 1938);
+		// a phase is seen when its rise exceeds that by three of its
+		// standard deviations (χ² scaled by χ²_red when above 1).
+		var rise float64
+		for j, cp := range ph.Calc {
+			rise += (cp*cp + 2*cp*(pf.y[j]-s.calc[j])) / (pf.sig[j] * pf.sig[j])
+		}
+		np := float64(len(ph.Reflections) + len(ph.Params))
+		seen := rise > scale*(np+3*math.Sqrt(2*np))
 		name := ""
 		if len(out.Phases) > 1 {
 			name = fmt.Sprintf("phase %d: ", i+1)
 		}
 		switch {
-		case len(ph.Reflections) > 0 && zero == len(ph.Reflections) && i == 0:
-			return nil, fmt.Errorf("%w: every intensity went to zero: the cell does not describe the pattern", ErrPattern)
 		case len(ph.Reflections) > 0 && zero == len(ph.Reflections):
-			out.Warnings = append(out.Warnings, fmt.Sprintf("%severy intensity went to zero: the cell does not describe any line of the pattern (its parameters are not determined)", name))
+			return nil, fmt.Errorf("%w: %severy intensity went to zero: the cell %s describes no line of the pattern", ErrPattern, name, ph.Cell)
+		case !seen:
+			out.Warnings = append(out.Warnings, fmt.Sprintf("%sits lines improve the fit no more than noise would (Δχ² %.0f for %.0f parameters): the pattern does not show that the cell %s is there", name, rise/scale, np, ph.Cell))
 		case zero > 0:
 			out.Warnings = append(out.Warnings, fmt.Sprintf("%s%d of %d reflections fitted to zero intensity (held at the bound; their esds are not meaningful)", name, zero, len(ph.Reflections)))
 		}
@@ -152,6 +169,13 @@ func (pf *patternFit) phaseResult(i int, ph phaseFit, s *patternSolution, cov fu
 			c6[a][b] = v
 		}
 	}
+	// A fit starts from a cell whose lines lie within a width or two of
+	// their peaks (a few tenths of a per cent in d); a cell that moved
+	// by more than maxMoveShare in volume has left for another minimum
+	// and describes nothing.
+	if v0 := ph.start.Volume(); math.Abs(c.Volume()-v0) > maxMoveShare*v0 {
+		return out, nil, fmt.Errorf("%w: phase %d moved from %s to %s (volume %.1f to %.1f Å³): the cell does not describe the pattern; a whole-pattern fit needs a cell within about 1 %% of the lines", ErrPattern, i+1, ph.start, c, v0, c.Volume())
+	}
 	out.Cell, out.Covariance = c, c6
 	out.ESD = c6.ESD()
 	out.Volume, out.VolumeESD = c.Volume(), c.VolumeESD(c6)
@@ -169,12 +193,14 @@ func (pf *patternFit) phaseResult(i int, ph phaseFit, s *patternSolution, cov fu
 		}
 		reps = append(reps, reported{Param: Param{Name: name, Unit: unit, Value: params[pi]}, phase: i, grad: g})
 	}
-	for j, name := range []string{"U", "V", "W", "eta"} {
-		unit := "°²"
-		if name == "eta" {
-			unit = ""
+	if i == 0 {
+		for j, name := range []string{"U", "V", "W", "eta"} {
+			unit := "°²"
+			if name == "eta" {
+				unit = ""
+			}
+			reps = append(reps, reported{Param: Param{Name: name, Unit: unit, Value: s.p[ph.iU+j]}, phase: i, grad: map[int]float64{ph.iU + j: 1}})
 		}
-		reps = append(reps, reported{Param: Param{Name: name, Unit: unit, Value: s.p[ph.iU+j]}, phase: i, grad: map[int]float64{ph.iU + j: 1}})
 	}
 	for _, r := range reps {
 		out.Params = append(out.Params, r.Param)

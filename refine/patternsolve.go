@@ -80,7 +80,12 @@ func (pf *patternFit) outside(j int, v float64) bool {
 func (pf *patternFit) solve(ctx context.Context, p []float64, maxIter int, fixed []bool, settle float64) (*patternSolution, int, error) {
 	k := len(p)
 	ni := k - pf.iI
-	rows := make([]sparseRow, len(pf.x))
+	// The rows are kept from one stage to the next: their slices then
+	// grow only once.
+	if pf.rows == nil {
+		pf.rows = make([]sparseRow, len(pf.x))
+	}
+	rows := pf.rows
 	res, calc, bg := pf.evaluate(p, rows, -1)
 	chi := sumSq(res)
 	lambda := 1e-3
@@ -89,7 +94,7 @@ func (pf *patternFit) solve(ctx context.Context, p []float64, maxIter int, fixed
 		if err := ctx.Err(); err != nil {
 			return nil, iter, err
 		}
-		ne := normalEquations(rows, res, pf.iI, ni)
+		ne := normalEquations(rows, res, pf.iI, ni, pf.farGrad)
 		hold := make([]bool, k)
 		copy(hold, fixed)
 		// Intensities at their bound that the gradient pushes further
@@ -140,6 +145,11 @@ func (pf *patternFit) solve(ctx context.Context, p []float64, maxIter int, fixed
 			}
 			lambda *= 10
 		}
+		if pf.progress != nil {
+			// Within a stage, the share done is taken as that of a
+			// typical fit's 30 iterations, never reaching the next.
+			pf.progress(100*pf.stage+min(99, 100*(iter+1)/30), 300)
+		}
 		if !improved || settled {
 			iter++
 			break
@@ -148,7 +158,7 @@ func (pf *patternFit) solve(ctx context.Context, p []float64, maxIter int, fixed
 	if math.IsNaN(chi) || math.IsInf(chi, 0) {
 		return nil, iter, fmt.Errorf("%w: the fit diverged (χ² not finite); the cell is far from the data", ErrPattern)
 	}
-	return &patternSolution{p: p, calc: calc, bg: bg, ne: normalEquations(rows, res, pf.iI, ni), chi2: chi}, iter, nil
+	return &patternSolution{p: p, calc: calc, bg: bg, ne: normalEquations(rows, res, pf.iI, ni, pf.farGrad), chi2: chi}, iter, nil
 }
 
 // minW is the lower bound of the width law's W, degrees²: a width of

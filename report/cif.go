@@ -11,6 +11,7 @@ import (
 	"reticle/cell"
 	"reticle/density"
 	"reticle/esd"
+	"reticle/refine"
 )
 
 // cifSystem maps a crystal system to the core dictionary's
@@ -179,6 +180,30 @@ func WriteCIF(w io.Writer, a *analysis.Analysis, date time.Time) error {
 			p("%d %d %d %.6f %d %.5f\n", h[0], h[1], h[2], ce.D(h), i+1, calc)
 		}
 	}
+	if pf := a.Pattern; pf != nil && len(pf.Fit.Calc) == a.Scan.Len() {
+		writePatternCIF(&b, a, pf)
+	}
 	_, err := io.WriteString(w, b.String())
 	return err
+}
+
+// writePatternCIF adds a whole-pattern fit: its agreement factors under
+// the powder dictionary's names (fractions, as the dictionary defines
+// them) and the profile, point by point (measured 2θ and counts, the
+// calculated total and background).
+func writePatternCIF(b *strings.Builder, a *analysis.Analysis, pf *analysis.PatternFit) {
+	f := pf.Fit
+	p := func(format string, args ...any) { fmt.Fprintf(b, format, args...) }
+	p("\n_pd_proc_ls_prof_R_factor %.5f\n", f.Rp)
+	p("_pd_proc_ls_prof_wR_factor %.5f\n", f.Rwp)
+	p("_pd_proc_ls_prof_wR_expected %.5f\n", f.Rexp)
+	p("_refine_ls_goodness_of_fit_all %.4f\n", f.GoF)
+	p("_refine_ls_number_parameters %d\n", f.Parameters)
+	p("_pd_proc_ls_profile_function %s\n", cifString("pseudo-Voigt lines, a Caglioti width law and one Lorentzian fraction per phase, split for asymmetry (Toraya 1990)"))
+	p("_pd_proc_ls_background_function %s\n", cifString(fmt.Sprintf("Chebyshev polynomial, %d terms", refine.DefaultBackgroundTerms)))
+	p("\nloop_\n_pd_meas_2theta_scan\n_pd_meas_counts_total\n_pd_calc_intensity_total\n_pd_proc_intensity_bkg_calc\n")
+	sc := a.Scan
+	for i := range sc.TwoTheta {
+		p("%.5f %s %.2f %.2f\n", sc.TwoTheta[i], ftoa(sc.Intensity[i]), f.Calc[i], f.Background[i])
+	}
 }

@@ -105,6 +105,10 @@ func WritePDF(w io.Writer, a *analysis.Analysis, paper Paper, date time.Time) er
 	}
 	if c := a.ChosenCandidate(); c != nil {
 		x.refined(c)
+		if a.Pattern != nil {
+			x.heading("Whole-pattern fit")
+			x.keyValues(PatternRows(a.Pattern), 30)
+		}
 		x.contents(a, c)
 	} else {
 		x.heading("Refined cell")

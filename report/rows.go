@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"strings"
 
+	"reticle/analysis"
+	"reticle/cell"
 	"reticle/density"
 	"reticle/esd"
 	"reticle/refine"
@@ -148,4 +150,49 @@ func Percent(p float64) string {
 		return "< 0.1 %"
 	}
 	return fmt.Sprintf("%.1f %%", 100*p)
+}
+
+// PatternRows describes a whole-pattern fit: the agreement factors, how
+// the esds were scaled, the shared parameters, each phase's cell and
+// profile, the strongest correlations and the lines no phase explains.
+func PatternRows(pf *analysis.PatternFit) []Row {
+	f := pf.Fit
+	scaled := "esds from the counts' weights"
+	if f.Scaled {
+		scaled = fmt.Sprintf("esds multiplied by GoF = %.3f", f.GoF)
+	}
+	rows := []Row{
+		{"method", fmt.Sprintf("Pawley fit of %d phase(s), %d points, %d parameters, corrections %s", len(f.Phases), f.Points, f.Parameters, f.Corrections)},
+		{"agreement", fmt.Sprintf("Rp %.2f %%, Rwp %.2f %%, Rexp %.2f %%, χ²_red %.3f, GoF %.3f (%s)", 100*f.Rp, 100*f.Rwp, 100*f.Rexp, f.Chi2, f.GoF, scaled)},
+	}
+	for _, p := range f.Params {
+		rows = append(rows, Row{p.Name, strings.TrimSpace(esd.Format(p.Value, p.ESD) + " " + p.Unit)})
+	}
+	for i, ph := range f.Phases {
+		label := fmt.Sprintf("phase %d", i+1)
+		rows = append(rows, Row{label, fmt.Sprintf("%s, V = %s Å³ (from %s; %d reflections)", cell.Format(ph.Cell, ph.ESD), esd.Format(ph.Volume, ph.VolumeESD), pf.Texts[i], len(ph.Reflections))})
+		var prof []string
+		for _, p := range ph.Params[len(ph.Cell.System.FreeNames()):] {
+			prof = append(prof, strings.TrimSpace(fmt.Sprintf("%s %s %s", p.Name, esd.Format(p.Value, p.ESD), p.Unit)))
+		}
+		rows = append(rows, Row{label + " profile", strings.Join(prof, ", ")})
+	}
+	if len(f.Correlations) > 0 {
+		var cs []string
+		for _, c := range f.Correlations {
+			cs = append(cs, fmt.Sprintf("%s–%s %+.2f", c.A, c.B, c.R))
+		}
+		rows = append(rows, Row{"strongest correlations", strings.Join(cs, "; ")})
+	}
+	if n := len(pf.Unexplained); n > 0 {
+		var ls []string
+		for _, u := range pf.Unexplained {
+			ls = append(ls, fmt.Sprintf("%.3f° (height %.0f)", u.TwoTheta, u.Height))
+		}
+		rows = append(rows, Row{"lines no phase explains", strings.Join(ls, ", ")})
+	}
+	for _, w := range f.Warnings {
+		rows = append(rows, Row{"note", w})
+	}
+	return rows
 }

@@ -132,7 +132,7 @@ func fitFile(ctx context.Context, path string, r *request) (fitDocJSON, error) {
 	}
 	cells := append([]cell.Cell{*r.cell}, r.more...)
 	texts := append([]string{r.cellText}, r.moreTexts...)
-	pf, err := analysis.FitPattern(ctx, e, cells, r.settings)
+	pf, err := analysis.FitPattern(ctx, e, cells, r.settings, nil)
 	if err != nil {
 		return fitDocJSON{}, err
 	}
