@@ -521,7 +521,8 @@ func (u *ui) refineStep() fyne.CanvasObject {
 	u.fitBtn = widget.NewButtonWithIcon("Fit the whole pattern", theme.MediaPlayIcon(), u.fitWhole)
 	form := widget.NewForm(
 		widget.NewFormItem("Typed cell", u.cellEntry),
-		widget.NewFormItem("Whole pattern", container.NewBorder(nil, nil, nil, u.phaseSel, container.NewBorder(nil, nil, u.fitBtn, nil, u.phasesEntry))),
+		widget.NewFormItem("Whole pattern", container.NewHBox(u.fitBtn)),
+		widget.NewFormItem("Further phases", container.NewBorder(nil, nil, nil, u.phaseSel, u.phasesEntry)),
 		widget.NewFormItem("Corrections", container.NewHBox(u.autoCheck, u.zeroCheck, u.dispCheck)),
 		widget.NewFormItem("Goniometer radius (mm)", u.radiusEntry),
 		widget.NewFormItem("Scale esds by χ²_red", u.scalingSel),

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"io"
+	"math"
 	"path/filepath"
 	"reticle/indexing"
 	"slices"
@@ -349,7 +350,13 @@ func (x *pdfWriter) table(cols []column, rows [][]string) {
 			if j < len(r) {
 				v = r[j]
 			}
+			// A value wider than its column is set smaller rather
+			// than run into the next.
+			if w := p.GetStringWidth(v); w > c.width-1 {
+				p.SetFontSize(math.Max(7.5*(c.width-1)/w, 4.5))
+			}
 			p.CellFormat(c.width, rh, v, "", 0, c.align, fill, 0, "")
+			p.SetFontSize(7.5)
 		}
 		p.Ln(-1)
 	}
@@ -387,7 +394,7 @@ func (x *pdfWriter) candidates(a *analysis.Analysis) {
 		}
 	}
 	cols = append(cols, column{"V (Å³)", 15, "R"}, column{"probability", 15, "R"}, column{"M_N", 12, "R"},
-		column{"F_N", 12, "R"}, column{"indexed", 13, "R"}, column{"Z", 10, "R"}, column{"note", 13, "L"})
+		column{"F_N", 12, "R"}, column{"indexed", 13, "R"}, column{"Z", 17, "R"}, column{"note", 13, "L"})
 	var rows [][]string
 	for i, c := range a.Candidates {
 		ce := c.Cell()

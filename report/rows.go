@@ -182,7 +182,7 @@ func PatternRows(pf *analysis.PatternFit) []Row {
 		for _, c := range f.Correlations {
 			cs = append(cs, fmt.Sprintf("%s–%s %+.2f", c.A, c.B, c.R))
 		}
-		rows = append(rows, Row{"strongest correlations", strings.Join(cs, "; ")})
+		rows = append(rows, Row{"correlations", strings.Join(cs, "; ")})
 	}
 	if n := len(pf.Unexplained); n > 0 {
 		var ls []string
