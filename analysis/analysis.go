@@ -60,6 +60,10 @@ type Candidate struct {
 	// indexed lines; nil, with RefineErr saying why, when it failed.
 	Refined   *refine.Result
 	RefineErr error
+	// Evidence is the candidate's whole-pattern fit when the first
+	// candidates were close enough to be weighed by the pattern; nil
+	// otherwise.
+	Evidence *PatternEvidence
 	// Contents, when a formula was given; ContentsErr says why not
 	// when they could not be worked out.
 	Contents    *density.Contents
@@ -244,6 +248,11 @@ func Analyse(ctx context.Context, e *Extraction, s Settings, progress Progress) 
 			c.Contents, c.ContentsErr = contents(&c, s)
 		}
 		a.Candidates = append(a.Candidates, c)
+	}
+	if s.WeighByPattern {
+		if err := weighByPattern(ctx, a, e, s); err != nil {
+			return nil, err
+		}
 	}
 	if s.Density != nil {
 		demoteFractionalZ(a.Candidates)

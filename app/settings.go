@@ -22,6 +22,7 @@ type settingsForm struct {
 	threshold, background, ka2  *widget.Entry
 	systems                     *widget.CheckGroup
 	searchLower                 *widget.Check
+	weighByPattern              *widget.Check
 	tolerance, unindexed, flags *widget.Entry
 	transparency                *widget.Check
 	paper                       *widget.Select
@@ -75,6 +76,8 @@ func newSettingsForm(s analysis.Settings, paper report.Paper) *settingsForm {
 	f.systems.SetSelected(on)
 	f.searchLower = widget.NewCheck("search the lower systems even when a higher cell explains the lines", nil)
 	f.searchLower.SetChecked(s.SearchLower)
+	f.weighByPattern = widget.NewCheck("weigh the close candidates by whole-pattern fits", nil)
+	f.weighByPattern.SetChecked(s.WeighByPattern)
 	f.transparency = widget.NewCheck("refine the sample transparency too", nil)
 	f.transparency.SetChecked(s.Corrections != nil && s.Corrections.Has(refine.Transparency))
 	f.paper = widget.NewSelect([]string{string(report.A4), string(report.Letter)}, nil)
@@ -100,6 +103,7 @@ func (f *settingsForm) items() []*widget.FormItem {
 		head("Cells"),
 		widget.NewFormItem("Systems searched", f.systems),
 		widget.NewFormItem("", f.searchLower),
+		widget.NewFormItem("", f.weighByPattern),
 		widget.NewFormItem("Tolerance (° 2θ)", f.tolerance),
 		widget.NewFormItem("Unindexed lines allowed", f.unindexed),
 		head("Refinement"),
@@ -169,6 +173,7 @@ func (f *settingsForm) apply(s analysis.Settings) (analysis.Settings, report.Pap
 		}
 	}
 	s.SearchLower = f.searchLower.Checked
+	s.WeighByPattern = f.weighByPattern.Checked
 	c := refine.DefaultCorrections
 	if s.Corrections != nil {
 		c = *s.Corrections

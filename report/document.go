@@ -250,6 +250,22 @@ type Solution struct {
 	// Contents, when a formula was given.
 	Contents      *Contents `json:"contents,omitempty"`
 	ContentsError string    `json:"contents_error,omitempty"`
+	// PatternEvidence is the candidate's whole-pattern fit when the
+	// candidates were weighed by the pattern (analysis.PatternEvidence).
+	PatternEvidence *PatternEvidence `json:"pattern_evidence,omitempty"`
+}
+
+// PatternEvidence is a candidate's whole-pattern fit in the ranking: its
+// agreement (percent), its log likelihood and the probability the line
+// positions alone gave the candidate.
+type PatternEvidence struct {
+	Rwp           float64 `json:"rwp"`
+	Rexp          float64 `json:"rexp"`
+	Chi2          float64 `json:"chi2"`
+	Parameters    int     `json:"parameters"`
+	LogLikelihood float64 `json:"log_likelihood"`
+	Prior         float64 `json:"probability_from_lines"`
+	Error         string  `json:"error,omitempty"`
 }
 
 // A Param is one refined parameter.
@@ -508,6 +524,10 @@ func NewSolution(a *analysis.Analysis, c *analysis.Candidate) Solution {
 	}
 	if s.Reduced.Volume() > 0 {
 		j.Reduced = cell.Format(s.Reduced, cell.ESD{})
+	}
+	if ev := c.Evidence; ev != nil {
+		j.PatternEvidence = &PatternEvidence{Rwp: 100 * ev.Rwp, Rexp: 100 * ev.Rexp, Chi2: ev.Chi2, Parameters: ev.Parameters,
+			LogLikelihood: ev.LogLikelihood, Prior: ev.Prior, Error: ev.Err}
 	}
 	for _, l := range s.Lines {
 		jl := Line{TwoTheta: l.TwoTheta, ESD: l.ESD, Indexed: l.Indexed, HKL: l.HKL, TwoThetaCalc: l.TwoThetaCalc, Delta: l.Delta}

@@ -119,6 +119,9 @@ var options = []option{
 			}
 			return nil
 		}},
+	{name: "weigh-by-pattern", in: cmdIndex | cmdReport,
+		help: "fit the close first candidates to the whole pattern and let the fits enter their probabilities (each candidate's JSON then has pattern_evidence)",
+		set:  func(r *request, _ string) error { r.settings.WeighByPattern = true; return nil }},
 	{name: "search-lower", in: cmdIndex | cmdReport,
 		help: "search the lower systems even when a higher cell explains the lines",
 		set:  func(r *request, _ string) error { r.settings.SearchLower = true; return nil }},
