@@ -91,29 +91,30 @@ func cmdFitRun(ctx context.Context, args []string, stdout, stderr io.Writer) int
 		fmt.Fprintln(stderr, "reticle fit: no scan file given")
 		return 2
 	}
-	var docs []fitDocJSON
+	files = expandInputs(files)
+	docs := make([]fitDocJSON, len(files))
+	errs := make([]error, len(files))
+	done := forEach(ctx, len(files), r.jobs, stderr, "fitting", largestFirst(files), func(i int) {
+		docs[i], errs[i] = fitFile(ctx, files[i], r)
+	})
+	if ctx.Err() != nil {
+		return interrupted(cmdFit, files, done, stderr)
+	}
 	status := 0
-	done := make([]bool, len(files))
-	for i, path := range files {
-		if ctx.Err() != nil {
-			return interrupted(cmdFit, files, done, stderr)
-		}
-		doc, err := fitFile(ctx, path, r)
-		done[i] = err == nil
+	var out []fitDocJSON
+	for i, err := range errs {
 		if err != nil {
 			fmt.Fprintf(stderr, "reticle fit: %v\n", err)
 			status = 1
 			continue
 		}
 		if r.json {
-			docs = append(docs, doc)
+			out = append(out, docs[i])
 		} else {
-			printFit(stdout, doc)
+			printFit(stdout, docs[i])
 		}
 	}
-	if ctx.Err() != nil {
-		return interrupted(cmdFit, files, done, stderr)
-	}
+	docs = out
 	if r.json && len(docs) > 0 {
 		if err := encodeDocs(stdout, docs); err != nil {
 			fmt.Fprintf(stderr, "reticle fit: %v\n", err)

@@ -253,7 +253,7 @@ var options = []option{
 	{name: "session", arg: "FILE", in: cmdReport, def: "none",
 		help: "regenerate from a session file of the desktop program or an earlier report's JSON",
 		set:  func(r *request, v string) error { r.session = v; return nil }},
-	{name: "jobs", arg: "N", in: cmdIndex | cmdReport, def: "every core (" + strconv.Itoa(runtime.NumCPU()) + " here)",
+	{name: "jobs", arg: "N", in: cmdIndex | cmdReport | cmdFit, def: "every core (" + strconv.Itoa(runtime.NumCPU()) + " here)",
 		help: "scans analysed at once; the run uses at most N cores",
 		set: func(r *request, v string) error {
 			n, err := strconv.Atoi(v)
