@@ -137,3 +137,35 @@ func TestLevenbergMarquardt(t *testing.T) {
 		t.Errorf("scatter of the position %.3g, esd %.3g", rms, esd)
 	}
 }
+
+// TestTCH: the limits (a pure Gaussian gives η 0 and its own width, a
+// pure Lorentzian η ≈ 1 and its own width), the derivatives against
+// central differences, and TCHStart inverting TCH to within a few per
+// cent.
+func TestTCH(t *testing.T) {
+	if w, eta, _, _, _, _ := TCH(0.1, 0); math.Abs(w-0.1) > 1e-12 || eta != 0 {
+		t.Errorf("Gaussian: w %g, eta %g", w, eta)
+	}
+	if w, eta, _, _, _, _ := TCH(0, 0.1); math.Abs(w-0.1) > 1e-12 || math.Abs(eta-1) > 1e-4 {
+		t.Errorf("Lorentzian: w %g, eta %g", w, eta)
+	}
+	for _, c := range [][2]float64{{0.1, 0.05}, {0.05, 0.2}, {0.3, 0.01}} {
+		w, eta, dwG, dwL, deG, deL := TCH(c[0], c[1])
+		const h = 1e-7
+		wp, ep, _, _, _, _ := TCH(c[0]+h, c[1])
+		wm, em, _, _, _, _ := TCH(c[0]-h, c[1])
+		if math.Abs((wp-wm)/(2*h)-dwG) > 1e-6 || math.Abs((ep-em)/(2*h)-deG) > 1e-5 {
+			t.Errorf("%v: ∂/∂gG %g %g, differences %g %g", c, dwG, deG, (wp-wm)/(2*h), (ep-em)/(2*h))
+		}
+		wp, ep, _, _, _, _ = TCH(c[0], c[1]+h)
+		wm, em, _, _, _, _ = TCH(c[0], c[1]-h)
+		if math.Abs((wp-wm)/(2*h)-dwL) > 1e-6 || math.Abs((ep-em)/(2*h)-deL) > 1e-5 {
+			t.Errorf("%v: ∂/∂gL %g %g, differences %g %g", c, dwL, deL, (wp-wm)/(2*h), (ep-em)/(2*h))
+		}
+		g, l := TCHStart(w, eta)
+		w2, eta2, _, _, _, _ := TCH(g, l)
+		if math.Abs(w2-w) > 0.03*w || math.Abs(eta2-eta) > 0.03 {
+			t.Errorf("%v: TCHStart gives w %g eta %g for %g %g", c, w2, eta2, w, eta)
+		}
+	}
+}

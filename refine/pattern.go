@@ -22,9 +22,11 @@ type PatternOptions struct {
 	// both; None refines neither. Auto and Transparency are not taken
 	// here.
 	Corrections Corrections
-	// Width and Eta start every phase's profile: the Caglioti width law
-	// and the Lorentzian fraction, e.g. those the peak extraction
-	// measured. A zero Width means FWHM 0.1° everywhere; Eta 0 means 0.5.
+	// Width and Eta start the profile: a Caglioti width law and a
+	// Lorentzian fraction, e.g. those the peak extraction measured,
+	// split into the Gaussian and Lorentzian widths of the fit's
+	// profile (see nProfile). A zero Width means FWHM 0.1° everywhere;
+	// Eta 0 means 0.5.
 	Width profile.Caglioti
 	Eta   float64
 	// Asymmetry starts the instrument's asymmetry law (profile.Asymmetry,
@@ -138,8 +140,8 @@ type phaseFit struct {
 	cen    cell.Centring
 	m1, m2 *model
 	nr     int // free reciprocal coefficients
-	// iR is the first reciprocal coefficient; iU is U, V, W, eta, the
-	// main phase's for every phase. A further phase (a standard, an
+	// iR is the first reciprocal coefficient; iU is the first of the
+	// nProfile profile parameters, the main phase's for every phase. A further phase (a standard, an
 	// impurity) is usually weak, and its few lines cannot determine a
 	// width law of their own: given one (or a width of its own, as
 	// small crystallites have), its lines widen until they fit the
@@ -188,8 +190,8 @@ func FitPattern(ctx context.Context, c cell.Cell, x, y, sig []float64, opt Patte
 // esds sig) with one or more phases, as Pawley (J. Appl. Cryst. 14
 // (1981) 357) described: each cell constrained by its system, a free
 // integrated intensity for each distinct d-spacing of each phase
-// (bounded below by zero), each phase's Caglioti width law (Caglioti,
-// Paoletti & Ricci 1958) with one pseudo-Voigt mixing η, the instrument's
+// (bounded below by zero), pseudo-Voigt lines whose Gaussian and
+// Lorentzian widths follow their laws with angle (nProfile), the instrument's
 // split pseudo-Voigt asymmetry (Toraya, J. Appl. Cryst. 23 (1990) 485;
 // the angular law of profile.Asymmetry), the K-alpha doublet with its
 // ratio, the instrument corrections chosen, and a Chebyshev background.
@@ -229,10 +231,11 @@ func FitPhases(ctx context.Context, cells []cell.Cell, x, y, sig []float64, opt 
 	}
 	pf.progress = opt.Progress
 	k := len(p)
-	setProfile := func(w profile.Caglioti, eta float64) {
-		for _, ph := range pf.phases {
-			p[ph.iU], p[ph.iU+1], p[ph.iU+2], p[ph.iU+3] = w.U, w.V, w.W, eta
-		}
+	// setProfile starts the profile from a Gaussian width law scaled by
+	// kG² and a Lorentzian width Y/cos θ.
+	setProfile := func(w profile.Caglioti, kG, y float64) {
+		iU := pf.phases[0].iU
+		p[iU], p[iU+1], p[iU+2], p[iU+3], p[iU+4] = w.U*kG*kG, w.V*kG*kG, w.W*kG*kG, 0, y
 	}
 	// Continuation: the lines are first broadened to FWHM 0.4° and then
 	// 0.15° with the profile held, so that a cell a few tenths of a per
@@ -241,7 +244,7 @@ func FitPhases(ctx context.Context, cells []cell.Cell, x, y, sig []float64, opt 
 	// starts where the broader one ended).
 	fixed := make([]bool, k)
 	for _, ph := range pf.phases {
-		for j := ph.iU; j < ph.iU+4; j++ {
+		for j := ph.iU; j < ph.iU+nProfile; j++ {
 			fixed[j] = true
 		}
 	}
@@ -263,7 +266,7 @@ func FitPhases(ctx context.Context, cells []cell.Cell, x, y, sig []float64, opt 
 		if math.Sqrt(opt.Width.W) >= fw {
 			continue
 		}
-		setProfile(profile.Caglioti{W: fw * fw}, opt.Eta)
+		setProfile(profile.Caglioti{W: fw * fw}, 1, 0)
 		pf.startLinear(p)
 		sol, it, err := pf.solve(ctx, p, min(opt.MaxIter, broadIter), fixed, settledShare*fw)
 		if err != nil {
@@ -272,7 +275,11 @@ func FitPhases(ctx context.Context, cells []cell.Cell, x, y, sig []float64, opt 
 		copy(p, sol.p)
 		iter += it
 	}
-	setProfile(opt.Width, opt.Eta)
+	// The measured width law and mixing, split into the Gaussian and
+	// Lorentzian widths whose combination they are at 2θ = 90°.
+	w90 := opt.Width.At(90)
+	gG, gL := profile.TCHStart(w90, opt.Eta)
+	setProfile(opt.Width, gG/w90, gL*math.Cos(math.Pi/4))
 	pf.startLinear(p)
 	pf.stage = 2
 	sol, it, err := pf.solve(ctx, p, opt.MaxIter, nil, 0)
@@ -310,10 +317,10 @@ func newPatternFit(cells []cell.Cell, x, y, sig []float64, opt PatternOptions) (
 		}
 		ph.nr = len(start(c))
 		ph.iR, ph.iU = next, next+ph.nr
-		next = ph.iU + 4
+		next = ph.iU + nProfile
 		if i > 0 {
 			ph.iU = pf.phases[0].iU
-			next -= 4
+			next -= nProfile
 		}
 		pf.phases = append(pf.phases, ph)
 		n := len(pf.refl)

@@ -33,11 +33,6 @@ func (pf *patternFit) evaluate(p []float64, rows []sparseRow, only int) (res, ca
 	ls := pf.lines(p)
 	n := len(pf.x)
 	res, calc, bg = make([]float64, n), make([]float64, n), make([]float64, n)
-	af := make([]float64, len(pf.phases))
-	daf := make([]float64, len(pf.phases))
-	for i, ph := range pf.phases {
-		af[i], daf[i] = areaFactor(p[ph.iU+3], pf.tail)
-	}
 	if rows != nil {
 		if len(pf.farGrad) != len(pf.refl) {
 			pf.farGrad = make([]float64, len(pf.refl))
@@ -86,21 +81,20 @@ func (pf *patternFit) evaluate(p []float64, rows []sparseRow, only int) (res, ca
 				continue
 			}
 			amp := p[pf.iI+k]
-			eta := p[ph.iU+3]
-			fa := af[pf.refl[k].phase]
 			var dI float64
 			near := false
 			for _, cp := range l.comp[:l.n] {
 				if math.Abs(x-cp.tt) > l.reach {
 					continue
 				}
+				fa, daf := areaFactor(cp.eta, pf.tail)
 				norm := cp.scale / (cp.w * fa)
 				if row == nil {
-					a := profile.LineShape(x, cp.tt, cp.w, eta, cp.asym, pf.tail) * norm
+					a := profile.LineShape(x, cp.tt, cp.w, cp.eta, cp.asym, pf.tail) * norm
 					c += amp * a
 					continue
 				}
-				f, dx0, dw, deta, dasym := profile.LineGrad(x, cp.tt, cp.w, eta, cp.asym, pf.tail)
+				f, dx0, dw, deta, dasym := profile.LineGrad(x, cp.tt, cp.w, cp.eta, cp.asym, pf.tail)
 				a := f * norm // area-normalised line
 				c += amp * a
 				dI += a
@@ -113,10 +107,10 @@ func (pf *patternFit) evaluate(p []float64, rows []sparseRow, only int) (res, ca
 					row.g[j] += dpos * cp.dC[ci]
 				}
 				dwid := amp * (dw*norm - a/cp.w)
-				row.g[ph.iU] += dwid * cp.gw[0]
-				row.g[ph.iU+1] += dwid * cp.gw[1]
-				row.g[ph.iU+2] += dwid * cp.gw[2]
-				row.g[ph.iU+3] += amp * (deta*norm - a*daf[pf.refl[k].phase]/fa)
+				dmix := amp * (deta*norm - a*daf/fa)
+				for j := 0; j < nProfile; j++ {
+					row.g[ph.iU+j] += dwid*cp.gw[j] + dmix*cp.ge[j]
+				}
 				if cp.free {
 					da, f := amp*dasym*norm, 1.0
 					for j := 0; j < pf.nA; j++ {

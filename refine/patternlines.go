@@ -20,32 +20,64 @@ const (
 	jacReach  = 8
 )
 
-// width returns the FWHM at 2θ tt for the width law at p[iU:] and its
-// derivatives with respect to U, V, W. The width is held at least
-// minFWHM degrees (where it has no derivative): a line narrower than the
-// scan's step has no shape the points can define.
-func width(p []float64, iU int, tt, minFWHM float64) (w float64, g [3]float64) {
-	t := math.Tan(tt * deg / 2)
-	w2 := p[iU]*t*t + p[iU+1]*t + p[iU+2]
-	if w2 <= minFWHM*minFWHM {
-		return minFWHM, [3]float64{}
+// nProfile is the number of the main phase's profile parameters: U, V,
+// W of the Gaussian width law (Caglioti, Paoletti & Ricci 1958), degrees²,
+// and X, Y of the Lorentzian width X tan θ + Y / cos θ, degrees
+// (strain and size broadening), combined into each line's FWHM and
+// mixing by Thompson, Cox & Hastings (1987), profile.TCH.
+const nProfile = 5
+
+// lineWidth returns the FWHM and mixing of a line at 2θ tt for the
+// profile p[iU:iU+nProfile], and their derivatives with respect to
+// those parameters. The Gaussian width is kept near minFWHM degrees or
+// above (a line narrower than the scan's step has no shape the points
+// can define); the Lorentzian width at least 0.
+func lineWidth(p []float64, iU int, tt, minFWHM float64) (w, eta float64, gw, ge [nProfile]float64) {
+	th := tt * deg / 2
+	t, c := math.Tan(th), math.Cos(th)
+	// The Gaussian width: √(m² + g²) for the law's g² ≥ 0 and
+	// m·exp(g²/2m²) below, one smooth curve whose slope never
+	// vanishes, so that a law driven negative can climb back.
+	g2 := p[iU]*t*t + p[iU+1]*t + p[iU+2]
+	m2 := minFWHM * minFWHM
+	var gG, d float64 // width and ∂width/∂g²
+	if g2 >= 0 {
+		gG = math.Sqrt(m2 + g2)
+		d = 1 / (2 * gG)
+	} else {
+		gG = minFWHM * math.Exp(g2/(2*m2))
+		d = gG / (2 * m2)
 	}
-	w = math.Sqrt(w2)
-	return w, [3]float64{t * t / (2 * w), t / (2 * w), 1 / (2 * w)}
+	dG := [3]float64{t * t * d, t * d, d}
+	gL := p[iU+3]*t + p[iU+4]/c
+	dL := [2]float64{t, 1 / c}
+	if gL <= 0 {
+		gL, dL = 0, [2]float64{}
+	}
+	w, eta, dwG, dwL, deG, deL := profile.TCH(gG, gL)
+	for j := 0; j < 3; j++ {
+		gw[j], ge[j] = dwG*dG[j], deG*dG[j]
+	}
+	for j := 0; j < 2; j++ {
+		gw[3+j], ge[3+j] = dwL*dL[j], deL*dL[j]
+	}
+	return
 }
 
 // component is one line (K-alpha1 or K-alpha2) of a reflection at the
 // current parameters.
 type component struct {
-	tt    float64    // position, degrees 2θ
-	dR    []float64  // ∂2θ/∂ the phase's reciprocal coefficients
-	dC    shifts     // ∂2θ/∂ each correction
-	w     float64    // FWHM, degrees
-	gw    [3]float64 // ∂w/∂U, V, W
-	asym  float64    // the asymmetry A at tt
-	tA    float64    // (2θ − 90°)/90°, the variable of the asymmetry law
-	free  bool       // A lies inside its bounds (its terms act on it)
-	scale float64    // 1, or the K-alpha2 ratio
+	tt    float64           // position, degrees 2θ
+	dR    []float64         // ∂2θ/∂ the phase's reciprocal coefficients
+	dC    shifts            // ∂2θ/∂ each correction
+	w     float64           // FWHM, degrees
+	eta   float64           // Lorentzian fraction
+	gw    [nProfile]float64 // ∂w/∂ each profile parameter
+	ge    [nProfile]float64 // ∂η/∂ each profile parameter
+	asym  float64           // the asymmetry A at tt
+	tA    float64           // (2θ − 90°)/90°, the variable of the asymmetry law
+	free  bool              // A lies inside its bounds (its terms act on it)
+	scale float64           // 1, or the K-alpha2 ratio
 }
 
 // line is one reflection's components at the current parameters.
@@ -98,7 +130,7 @@ func (pf *patternFit) lines(p []float64) []line {
 			if c == 1 {
 				cp.scale = pf.ratio
 			}
-			cp.w, cp.gw = width(p, ph.iU, cp.tt, pf.minFWHM)
+			cp.w, cp.eta, cp.gw, cp.ge = lineWidth(p, ph.iU, cp.tt, pf.minFWHM)
 			cp.asym, cp.tA, cp.free = pf.asymmetryAt(p, cp.tt)
 			l.comp[l.n] = cp
 			l.n++
@@ -133,10 +165,10 @@ func (pf *patternFit) startLinear(p []float64) {
 			continue
 		}
 		c := l.comp[0]
-		eta := p[pf.phases[pf.refl[k].phase].iU+3]
 		i := nearest(pf.x, c.tt)
 		h := math.Max(pf.y[i]-p[pf.iBg], 0)
-		p[pf.iI+k] = h * c.w * profile.AreaFactor(eta) / float64(1+countNear(ls, c.tt, c.w))
+		af, _ := areaFactor(c.eta, pf.tail)
+		p[pf.iI+k] = h * c.w * af / float64(1+countNear(ls, c.tt, c.w))
 	}
 }
 

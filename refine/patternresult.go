@@ -194,10 +194,10 @@ func (pf *patternFit) phaseResult(i int, ph phaseFit, s *patternSolution, cov fu
 		reps = append(reps, reported{Param: Param{Name: name, Unit: unit, Value: params[pi]}, phase: i, grad: g})
 	}
 	if i == 0 {
-		for j, name := range []string{"U", "V", "W", "eta"} {
+		for j, name := range []string{"U", "V", "W", "X", "Y"} {
 			unit := "°²"
-			if name == "eta" {
-				unit = ""
+			if j >= 3 {
+				unit = "°"
 			}
 			reps = append(reps, reported{Param: Param{Name: name, Unit: unit, Value: s.p[ph.iU+j]}, phase: i, grad: map[int]float64{ph.iU + j: 1}})
 		}

@@ -65,16 +65,16 @@ func (pf *patternFit) outside(j int, v float64) bool {
 			return v < 0
 		case ph.iU + 2:
 			return v < minW
-		case ph.iU + 3:
-			return v < 0 || v > 1
+		case ph.iU + 3, ph.iU + 4:
+			return v < 0
 		}
 	}
 	return false
 }
 
 // solve runs Levenberg–Marquardt (Marquardt 1963) with the diagonal
-// damping, projecting each step onto the bounds (intensities and U, W
-// not below zero, η within 0..1). Parameters marked in fixed are held.
+// damping, projecting each step onto the bounds (intensities, U, W, X
+// and Y not below zero). Parameters marked in fixed are held.
 // With settle above zero, the iterations also end when an accepted step
 // moved no line by settle degrees or more.
 func (pf *patternFit) solve(ctx context.Context, p []float64, maxIter int, fixed []bool, settle float64) (*patternSolution, int, error) {
@@ -107,10 +107,11 @@ func (pf *patternFit) solve(ctx context.Context, p []float64, maxIter int, fixed
 		}
 		// So are the profile's bounded parameters.
 		for _, ph := range pf.phases {
-			u, w, eta := ph.iU, ph.iU+2, ph.iU+3
+			u, w, x, y := ph.iU, ph.iU+2, ph.iU+3, ph.iU+4
 			hold[u] = hold[u] || p[u] <= 0 && ne.g[u] <= 0
 			hold[w] = hold[w] || p[w] <= minW && ne.g[w] <= 0
-			hold[eta] = hold[eta] || p[eta] <= 0 && ne.g[eta] <= 0 || p[eta] >= 1 && ne.g[eta] >= 0
+			hold[x] = hold[x] || p[x] <= 0 && ne.g[x] <= 0
+			hold[y] = hold[y] || p[y] <= 0 && ne.g[y] <= 0
 		}
 		if pf.converged(ne, p, hold, chi) {
 			break
@@ -170,7 +171,8 @@ func (pf *patternFit) project(q []float64) {
 	for _, ph := range pf.phases {
 		q[ph.iU] = math.Max(q[ph.iU], 0)
 		q[ph.iU+2] = math.Max(q[ph.iU+2], minW)
-		q[ph.iU+3] = math.Min(math.Max(q[ph.iU+3], 0), 1)
+		q[ph.iU+3] = math.Max(q[ph.iU+3], 0)
+		q[ph.iU+4] = math.Max(q[ph.iU+4], 0)
 	}
 	for j := pf.iI; j < len(q); j++ {
 		q[j] = math.Max(q[j], 0)

@@ -199,7 +199,7 @@ func writePatternCIF(b *strings.Builder, a *analysis.Analysis, pf *analysis.Patt
 	p("_pd_proc_ls_prof_wR_expected %.5f\n", f.Rexp)
 	p("_refine_ls_goodness_of_fit_all %.4f\n", f.GoF)
 	p("_refine_ls_number_parameters %d\n", f.Parameters)
-	p("_pd_proc_ls_profile_function %s\n", cifString("pseudo-Voigt lines, a Caglioti width law and one Lorentzian fraction per phase, split for asymmetry (Toraya 1990)"))
+	p("_pd_proc_ls_profile_function %s\n", cifString("pseudo-Voigt lines (Thompson, Cox & Hastings 1987): Gaussian FWHM^2 = U tan^2 theta + V tan theta + W, Lorentzian FWHM = X tan theta + Y / cos theta, shared by the phases; split for asymmetry (Toraya 1990)"))
 	p("_pd_proc_ls_background_function %s\n", cifString(fmt.Sprintf("Chebyshev polynomial, %d terms", refine.DefaultBackgroundTerms)))
 	p("\nloop_\n_pd_meas_2theta_scan\n_pd_meas_counts_total\n_pd_calc_intensity_total\n_pd_proc_intensity_bkg_calc\n")
 	sc := a.Scan
