@@ -58,17 +58,19 @@ func FitPattern(ctx context.Context, e *Extraction, cells []cell.Cell, s Setting
 	if startErr == nil {
 		first, radius = start.Cell, start.Radius
 		// The corrections: as the settings fix them; when the
-		// settings leave the choice to the data, both shifts are
-		// refined if the peaks could refine both. Up to about 110° 2θ
-		// the zero shift and the displacement move the lines almost
-		// alike, so a fit with one of them keeps the cell that the
-		// other's share biases, with an esd far below that bias
-		// (BENCHMARKS.md); with both, the esd holds the uncertainty
-		// of the split. When the peaks found both implausible (over a
-		// short range of angles the two and the cell are one
-		// direction), the model they chose is taken.
+		// settings leave the choice to the data, the zero shift, which
+		// every point of the pattern measures (common practice), and
+		// the displacement too when the peaks could refine both. Up
+		// to about 110° 2θ the zero shift and the displacement move
+		// the lines almost alike, so a fit with one of them keeps the
+		// cell that the other's share biases, with an esd far below
+		// that bias (BENCHMARKS.md); with both, the esd holds the
+		// uncertainty of the split. When the peaks found the pair
+		// implausible (over a short range of angles the two and the
+		// cell are one direction), the zero shift alone is refined.
 		corr = start.Corrections
 		if sel := start.Selection; sel != nil {
+			corr = refine.Zero
 			for _, m := range sel.Models {
 				if m.Corrections == refine.Zero|refine.Displacement && m.Err == "" {
 					corr = m.Corrections
@@ -92,6 +94,17 @@ func FitPattern(ctx context.Context, e *Extraction, cells []cell.Cell, s Setting
 	}
 	phases := append([]cell.Cell{first}, cells[1:]...)
 	fit, err := refine.FitPhases(ctx, phases, sc.TwoTheta, sc.Intensity, sig, opt)
+	if err != nil && ctx.Err() == nil && startErr == nil && start.Selection != nil && corr != start.Corrections {
+		// Over a short range of angles the pattern may not hold the
+		// shifts apart from the cell, which then leaves its start:
+		// the model the peaks chose is taken instead.
+		opt.Corrections = start.Corrections
+		var again error
+		if fit, again = refine.FitPhases(ctx, phases, sc.TwoTheta, sc.Intensity, sig, opt); again == nil {
+			fit.Warnings = append(fit.Warnings, fmt.Sprintf("with corrections %s the fit failed (%v); the corrections the peaks chose, %s, were refined instead", corr, err, start.Corrections))
+		}
+		err = again
+	}
 	if err != nil {
 		if startErr != nil {
 			return nil, fmt.Errorf("%s: %w (the peaks could not refine the cell either: %w)", sc.Path, err, startErr)

@@ -89,7 +89,7 @@ func (pf *patternFit) solve(ctx context.Context, p []float64, maxIter int, fixed
 	res, calc, bg := pf.evaluate(p, rows, -1)
 	chi := sumSq(res)
 	lambda := 1e-3
-	iter := 0
+	iter, small := 0, 0
 	for ; iter < maxIter; iter++ {
 		if err := ctx.Err(); err != nil {
 			return nil, iter, err
@@ -118,12 +118,35 @@ func (pf *patternFit) solve(ctx context.Context, p []float64, maxIter int, fixed
 		}
 		improved, settled := false, false
 		for try := 0; try < 12; try++ {
-			f, err := ne.factorize(lambda, hold)
-			if err != nil {
-				lambda *= 10
-				continue
+			// Intensities the step would take below zero are held
+			// and the step taken again without them (at most three
+			// rounds); they then go to zero, their bound. A step
+			// merely projected onto the bounds is cut short on
+			// every iteration when many weak reflections sit at
+			// zero.
+			h := append([]bool(nil), hold...)
+			var st []float64
+			var err error
+			crossers := false
+			for round := 0; round < 3; round++ {
+				var f *factor
+				if f, err = ne.factorize(lambda, h); err != nil {
+					break
+				}
+				if st, err = f.step(); err != nil {
+					break
+				}
+				crossed := false
+				for j := pf.iI; j < k; j++ {
+					if !h[j] && p[j]+st[j] < 0 {
+						h[j], crossed = true, true
+					}
+				}
+				if !crossed {
+					break
+				}
+				crossers = true
 			}
-			st, err := f.step()
 			if err != nil {
 				lambda *= 10
 				continue
@@ -131,6 +154,9 @@ func (pf *patternFit) solve(ctx context.Context, p []float64, maxIter int, fixed
 			q := make([]float64, k)
 			for j := range q {
 				q[j] = p[j] + st[j]
+				if crossers && j >= pf.iI && h[j] && !hold[j] {
+					q[j] = 0
+				}
 			}
 			pf.project(q)
 			r2, _, _ := pf.evaluate(q, nil, -1)
@@ -138,9 +164,17 @@ func (pf *patternFit) solve(ctx context.Context, p []float64, maxIter int, fixed
 				if settle > 0 {
 					settled = maxMove(pf.lines(p), pf.lines(q)) < settle
 				}
+				// Steps that each lower χ² by less than the
+				// convergence test's amount, three in a row, have
+				// stalled (bounds and rounding refuse the rest).
+				if chi-c < closeEnough*math.Max(chi/float64(len(pf.x)-k), 1) {
+					small++
+				} else {
+					small = 0
+				}
 				p, chi = q, c
 				res, calc, bg = pf.evaluate(p, rows, -1)
-				improved = true
+				improved = small < 3
 				lambda = math.Max(lambda/10, 1e-9)
 				break
 			}
