@@ -36,7 +36,8 @@ type UnexplainedLine struct {
 // internal standard, a known impurity, another candidate) start as
 // given. The profile starts from the width law, mixing, asymmetry and
 // tail the extraction measured; the corrections are the settings' when
-// they fix them, otherwise both shifts. A whole-pattern fit only
+// they fix them, otherwise chosen as the body explains. A whole-pattern
+// fit only
 // converges from cells whose lines already fall within a width or two of
 // their peaks.
 func FitPattern(ctx context.Context, e *Extraction, cells []cell.Cell, s Settings, progress Progress) (*PatternFit, error) {
