@@ -49,6 +49,21 @@ type Document struct {
 	Warnings []string `json:"warnings,omitempty"`
 	// Search describes the indexing search.
 	Search *SearchInfo `json:"search,omitempty"`
+	// Pattern is the whole-pattern fit of the chosen cell, when one was
+	// made.
+	Pattern *PatternInfo `json:"whole_pattern_fit,omitempty"`
+}
+
+// PatternInfo summarises a whole-pattern fit: its agreement factors
+// (percent), χ²_red and GoF, and each phase's refined cell.
+type PatternInfo struct {
+	Rp       float64      `json:"rp"`
+	Rwp      float64      `json:"rwp"`
+	Rexp     float64      `json:"rexp"`
+	Chi2     float64      `json:"chi2"`
+	GoF      float64      `json:"gof"`
+	Phases   []CellValues `json:"phases"`
+	Warnings []string     `json:"warnings,omitempty"`
 }
 
 // SearchInfo describes the indexing search: the systems searched, why it
@@ -498,6 +513,14 @@ func NewDocument(a *analysis.Analysis) *Document {
 	}
 	if c := a.ChosenCandidate(); c != nil {
 		doc.Chosen = c.Rank
+	}
+	if pf := a.Pattern; pf != nil {
+		f := pf.Fit
+		pi := &PatternInfo{Rp: 100 * f.Rp, Rwp: 100 * f.Rwp, Rexp: 100 * f.Rexp, Chi2: f.Chi2, GoF: f.GoF, Warnings: f.Warnings}
+		for _, ph := range f.Phases {
+			pi.Phases = append(pi.Phases, NewCellValues(ph.Cell, ph.ESD, ph.Volume, ph.VolumeESD))
+		}
+		doc.Pattern = pi
 	}
 	for _, c := range a.Candidates {
 		if c.Refined != nil && c.Refined.StandardFit != nil {

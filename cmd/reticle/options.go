@@ -51,6 +51,8 @@ type request struct {
 	jobs      int    // scans analysed at once
 	summary   string // base path of the batch summary table
 	curves    bool   // fit: the observed, calculated and difference curves in the JSON
+	// fitPattern: report fits the chosen cell to the whole pattern.
+	fitPattern bool
 }
 
 // An option is one command-line option: its name, the placeholder of its
@@ -269,6 +271,9 @@ var options = []option{
 	{name: "force", in: cmdIndex | cmdReport,
 		help: "replace report or summary files that exist (otherwise nothing is written)",
 		set:  func(r *request, _ string) error { r.force = true; return nil }},
+	{name: "fit-pattern", in: cmdReport,
+		help: "fit the chosen cell to the whole pattern (Pawley) and add the fit to the records: its figure and section in the PDF, its R factors and profile in the CIF, its figures in the JSON",
+		set:  func(r *request, _ string) error { r.fitPattern = true; return nil }},
 	{name: "curves", in: cmdFit,
 		help: "add the observed, calculated, background and difference curves to the JSON document",
 		set:  func(r *request, _ string) error { r.curves = true; return nil }},

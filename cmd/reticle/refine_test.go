@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"os"
+	"path/filepath"
 	"strconv"
 
 	"reticle/cell"
@@ -435,5 +436,51 @@ func TestFitCommand(t *testing.T) {
 	}
 	if code, _, errs := runCmd("fit", demo); code != 2 || !strings.Contains(errs, "--cell is required") {
 		t.Errorf("without --cell: exit %d, %q", code, errs)
+	}
+}
+
+// TestReportFitPattern: report --fit-pattern adds the whole-pattern fit
+// to the records: the JSON's figures (the cell within 3 esd of the 8.083
+// Å the demo was made with) and the CIF's R factor and profile.
+func TestReportFitPattern(t *testing.T) {
+	dir := t.TempDir()
+	if code, _, errs := runCmd("report", "--fit-pattern", "--out", dir, demo); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	js, err := filepath.Glob(filepath.Join(dir, "*.json"))
+	if err != nil || len(js) != 1 {
+		t.Fatalf("%v %v", js, err)
+	}
+	data, err := os.ReadFile(js[0])
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Fit *struct {
+			Rwp, Rexp float64
+			Phases    []struct {
+				A    float64 `json:"a"`
+				AESD float64 `json:"a_esd"`
+			}
+		} `json:"whole_pattern_fit"`
+	}
+	if err := json.Unmarshal(data, &doc); err != nil || doc.Fit == nil || len(doc.Fit.Phases) != 1 {
+		t.Fatalf("no whole_pattern_fit in the JSON: %v", err)
+	}
+	if p := doc.Fit.Phases[0]; !(p.AESD > 0) || math.Abs(p.A-8.083) > 3*p.AESD {
+		t.Errorf("a = %.5f(%.5f), made with 8.083", p.A, p.AESD)
+	}
+	cif, err := filepath.Glob(filepath.Join(dir, "*.cif"))
+	if err != nil || len(cif) != 1 {
+		t.Fatalf("%v %v", cif, err)
+	}
+	text, err := os.ReadFile(cif[0])
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, item := range []string{"_pd_proc_ls_prof_wR_factor", "_pd_calc_intensity_total"} {
+		if !strings.Contains(string(text), item) {
+			t.Errorf("the CIF lacks %s", item)
+		}
 	}
 }

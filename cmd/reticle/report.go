@@ -10,6 +10,8 @@ import (
 	"path/filepath"
 	"time"
 
+	"reticle/analysis"
+	"reticle/cell"
 	"reticle/report"
 	"reticle/session"
 )
@@ -92,6 +94,21 @@ func reportAt(ctx context.Context, args []string, stdout, stderr io.Writer, date
 		if err == nil && chosen > 0 {
 			if err = a.Choose(chosen - 1); err != nil {
 				err = fmt.Errorf("%s: %w", path, err)
+			}
+		}
+		if err == nil && r.fitPattern {
+			// The report goes out without the fit when it fails, and
+			// says why.
+			if c := a.ChosenCandidate(); c != nil {
+				pf, ferr := analysis.FitPattern(ctx, a.Extraction, []cell.Cell{c.Cell()}, a.Settings, nil)
+				switch {
+				case ferr == nil:
+					a.Pattern = pf
+				case ctx.Err() != nil:
+					err = ctx.Err()
+				default:
+					o.note = fmt.Sprintf("warning: %v; the report has no whole-pattern fit", ferr)
+				}
 			}
 		}
 		if err == nil {
