@@ -21,37 +21,48 @@ type patternSolution struct {
 const closeEnough = 0.01
 
 // converged reports whether the Gauss–Newton step at p would decrease χ²
-// by less than closeEnough. Parameters that the step would take across
-// a bound are held where they are (and the step taken again), so that
-// the decrease is one the bounds allow: its decrement gᵀA⁻¹g over the
-// free parameters.
+// by less than closeEnough, the bounds allowing (boundedStep): its
+// decrement gᵀA⁻¹g over the free parameters.
 func (pf *patternFit) converged(ne *normal, p []float64, hold []bool, chi float64) bool {
+	st, _, settled, err := pf.boundedStep(ne, p, hold, 0, 8, 0)
+	if err != nil || !settled {
+		return false
+	}
+	var dec float64
+	for j, v := range st {
+		dec += v * ne.g[j]
+	}
+	return dec < closeEnough*math.Max(chi/float64(len(pf.x)-len(p)), 1)
+}
+
+// boundedStep solves the equations at p, damped by lambda, for the step,
+// and holds the parameters from index from on that it would take across
+// a bound, solving again, at most rounds times: a step merely cut at the
+// bounds is cut short on every iteration when many weak reflections sit
+// at zero. It returns the step, the parameters held for crossing, and
+// whether the last step crossed no bound.
+func (pf *patternFit) boundedStep(ne *normal, p []float64, hold []bool, lambda float64, rounds, from int) (st []float64, crossed []bool, settled bool, err error) {
 	h := append([]bool(nil), hold...)
-	for round := 0; round < 8; round++ {
-		f, err := ne.factorize(0, h)
-		if err != nil {
-			return false
+	crossed = make([]bool, len(p))
+	for round := 0; round < rounds; round++ {
+		var f *factor
+		if f, err = ne.factorize(lambda, h); err != nil {
+			return nil, nil, false, err
 		}
-		st, err := f.step()
-		if err != nil {
-			return false
+		if st, err = f.step(); err != nil {
+			return nil, nil, false, err
 		}
-		crossed := false
-		for j, v := range st {
-			if !h[j] && pf.outside(j, p[j]+v) {
-				h[j], crossed = true, true
+		settled = true
+		for j := from; j < len(st); j++ {
+			if !h[j] && pf.outside(j, p[j]+st[j]) {
+				h[j], crossed[j], settled = true, true, false
 			}
 		}
-		if crossed {
-			continue
+		if settled {
+			break
 		}
-		var dec float64
-		for j, v := range st {
-			dec += v * ne.g[j]
-		}
-		return dec < closeEnough*math.Max(chi/float64(len(pf.x)-len(p)), 1)
 	}
-	return false
+	return st, crossed, settled, nil
 }
 
 // outside reports whether v lies outside parameter j's bounds.
@@ -119,34 +130,10 @@ func (pf *patternFit) solve(ctx context.Context, p []float64, maxIter int, fixed
 		improved, settled := false, false
 		for try := 0; try < 12; try++ {
 			// Intensities the step would take below zero are held
-			// and the step taken again without them (at most three
-			// rounds); they then go to zero, their bound. A step
-			// merely projected onto the bounds is cut short on
-			// every iteration when many weak reflections sit at
-			// zero.
-			h := append([]bool(nil), hold...)
-			var st []float64
-			var err error
-			crossers := false
-			for round := 0; round < 3; round++ {
-				var f *factor
-				if f, err = ne.factorize(lambda, h); err != nil {
-					break
-				}
-				if st, err = f.step(); err != nil {
-					break
-				}
-				crossed := false
-				for j := pf.iI; j < k; j++ {
-					if !h[j] && p[j]+st[j] < 0 {
-						h[j], crossed = true, true
-					}
-				}
-				if !crossed {
-					break
-				}
-				crossers = true
-			}
+			// and the step taken again; they then go to zero, their
+			// bound. (The profile's few bounded parameters are cut
+			// at their bounds by project: held, they stall the fit.)
+			st, crossed, _, err := pf.boundedStep(ne, p, hold, lambda, 3, pf.iI)
 			if err != nil {
 				lambda *= 10
 				continue
@@ -154,7 +141,7 @@ func (pf *patternFit) solve(ctx context.Context, p []float64, maxIter int, fixed
 			q := make([]float64, k)
 			for j := range q {
 				q[j] = p[j] + st[j]
-				if crossers && j >= pf.iI && h[j] && !hold[j] {
+				if crossed[j] {
 					q[j] = 0
 				}
 			}
