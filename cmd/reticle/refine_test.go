@@ -447,13 +447,18 @@ func TestReportFitPattern(t *testing.T) {
 	if code, _, errs := runCmd("report", "--fit-pattern", "--out", dir, demo); code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	js, err := filepath.Glob(filepath.Join(dir, "*.json"))
-	if err != nil || len(js) != 1 {
-		t.Fatalf("%v %v", js, err)
-	}
-	data, err := os.ReadFile(js[0])
-	if err != nil {
-		t.Fatal(err)
+	// readOne reads the one file of the folder with the extension.
+	readOne := func(ext string) []byte {
+		t.Helper()
+		names, err := filepath.Glob(filepath.Join(dir, "*"+ext))
+		if err != nil || len(names) != 1 {
+			t.Fatalf("%s files: %v %v", ext, names, err)
+		}
+		data, err := os.ReadFile(names[0])
+		if err != nil {
+			t.Fatal(err)
+		}
+		return data
 	}
 	var doc struct {
 		Fit *struct {
@@ -464,20 +469,13 @@ func TestReportFitPattern(t *testing.T) {
 			}
 		} `json:"whole_pattern_fit"`
 	}
-	if err := json.Unmarshal(data, &doc); err != nil || doc.Fit == nil || len(doc.Fit.Phases) != 1 {
+	if err := json.Unmarshal(readOne(".json"), &doc); err != nil || doc.Fit == nil || len(doc.Fit.Phases) != 1 {
 		t.Fatalf("no whole_pattern_fit in the JSON: %v", err)
 	}
 	if p := doc.Fit.Phases[0]; !(p.AESD > 0) || math.Abs(p.A-8.083) > 3*p.AESD {
 		t.Errorf("a = %.5f(%.5f), made with 8.083", p.A, p.AESD)
 	}
-	cif, err := filepath.Glob(filepath.Join(dir, "*.cif"))
-	if err != nil || len(cif) != 1 {
-		t.Fatalf("%v %v", cif, err)
-	}
-	text, err := os.ReadFile(cif[0])
-	if err != nil {
-		t.Fatal(err)
-	}
+	text := readOne(".cif")
 	for _, item := range []string{"_pd_proc_ls_prof_wR_factor", "_pd_calc_intensity_total"} {
 		if !strings.Contains(string(text), item) {
 			t.Errorf("the CIF lacks %s", item)
