@@ -472,11 +472,11 @@ func peaksOf(md *model, cs []*component) []Peak {
 		// With wide wings (tail ratio τ) the Lorentzian part's area grows
 		// by τ and the width at half maximum is that of the sum.
 		tail := md.tailRatio()
-		f := profile.AreaFactor(c.eta) + c.eta*(tail-1)*math.Pi/2
+		f, fe := profile.TailedAreaFactor(c.eta, tail)
 		area := c.h * c.w * f
 		// Area esd to first order from the height, width and mixing esds
 		// (their correlations neglected).
-		sa := math.Sqrt(sq(c.sh*c.w*f) + sq(c.h*c.sw*f) + sq(c.h*c.w*(tail*math.Pi/2-math.Sqrt(math.Pi/(4*math.Ln2)))*c.seta))
+		sa := math.Sqrt(sq(c.sh*c.w*f) + sq(c.h*c.sw*f) + sq(c.h*c.w*fe*c.seta))
 		fw, sfw := c.w, c.sw
 		if tail != 1 {
 			fw = profile.TailedFWHM(c.w, c.eta, tail)

@@ -22,7 +22,17 @@ func PseudoVoigtArea(height, fwhm, eta float64) float64 {
 
 // AreaFactor is the area of a pseudo-Voigt of height 1 and FWHM 1.
 func AreaFactor(eta float64) float64 {
-	return eta*math.Pi/2 + (1-eta)*math.Sqrt(math.Pi/(4*ln2))
+	a, _ := TailedAreaFactor(eta, 1)
+	return a
+}
+
+// TailedAreaFactor is the area of a line of height 1 and FWHM 1 with
+// Lorentzian fraction eta and tail ratio tail (LineShape: the Lorentzian
+// part's area grows by the tail ratio), and its derivative with respect
+// to eta.
+func TailedAreaFactor(eta, tail float64) (area, dEta float64) {
+	l, g := math.Pi/2*tail, math.Sqrt(math.Pi/(4*ln2))
+	return eta*l + (1-eta)*g, l - g
 }
 
 // gauss returns the Gaussian part exp(−4 ln2 u²) for u² = ((x − x0)/FWHM)²,

@@ -17,14 +17,6 @@ type sparseRow struct {
 	nearV []float64
 }
 
-// areaFactor is the area of a line of height 1 and FWHM 1 with the
-// Lorentzian fraction eta and tail ratio tail, and its derivative with
-// respect to eta.
-func areaFactor(eta, tail float64) (af, daf float64) {
-	l, g := math.Pi/2*tail, math.Sqrt(math.Pi/(4*math.Ln2))
-	return eta*l + (1-eta)*g, l - g
-}
-
 // evaluate returns the weighted residuals (y − c)/σ, the calculated
 // curve and the background at every point, and fills rows, when not
 // nil, with the Jacobian. When only is a phase's index, the curve holds
@@ -87,7 +79,7 @@ func (pf *patternFit) evaluate(p []float64, rows []sparseRow, only int) (res, ca
 				if math.Abs(x-cp.tt) > l.reach {
 					continue
 				}
-				fa, daf := areaFactor(cp.eta, pf.tail)
+				fa, daf := profile.TailedAreaFactor(cp.eta, pf.tail)
 				norm := cp.scale / (cp.w * fa)
 				if row == nil {
 					a := profile.LineShape(x, cp.tt, cp.w, cp.eta, cp.asym, pf.tail) * norm

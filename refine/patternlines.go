@@ -167,7 +167,7 @@ func (pf *patternFit) startLinear(p []float64) {
 		c := l.comp[0]
 		i := nearest(pf.x, c.tt)
 		h := math.Max(pf.y[i]-p[pf.iBg], 0)
-		af, _ := areaFactor(c.eta, pf.tail)
+		af, _ := profile.TailedAreaFactor(c.eta, pf.tail)
 		p[pf.iI+k] = h * c.w * af / float64(1+countNear(ls, c.tt, c.w))
 	}
 }
