@@ -175,9 +175,10 @@ type patternFit struct {
 	cheb      [][]float64 // the background's Chebyshev terms at each point
 	minFWHM   float64     // the scan's mean step, degrees: the narrowest line
 	progress  func(done, total int)
-	stage     int         // the stage running, 0..2
-	rows      []sparseRow // the Jacobian's rows, reused by every stage
-	farGrad   []float64   // the far lines' share of the intensities' gradient
+	stage     int // the stage running, 0..2
+	// jac holds the Jacobians of the current and the trial parameters,
+	// reused by every stage so that their slices grow only once.
+	jac [2]jacobian
 }
 
 // FitPattern fits every point of a scan (2θ x in degrees, counts y with

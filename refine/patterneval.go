@@ -8,28 +8,40 @@ import (
 
 // A sparseRow is one point's weighted Jacobian row: the derivatives
 // ∂c/∂p / σ of the shared parameters, and those of the intensities of
-// the lines near the point (within jacReach widths). The far lines'
-// derivatives enter only the gradient, which evaluate sums directly
-// (patternFit.farGrad), so that no row holds them.
+// the lines near the point (within jacReach widths).
 type sparseRow struct {
 	g     []float64
 	near  []int32
 	nearV []float64
 }
 
+// A jacobian is the Jacobian at one set of parameters: its rows, and the
+// far lines' share of the intensities' gradient, which evaluate sums
+// directly so that no row holds those derivatives.
+type jacobian struct {
+	rows []sparseRow
+	far  []float64
+}
+
 // evaluate returns the weighted residuals (y − c)/σ, the calculated
-// curve and the background at every point, and fills rows, when not
-// nil, with the Jacobian. When only is a phase's index, the curve holds
-// that phase's lines alone (no background); −1 means all.
-func (pf *patternFit) evaluate(p []float64, rows []sparseRow, only int) (res, calc, bg []float64) {
+// curve and the background at every point, and fills jac, when not nil,
+// with the Jacobian (its slices are reused from call to call). When only
+// is a phase's index, the curve holds that phase's lines alone (no
+// background); −1 means all.
+func (pf *patternFit) evaluate(p []float64, jac *jacobian, only int) (res, calc, bg []float64) {
 	ls := pf.lines(p)
 	n := len(pf.x)
 	res, calc, bg = make([]float64, n), make([]float64, n), make([]float64, n)
-	if rows != nil {
-		if len(pf.farGrad) != len(pf.refl) {
-			pf.farGrad = make([]float64, len(pf.refl))
+	var rows []sparseRow
+	if jac != nil {
+		if len(jac.rows) != n {
+			jac.rows = make([]sparseRow, n)
 		}
-		clear(pf.farGrad)
+		if len(jac.far) != len(pf.refl) {
+			jac.far = make([]float64, len(pf.refl))
+		}
+		clear(jac.far)
+		rows = jac.rows
 	}
 	var farK []int
 	var farV []float64
@@ -130,7 +142,7 @@ func (pf *patternFit) evaluate(p []float64, rows []sparseRow, only int) (res, ca
 				row.nearV[j] *= s
 			}
 			for j, k := range farK {
-				pf.farGrad[k] += farV[j] * s * res[i]
+				jac.far[k] += farV[j] * s * res[i]
 			}
 		}
 	}

@@ -61,9 +61,10 @@ func jacobianFixture(t *testing.T) (*patternFit, []float64) {
 func TestPatternJacobian(t *testing.T) {
 	pf, p := jacobianFixture(t)
 	n := len(pf.x)
-	rows := make([]sparseRow, n)
-	res, _, _ := pf.evaluate(p, rows, -1)
-	ne := normalEquations(rows, res, pf.iI, len(p)-pf.iI, pf.farGrad)
+	jac := &jacobian{}
+	res, _, _ := pf.evaluate(p, jac, -1)
+	ne := normalEquations(jac, res, pf.iI, len(p)-pf.iI)
+	rows := jac.rows
 	var cols []int
 	for j := 0; j < pf.iI; j++ {
 		cols = append(cols, j)
@@ -115,9 +116,9 @@ func TestPatternJacobian(t *testing.T) {
 // matrix.
 func TestBandSolve(t *testing.T) {
 	pf, p := jacobianFixture(t)
-	rows := make([]sparseRow, len(pf.x))
-	res, _, _ := pf.evaluate(p, rows, -1)
-	ne := normalEquations(rows, res, pf.iI, len(p)-pf.iI, pf.farGrad)
+	jac := &jacobian{}
+	res, _, _ := pf.evaluate(p, jac, -1)
+	ne := normalEquations(jac, res, pf.iI, len(p)-pf.iI)
 	k, ng := len(p), ne.ng
 	dense := mat.NewSymDense(k, nil)
 	for a := 0; a < ng; a++ {

@@ -21,10 +21,11 @@ type normal struct {
 	g          []float64 // ng+ni
 }
 
-// normalEquations accumulates the blocks over the rows (r the weighted
-// residuals); farGrad is the far intensities' share of the gradient
+// normalEquations accumulates the blocks over the Jacobian's rows (res
+// the weighted residuals) and adds the far lines' share of the gradient
 // (see jacReach).
-func normalEquations(rows []sparseRow, res []float64, ng, ni int, farGrad []float64) *normal {
+func normalEquations(jac *jacobian, res []float64, ng, ni int) *normal {
+	rows := jac.rows
 	kb := 0
 	for _, row := range rows {
 		if n := len(row.near); n > 1 {
@@ -60,7 +61,7 @@ func normalEquations(rows []sparseRow, res []float64, ng, ni int, farGrad []floa
 			}
 		}
 	}
-	for k, v := range farGrad {
+	for k, v := range jac.far {
 		n.g[ng+k] += v
 	}
 	for a := 0; a < ng; a++ {

@@ -65,22 +65,26 @@ func (pf *patternFit) boundedStep(ne *normal, p []float64, hold []bool, lambda f
 	return st, crossed, settled, nil
 }
 
-// outside reports whether v lies outside parameter j's bounds.
-func (pf *patternFit) outside(j int, v float64) bool {
+// lower returns parameter j's lower bound, and false for a parameter
+// without one: intensities, U, X and Y not below zero, W not below minW.
+func (pf *patternFit) lower(j int) (float64, bool) {
 	if j >= pf.iI {
-		return v < 0
+		return 0, true
 	}
-	for _, ph := range pf.phases {
-		switch j {
-		case ph.iU:
-			return v < 0
-		case ph.iU + 2:
-			return v < minW
-		case ph.iU + 3, ph.iU + 4:
-			return v < 0
-		}
+	iU := pf.phases[0].iU // every phase's profile
+	switch j {
+	case iU, iU + 3, iU + 4:
+		return 0, true
+	case iU + 2:
+		return minW, true
 	}
-	return false
+	return 0, false
+}
+
+// outside reports whether v lies below parameter j's bound.
+func (pf *patternFit) outside(j int, v float64) bool {
+	lo, ok := pf.lower(j)
+	return ok && v < lo
 }
 
 // solve runs Levenberg–Marquardt (Marquardt 1963) with the diagonal
@@ -91,38 +95,28 @@ func (pf *patternFit) outside(j int, v float64) bool {
 func (pf *patternFit) solve(ctx context.Context, p []float64, maxIter int, fixed []bool, settle float64) (*patternSolution, int, error) {
 	k := len(p)
 	ni := k - pf.iI
-	// The rows are kept from one stage to the next: their slices then
-	// grow only once.
-	if pf.rows == nil {
-		pf.rows = make([]sparseRow, len(pf.x))
-	}
-	rows := pf.rows
-	res, calc, bg := pf.evaluate(p, rows, -1)
+	// The Jacobian at p, and one for the trial step: a step taken
+	// brings its Jacobian with it.
+	cur, trial := &pf.jac[0], &pf.jac[1]
+	res, calc, bg := pf.evaluate(p, cur, -1)
 	chi := sumSq(res)
 	lambda := 1e-3
 	iter, small := 0, 0
+	var ne *normal // the normal equations at p; nil when p has moved since
 	for ; iter < maxIter; iter++ {
 		if err := ctx.Err(); err != nil {
 			return nil, iter, err
 		}
-		ne := normalEquations(rows, res, pf.iI, ni, pf.farGrad)
+		ne = normalEquations(cur, res, pf.iI, ni)
 		hold := make([]bool, k)
 		copy(hold, fixed)
-		// Intensities at their bound that the gradient pushes further
+		// Parameters at their bound that the gradient pushes further
 		// out are held for this step (an active set): a projected step
 		// would otherwise be cut short on every iteration.
-		for j := pf.iI; j < k; j++ {
-			if p[j] <= 0 && ne.g[j] <= 0 {
+		for j := range hold {
+			if lo, ok := pf.lower(j); ok && p[j] <= lo && ne.g[j] <= 0 {
 				hold[j] = true
 			}
-		}
-		// So are the profile's bounded parameters.
-		for _, ph := range pf.phases {
-			u, w, x, y := ph.iU, ph.iU+2, ph.iU+3, ph.iU+4
-			hold[u] = hold[u] || p[u] <= 0 && ne.g[u] <= 0
-			hold[w] = hold[w] || p[w] <= minW && ne.g[w] <= 0
-			hold[x] = hold[x] || p[x] <= 0 && ne.g[x] <= 0
-			hold[y] = hold[y] || p[y] <= 0 && ne.g[y] <= 0
 		}
 		if pf.converged(ne, p, hold, chi) {
 			break
@@ -146,7 +140,7 @@ func (pf *patternFit) solve(ctx context.Context, p []float64, maxIter int, fixed
 				}
 			}
 			pf.project(q)
-			r2, _, _ := pf.evaluate(q, nil, -1)
+			r2, c2, b2 := pf.evaluate(q, trial, -1)
 			if c := sumSq(r2); c < chi {
 				if settle > 0 {
 					settled = maxMove(pf.lines(p), pf.lines(q)) < settle
@@ -159,8 +153,9 @@ func (pf *patternFit) solve(ctx context.Context, p []float64, maxIter int, fixed
 				} else {
 					small = 0
 				}
-				p, chi = q, c
-				res, calc, bg = pf.evaluate(p, rows, -1)
+				p, chi, res, calc, bg = q, c, r2, c2, b2
+				cur, trial = trial, cur
+				ne = nil
 				improved = small < 3
 				lambda = math.Max(lambda/10, 1e-9)
 				break
@@ -180,7 +175,10 @@ func (pf *patternFit) solve(ctx context.Context, p []float64, maxIter int, fixed
 	if math.IsNaN(chi) || math.IsInf(chi, 0) {
 		return nil, iter, fmt.Errorf("%w: the fit diverged (χ² not finite); the cell is far from the data", ErrPattern)
 	}
-	return &patternSolution{p: p, calc: calc, bg: bg, ne: normalEquations(rows, res, pf.iI, ni, pf.farGrad), chi2: chi}, iter, nil
+	if ne == nil {
+		ne = normalEquations(cur, res, pf.iI, ni)
+	}
+	return &patternSolution{p: p, calc: calc, bg: bg, ne: ne, chi2: chi}, iter, nil
 }
 
 // minW is the lower bound of the width law's W, degrees²: a width of
@@ -189,14 +187,10 @@ const minW = 1e-6
 
 // project holds parameters to their bounds.
 func (pf *patternFit) project(q []float64) {
-	for _, ph := range pf.phases {
-		q[ph.iU] = math.Max(q[ph.iU], 0)
-		q[ph.iU+2] = math.Max(q[ph.iU+2], minW)
-		q[ph.iU+3] = math.Max(q[ph.iU+3], 0)
-		q[ph.iU+4] = math.Max(q[ph.iU+4], 0)
-	}
-	for j := pf.iI; j < len(q); j++ {
-		q[j] = math.Max(q[j], 0)
+	for j := range q {
+		if lo, ok := pf.lower(j); ok {
+			q[j] = math.Max(q[j], lo)
+		}
 	}
 }
 
