@@ -89,18 +89,17 @@ type line struct {
 	ok     bool
 }
 
-// asymmetryAt returns A at tt for the terms p[iA:iA+nA] and whether it
-// lies inside the bounds ±profile.MaxAsym.
+// asymmetryAt returns A at tt for the terms p[iA:iA+nA] of the law of
+// profile.Asymmetry (unclamped, Poly), the law's variable t there, and
+// whether A lies inside the bounds ±profile.MaxAsym (where its terms act
+// on it).
 func (pf *patternFit) asymmetryAt(p []float64, tt float64) (a, t float64, free bool) {
 	if pf.nA == 0 {
 		return 0, 0, false
 	}
-	t = (tt - 90) / 90
-	f := 1.0
-	for j := 0; j < pf.nA; j++ {
-		a += p[pf.iA+j] * f
-		f *= t
-	}
+	var law profile.Asymmetry
+	copy(law.C[:], p[pf.iA:pf.iA+pf.nA])
+	a, t = law.Poly(tt), (tt-90)/90
 	if math.Abs(a) > profile.MaxAsym {
 		return math.Copysign(profile.MaxAsym, a), t, false
 	}

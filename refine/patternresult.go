@@ -93,16 +93,8 @@ func (pf *patternFit) result(s *patternSolution, iter int, opt PatternOptions) (
 	for _, r := range reps {
 		if r.phase < 0 {
 			out.Params = append(out.Params, r.Param)
-		}
-	}
-	pi := 0
-	for i := range out.Phases {
-		for j := range out.Phases[i].Params {
-			for reps[pi].phase != i {
-				pi++
-			}
-			out.Phases[i].Params[j].ESD = reps[pi].ESD
-			pi++
+		} else {
+			out.Phases[r.phase].Params = append(out.Phases[r.phase].Params, r.Param)
 		}
 	}
 	out.Correlations = correlations(reps, rc, len(pf.phases) > 1)
@@ -147,8 +139,8 @@ func (pf *patternFit) result(s *patternSolution, iter int, opt PatternOptions) (
 	return out, nil
 }
 
-// phaseResult returns phase i's cell, parameters (esds filled in by the
-// caller from the reported list) and reflections.
+// phaseResult returns phase i's cell and reflections, and its reported
+// parameters (their esds and place in the result the caller's).
 func (pf *patternFit) phaseResult(i int, ph phaseFit, s *patternSolution, cov func(a, b int) float64, vi []float64, scale float64) (PatternPhase, []reported, error) {
 	var out PatternPhase
 	c, err := ph.m1.cellOf(s.p[ph.iR:ph.iR+ph.nr], ph.cen)
@@ -201,9 +193,6 @@ func (pf *patternFit) phaseResult(i int, ph phaseFit, s *patternSolution, cov fu
 			}
 			reps = append(reps, reported{Param: Param{Name: name, Unit: unit, Value: s.p[ph.iU+j]}, phase: i, grad: map[int]float64{ph.iU + j: 1}})
 		}
-	}
-	for _, r := range reps {
-		out.Params = append(out.Params, r.Param)
 	}
 	ls := pf.lines(s.p)
 	for k, r := range pf.refl {
