@@ -21,7 +21,8 @@ type PatternEvidence struct {
 	// Prior is the candidate's probability from the line positions
 	// alone, before the fit entered it.
 	Prior float64
-	Err   string // why the fit failed; the candidate then keeps its prior
+	Err   string  // why the fit failed; the candidate then keeps its prior
+	chi2  float64 // Σ w(y − c)²
 }
 
 // Evidence of the whole pattern: the candidates whose probability from
@@ -49,8 +50,7 @@ const (
 // probability becomes its prior (from the line positions) times the
 // likelihood of its fit, normalised so that the fitted candidates keep
 // the share of probability they had together. Candidates are reordered
-// by the new probabilities; a failed fit leaves a candidate its prior
-// share and puts it after the fitted ones of that share.
+// by the new probabilities; a failed fit leaves a candidate its prior.
 func weighByPattern(ctx context.Context, a *Analysis, e *Extraction, s Settings) error {
 	if len(a.Candidates) < 2 {
 		return nil
@@ -65,14 +65,7 @@ func weighByPattern(ctx context.Context, a *Analysis, e *Extraction, s Settings)
 	if len(idx) < 2 {
 		return nil
 	}
-	type fitted struct {
-		i   int
-		chi float64
-		p   int
-		ok  bool
-	}
-	var fs []fitted
-	n := e.Scan.Len()
+	n := float64(e.Scan.Len())
 	minRed := math.Inf(1)
 	for _, i := range idx {
 		c := &a.Candidates[i]
@@ -84,42 +77,41 @@ func weighByPattern(ctx context.Context, a *Analysis, e *Extraction, s Settings)
 				return err
 			}
 			ev.Err = err.Error()
-			fs = append(fs, fitted{i: i})
 			continue
 		}
 		f := pf.Fit
 		ev.Rwp, ev.Rexp, ev.Chi2, ev.Parameters = f.Rwp, f.Rexp, f.Chi2, f.Parameters
-		fs = append(fs, fitted{i: i, chi: f.Chi2 * float64(f.Points-f.Parameters), p: f.Parameters, ok: true})
+		ev.chi2 = f.Chi2 * float64(f.Points-f.Parameters)
 		minRed = math.Min(minRed, f.Chi2)
 	}
-	scale := math.Max(minRed, 1)
-	var mass, top float64
-	top = math.Inf(-1)
-	for _, f := range fs {
-		mass += a.Candidates[f.i].Probability
-		if f.ok {
-			ll := -0.5 * (f.chi/scale + float64(f.p)*math.Log(float64(n)))
-			a.Candidates[f.i].Evidence.LogLikelihood = ll
-			top = math.Max(top, ll+math.Log(a.Candidates[f.i].Probability))
-		}
-	}
-	if math.IsInf(top, -1) {
+	if math.IsInf(minRed, 1) {
 		return nil // no fit succeeded: the priors stand
 	}
-	// Posterior weights of the fitted; the failed keep their priors.
-	var failedMass, sum float64
-	w := make(map[int]float64)
-	for _, f := range fs {
-		c := &a.Candidates[f.i]
-		if !f.ok {
-			failedMass += c.Probability
+	// The fitted candidates' posteriors share the probability they had
+	// together; the failed keep their priors.
+	scale := math.Max(minRed, 1)
+	top := math.Inf(-1)
+	var mass float64
+	for _, i := range idx {
+		ev := a.Candidates[i].Evidence
+		if ev.Err != "" {
 			continue
 		}
-		w[f.i] = math.Exp(c.Evidence.LogLikelihood + math.Log(c.Probability) - top)
-		sum += w[f.i]
+		mass += ev.Prior
+		ev.LogLikelihood = -0.5 * (ev.chi2/scale + float64(ev.Parameters)*math.Log(n))
+		top = math.Max(top, ev.LogLikelihood+math.Log(ev.Prior))
 	}
-	for i, v := range w {
-		a.Candidates[i].Probability = (mass - failedMass) * v / sum
+	var sum float64
+	for _, i := range idx {
+		if ev := a.Candidates[i].Evidence; ev.Err == "" {
+			a.Candidates[i].Probability = math.Exp(ev.LogLikelihood + math.Log(ev.Prior) - top)
+			sum += a.Candidates[i].Probability
+		}
+	}
+	for _, i := range idx {
+		if a.Candidates[i].Evidence.Err == "" {
+			a.Candidates[i].Probability *= mass / sum
+		}
 	}
 	first := a.Candidates[0].Cell()
 	sort.SliceStable(a.Candidates, func(x, y int) bool { return a.Candidates[x].Probability > a.Candidates[y].Probability })
@@ -127,7 +119,7 @@ func weighByPattern(ctx context.Context, a *Analysis, e *Extraction, s Settings)
 		a.Candidates[i].Rank = i + 1
 	}
 	if now := a.Candidates[0].Cell(); now != first {
-		a.Warnings = append(a.Warnings, fmt.Sprintf("the whole-pattern fits of the %d closest candidates put %s first (the line positions alone put %s first)", len(fs), now, first))
+		a.Warnings = append(a.Warnings, fmt.Sprintf("the whole-pattern fits of the %d closest candidates put %s first (the line positions alone put %s first)", len(idx), now, first))
 	}
 	return nil
 }
