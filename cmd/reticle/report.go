@@ -79,7 +79,7 @@ func reportAt(ctx context.Context, args []string, stdout, stderr io.Writer, date
 	files = expandInputs(files)
 	type outcome struct {
 		written report.Files
-		note    string // a warning printed before the files
+		notes   []string // warnings printed before the files
 		err     error
 	}
 	outs := make([]outcome, len(files))
@@ -89,7 +89,7 @@ func reportAt(ctx context.Context, args []string, stdout, stderr io.Writer, date
 		o := &outs[i]
 		a, sha, err := analyse(ctx, path, settings)
 		if wantSHA != "" && sha != "" && sha != wantSHA {
-			o.note = fmt.Sprintf("warning: %s has changed since the session was saved (SHA-256 %s, session %s)", path, sha, wantSHA)
+			o.notes = append(o.notes, fmt.Sprintf("warning: %s has changed since the session was saved (SHA-256 %s, session %s)", path, sha, wantSHA))
 		}
 		if err == nil && chosen > 0 {
 			if err = a.Choose(chosen - 1); err != nil {
@@ -107,7 +107,7 @@ func reportAt(ctx context.Context, args []string, stdout, stderr io.Writer, date
 				case ctx.Err() != nil:
 					err = ctx.Err()
 				default:
-					o.note = fmt.Sprintf("warning: %v; the report has no whole-pattern fit", ferr)
+					o.notes = append(o.notes, fmt.Sprintf("warning: %v; the report has no whole-pattern fit", ferr))
 				}
 			}
 		}
@@ -134,8 +134,8 @@ func reportAt(ctx context.Context, args []string, stdout, stderr io.Writer, date
 	}
 	status := 0
 	for _, o := range outs {
-		if o.note != "" {
-			fmt.Fprintf(stderr, "reticle report: %s\n", o.note)
+		for _, n := range o.notes {
+			fmt.Fprintf(stderr, "reticle report: %s\n", n)
 		}
 		if o.err != nil {
 			fmt.Fprintf(stderr, "reticle report: %v\n", o.err)
