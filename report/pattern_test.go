@@ -31,6 +31,9 @@ func TestPatternRecords(t *testing.T) {
 		t.Fatal(err)
 	}
 	cif := buf.String()
+	if loops := checkCIFCategories(t, strings.NewReader(cif)); loops != 3 {
+		t.Errorf("%d loops, want the peaks', the reflections' and the profile's", loops)
+	}
 	for _, item := range []string{"_pd_proc_ls_prof_R_factor", "_pd_proc_ls_prof_wR_factor", "_pd_proc_ls_prof_wR_expected", "_refine_ls_goodness_of_fit_all", "_pd_calc_intensity_total"} {
 		if !strings.Contains(cif, item+"\n") && !strings.Contains(cif, item+" ") {
 			t.Errorf("the CIF lacks %s", item)
