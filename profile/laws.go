@@ -59,10 +59,14 @@ func (s Asymmetry) Poly(twoTheta float64) float64 {
 //	Γ⁵ = gG⁵ + 2.69269 gG⁴gL + 2.42843 gG³gL² + 4.47163 gG²gL³ + 0.07842 gG gL⁴ + gL⁵
 //	η = 1.36603 q − 0.47719 q² + 0.11116 q³,  q = gL/Γ
 //
-// with the derivatives of Γ and η with respect to gG and gL.
+// with the derivatives of Γ and η with respect to gG and gL (all zero
+// when both widths are).
 func TCH(gG, gL float64) (w, eta, dwG, dwL, deG, deL float64) {
 	g, l := gG, gL
 	s := g*g*g*g*g + 2.69269*g*g*g*g*l + 2.42843*g*g*g*l*l + 4.47163*g*g*l*l*l + 0.07842*g*l*l*l*l + l*l*l*l*l
+	if !(s > 0) {
+		return 0, 0, 0, 0, 0, 0 // no width at all
+	}
 	w = math.Pow(s, 0.2)
 	dsG := 5*g*g*g*g + 4*2.69269*g*g*g*l + 3*2.42843*g*g*l*l + 2*4.47163*g*l*l*l + 0.07842*l*l*l*l
 	dsL := 2.69269*g*g*g*g + 2*2.42843*g*g*g*l + 3*4.47163*g*g*l*l + 4*0.07842*g*l*l*l + 5*l*l*l*l

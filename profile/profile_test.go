@@ -149,6 +149,9 @@ func TestTCH(t *testing.T) {
 	if w, eta, _, _, _, _ := TCH(0, 0.1); math.Abs(w-0.1) > 1e-12 || math.Abs(eta-1) > 1e-4 {
 		t.Errorf("Lorentzian: w %g, eta %g", w, eta)
 	}
+	if w, eta, a, b, c, d := TCH(0, 0); w != 0 || eta != 0 || a != 0 || b != 0 || c != 0 || d != 0 {
+		t.Errorf("no width: %g %g %g %g %g %g", w, eta, a, b, c, d)
+	}
 	for _, c := range [][2]float64{{0.1, 0.05}, {0.05, 0.2}, {0.3, 0.01}} {
 		w, eta, dwG, dwL, deG, deL := TCH(c[0], c[1])
 		const h = 1e-7
