@@ -43,24 +43,31 @@ func TestLineGrad(t *testing.T) {
 	}
 }
 
-// TestPseudoVoigtArea integrates the curve numerically.
-func TestPseudoVoigtArea(t *testing.T) {
-	for _, eta := range []float64{0, 0.3, 0.7, 1} {
-		const w, h = 0.1, 7.0
-		// The Lorentzian's wings: integrate to ±2000 FWHM numerically and
-		// add the two tails beyond analytically, h·η·w·(π/2 − atan 2U)
-		// (∫ over |u| > U of 1/(1 + 4u²) du is π/2 − atan 2U).
-		const span = 2000.0
-		n := 4_000_000
-		step := 2 * span * w / float64(n)
-		var sum float64
-		for i := 0; i < n; i++ {
-			x := -span*w + (float64(i)+0.5)*step
-			sum += h * PseudoVoigt(x, 0, w, eta) * step
-		}
-		sum += h * eta * w * (math.Pi/2 - math.Atan(2*span))
-		if want := PseudoVoigtArea(h, w, eta); math.Abs(sum-want) > 1e-6*want {
-			t.Errorf("η %g: numeric area %.9g, PseudoVoigtArea %.9g", eta, sum, want)
+// TestTailedAreaFactor integrates lines of LineShape numerically,
+// plain and with wide wings: their area is height × FWHM ×
+// TailedAreaFactor, η π/2 τ + (1 − η) √(π / (4 ln 2)) for the
+// pseudo-Voigt (Wertheim et al., J. Electron Spectrosc. 3 (1974) 377).
+func TestTailedAreaFactor(t *testing.T) {
+	for _, tail := range []float64{1, 1.5} {
+		for _, eta := range []float64{0, 0.3, 0.7, 1} {
+			const w, h = 0.1, 7.0
+			// The Lorentzian's wings: integrate to ±2000 FWHM numerically
+			// and add the two tails beyond analytically,
+			// h·η·w·τ·(π/2 − atan(2U/τ)) (∫ over |u| > U of
+			// 1/(1 + 4u²/τ²) du is τ(π/2 − atan(2U/τ))).
+			const span = 2000.0
+			n := 2_000_000
+			step := 2 * span * w / float64(n)
+			var sum float64
+			for i := 0; i < n; i++ {
+				x := -span*w + (float64(i)+0.5)*step
+				sum += h * LineShape(x, 0, w, eta, 0, tail) * step
+			}
+			sum += h * eta * w * tail * (math.Pi/2 - math.Atan(2*span/tail))
+			a, _ := TailedAreaFactor(eta, tail)
+			if want := h * w * a; math.Abs(sum-want) > 1e-6*want {
+				t.Errorf("τ %g, η %g: numeric area %.9g, TailedAreaFactor gives %.9g", tail, eta, sum, want)
+			}
 		}
 	}
 }

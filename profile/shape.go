@@ -4,28 +4,6 @@ import "math"
 
 const ln2 = math.Ln2
 
-// PseudoVoigt returns the pseudo-Voigt profile of height 1 at x for a peak
-// at x0 of full width at half maximum fwhm and Lorentzian fraction eta:
-// η L + (1 − η) G with L = 1/(1 + 4u²), G = exp(−4 ln2 u²), u = (x − x0)/fwhm
-// (Wertheim et al., J. Electron Spectrosc. 3 (1974) 377).
-func PseudoVoigt(x, x0, fwhm, eta float64) float64 {
-	u := (x - x0) / fwhm
-	u2 := u * u
-	return eta/(1+4*u2) + (1-eta)*math.Exp(-4*ln2*u2)
-}
-
-// PseudoVoigtArea returns the integral over x of a pseudo-Voigt of the
-// given height: H Γ (η π/2 + (1 − η) √(π / (4 ln 2))).
-func PseudoVoigtArea(height, fwhm, eta float64) float64 {
-	return height * fwhm * AreaFactor(eta)
-}
-
-// AreaFactor is the area of a pseudo-Voigt of height 1 and FWHM 1.
-func AreaFactor(eta float64) float64 {
-	a, _ := TailedAreaFactor(eta, 1)
-	return a
-}
-
 // TailedAreaFactor is the area of a line of height 1 and FWHM 1 with
 // Lorentzian fraction eta and tail ratio tail (LineShape: the Lorentzian
 // part's area grows by the tail ratio), and its derivative with respect
