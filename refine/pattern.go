@@ -109,7 +109,7 @@ type PatternResult struct {
 	Params []Param
 	// Correlations are the strongest correlations among the refined
 	// parameters other than intensities and background terms,
-	// strongest first (at most MaxCorrelations, |r| ≥ 0.5).
+	// strongest first (at most MaxCorrelations, |r| ≥ minCorrelation).
 	Correlations []Correlation
 	// Calc and Background are the fitted curve and its background at
 	// each point.
@@ -128,8 +128,14 @@ type PatternResult struct {
 	Warnings []string
 }
 
-// MaxCorrelations bounds PatternResult.Correlations.
-const MaxCorrelations = 6
+// MaxCorrelations bounds PatternResult.Correlations: a list a reader
+// takes in at a glance (the full matrix of a fit's shared parameters runs
+// to hundreds of pairs). Correlations below minCorrelation, which share
+// under a quarter of their variance, are not listed.
+const (
+	MaxCorrelations = 6
+	minCorrelation  = 0.5
+)
 
 // ErrPattern: the pattern cannot be fitted with the cell.
 var ErrPattern = errors.New("whole-pattern fit")

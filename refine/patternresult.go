@@ -209,7 +209,8 @@ func (pf *patternFit) phaseResult(i int, ph phaseFit, s *patternSolution, cov fu
 }
 
 // correlations returns the strongest correlations among the reported
-// parameters, at most MaxCorrelations with |r| ≥ 0.5, strongest first.
+// parameters, at most MaxCorrelations with |r| ≥ minCorrelation,
+// strongest first.
 func correlations(reps []reported, cov func(x, y reported) float64, phases bool) []Correlation {
 	name := func(r reported) string {
 		if phases && r.phase >= 0 {
@@ -224,7 +225,7 @@ func correlations(reps []reported, cov func(x, y reported) float64, phases bool)
 				continue
 			}
 			r := cov(reps[i], reps[j]) / (reps[i].ESD * reps[j].ESD)
-			if math.Abs(r) >= 0.5 {
+			if math.Abs(r) >= minCorrelation {
 				out = append(out, Correlation{A: name(reps[i]), B: name(reps[j]), R: r})
 			}
 		}
