@@ -94,3 +94,14 @@ type Line struct {
 // repeatability of a laboratory diffractometer (common practice).
 // Indexing and refinement both match lines with it.
 const MatchTolerance = 0.03
+
+// MatchWindow returns the half window, degrees 2θ, within which a
+// calculated line claims an observed line of esd esd (degrees 2θ): the
+// tolerance (MatchTolerance when zero) or three esds, whichever is
+// wider. Indexing, refinement and the whole-pattern fit all use it.
+func MatchWindow(tolerance, esd float64) float64 {
+	if tolerance == 0 {
+		tolerance = MatchTolerance
+	}
+	return math.Max(tolerance, 3*esd)
+}

@@ -46,7 +46,7 @@ func prepare(lines []cell.Line, o Options) []obs {
 		if top > 0 && l.Intensity > 0 {
 			rel = l.Intensity / top
 		}
-		out = append(out, obs{tt: l.TwoTheta, esd: l.ESD, tol: math.Max(3*l.ESD, o.Tolerance), rel: rel, fwhm: l.FWHM})
+		out = append(out, obs{tt: l.TwoTheta, esd: l.ESD, tol: cell.MatchWindow(o.Tolerance, l.ESD), rel: rel, fwhm: l.FWHM})
 	}
 	sort.Slice(out, func(i, j int) bool { return out[i].tt < out[j].tt })
 	// Lines closer than their window are one line for indexing.

@@ -18,15 +18,8 @@ type Matching struct {
 }
 
 // Window returns the half window, degrees 2θ, within which a calculated
-// line claims an observed line of esd esd (degrees 2θ): Tolerance or
-// three esds, whichever is wider.
-func (m Matching) Window(esd float64) float64 {
-	t := m.Tolerance
-	if t == 0 {
-		t = cell.MatchTolerance
-	}
-	return math.Max(t, 3*esd)
-}
+// line claims an observed line of esd esd (cell.MatchWindow).
+func (m Matching) Window(esd float64) float64 { return cell.MatchWindow(m.Tolerance, esd) }
 
 // startSlack is the extra window, degrees 2θ, of the first assignment
 // passes when an internal standard of known cell is sought: the
