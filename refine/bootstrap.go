@@ -3,6 +3,7 @@ package refine
 import (
 	"math"
 	"math/rand/v2"
+	"sort"
 
 	"gonum.org/v1/gonum/mat"
 
@@ -118,6 +119,12 @@ func linearise(res *Result, rows []int, opt Options) (*linearFit, bool) {
 //   - the covariance is the mean square of the kept fits' departures from
 //     the model each set was drawn about: the scatter of the choice and
 //     the bias of leaving a correction out, together.
+//   - when the fit without corrections is credible (uncorrectedCredible),
+//     each esd is instead the half-width that holds 68.27 % of those
+//     departures, the correlations kept (coverageScale): the shifts are
+//     then below what the lines show, and the mean square is set by the
+//     few sets on which a fit with corrections is kept on noise, while the
+//     value reported is the mean over all sets.
 //
 // A correction a kept model lacks counts as zero. The generator is
 // seeded by the data, so a result is reproducible. It returns nil when
@@ -203,6 +210,8 @@ func bootstrap(fits []*Result, opt Options) *Result {
 	u := mat.NewVecDense(n, nil)
 	e := make([]float64, np)
 	eps := make([]float64, n)
+	dep6 := make([][]float64, 6)
+	depP := make([][]float64, np)
 	meanR := make([]float64, lin[0].nr) // Σ of the kept reciprocal coefficients
 	var meanShift shifts                // Σ of the kept corrections
 	for b := 0; b < BootstrapRounds; b++ {
@@ -257,6 +266,7 @@ func bootstrap(fits []*Result, opt Options) *Result {
 		}
 		q0 := cells[gen]
 		for i := 0; i < 6; i++ {
+			dep6[i] = append(dep6[i], q[i]-q0[i])
 			for j := 0; j < 6; j++ {
 				c6[i][j] += (q[i] - q0[i]) * (q[j] - q0[j])
 			}
@@ -269,6 +279,7 @@ func bootstrap(fits []*Result, opt Options) *Result {
 				x = q[paramIndex(p.Name)]
 			}
 			e[i] = x - values[gen][i]
+			depP[i] = append(depP[i], e[i])
 		}
 		for i := range e {
 			for j := range e {
@@ -298,6 +309,14 @@ func bootstrap(fits []*Result, opt Options) *Result {
 		}
 	}
 	res.setValues(m, c, meanR, meanShift)
+	if uncorrectedCredible(lin, weights) {
+		c6s := make([][]float64, 6)
+		for i := range c6s {
+			c6s[i] = c6[i][:]
+		}
+		coverageScale(c6s, dep6)
+		coverageScale(pc, depP)
+	}
 	setCovariance(res, c6, pc)
 	return res
 }
@@ -342,4 +361,63 @@ func paramIndex(name string) int {
 		}
 	}
 	return -1
+}
+
+// credibleRatio is the likelihood ratio beyond which one model is
+// fairly strongly preferred to another (Royall, Statistical Evidence: A
+// Likelihood Paradigm, 1997, whose benchmarks are 8 and 32; from
+// memory): an Akaike weight within that factor of the best is credible.
+const credibleRatio = 8
+
+// uncorrectedCredible reports whether the fit without any correction is
+// among fits and credible: its Akaike weight is at least 1/credibleRatio
+// of the best. The instrument's shifts are then below what the lines can
+// show.
+func uncorrectedCredible(lin []*linearFit, weights []float64) bool {
+	best := 0.0
+	for _, w := range weights {
+		best = math.Max(best, w)
+	}
+	for k, l := range lin {
+		if l.res.Corrections == 0 && weights[k] >= best/credibleRatio {
+			return true
+		}
+	}
+	return false
+}
+
+// coverageQuantile is the share of a normal distribution within one
+// standard deviation of its mean.
+const coverageQuantile = 0.6827
+
+// coverageScale rescales the covariance cov so that each parameter's esd
+// is the half-width of the interval about zero that holds 68.27 % of its
+// simulated departures dep (a coverage interval from the quantiles of the
+// simulated distribution, JCGM 101:2008 §7.7; from memory), keeping the
+// correlations. The departures are a mixture: most sets keep a model whose
+// cell scatters as the lines do, a few keep one whose cell scatters many
+// times more; their mean square is set by those few, their quantile by
+// what the value does with probability 68 %, the meaning of an esd.
+func coverageScale(cov [][]float64, dep [][]float64) {
+	f := make([]float64, len(cov))
+	for i := range cov {
+		f[i] = 1
+		if cov[i][i] <= 0 || len(dep[i]) == 0 {
+			continue
+		}
+		a := make([]float64, len(dep[i]))
+		for k, x := range dep[i] {
+			a[k] = math.Abs(x)
+		}
+		sort.Float64s(a)
+		q := a[int(coverageQuantile*float64(len(a)-1)+0.5)]
+		if q > 0 {
+			f[i] = q / math.Sqrt(cov[i][i])
+		}
+	}
+	for i := range cov {
+		for j := range cov[i] {
+			cov[i][j] *= f[i] * f[j]
+		}
+	}
 }
