@@ -109,10 +109,13 @@ func (k *cand) assign(ls []obs, lambda, extra float64) {
 	}
 }
 
-// weightFloor is added in quadrature to every line's esd in the
-// refinements of the search, degrees 2θ: a peak position is not
-// reproducible to better than this whatever its fit says (common
-// practice), and it keeps a few very sharp lines from steering the search.
+// weightFloor is the repeatability of a peak position on a laboratory
+// diffractometer, degrees 2θ (common practice): a position is not
+// reproducible to better than this whatever its fit says. It is added in
+// quadrature to every line's esd in the refinements of the search, which
+// keeps a few very sharp lines from steering it, and it is the smallest
+// discrepancy the figures of merit credit (sub-millidegree fits of
+// simulated or synchrotron data would otherwise reward extra parameters).
 const weightFloor = 0.002
 
 // refine fits the free reciprocal coefficients (and the zero offset and
@@ -301,9 +304,9 @@ func (k *cand) figures(ls []obs, lambda float64) {
 			continue
 		}
 		q := qOf(o.tt, k.zero, lambda)
-		sq += math.Max(math.Abs(q-k.qc[i]), dQ(o.tt, precision, lambda))
+		sq += math.Max(math.Abs(q-k.qc[i]), dQ(o.tt, weightFloor, lambda))
 		d := o.tt - k.zero - ttOf(k.qc[i], lambda)
-		stt += math.Max(math.Abs(d), precision)
+		stt += math.Max(math.Abs(d), weightFloor)
 		chi += d * d / (o.esd*o.esd + weightFloor*weightFloor)
 		cnt++
 	}
@@ -342,12 +345,6 @@ func countUpTo(cl []calcQ, q float64) int {
 	}
 	return n
 }
-
-// precision is the smallest discrepancy, degrees 2θ, that the figures of
-// merit credit: about the repeatability of a peak position on a laboratory
-// diffractometer (common practice; sub-millidegree fits of simulated or
-// synchrotron data would otherwise reward extra parameters).
-const precision = 0.002
 
 // minDOF is the fewest degrees of freedom (indexed lines less refined
 // parameters) of a cell worth reporting.

@@ -34,9 +34,7 @@ var residueTrials = []float64{0, 0.01, 0.02, 0.03, 0.04, 0.05, 0.06, 0.08, 0.1, 
 
 // maxReferenceLines is the most reference lines a calibration refits at
 // each trial: beyond a score of strong lines the test gains little power
-// and the trials cost time in proportion to the lines (a dozen was too
-// few: it changed the tail ratio chosen for a pattern of 43 reference
-// lines).
+// and the trials cost time in proportion to the lines.
 const maxReferenceLines = 20
 
 // referenceLines returns the components whose shape is well determined:

@@ -315,7 +315,7 @@ func parse(c command, args []string, stderr io.Writer) (*request, []string, erro
 				fmt.Fprint(stderr, help(c))
 				return nil, nil, errHelp
 			}
-			return nil, nil, fmt.Errorf("%s (see reticle %s --help)", optionError(err), commandNames[c])
+			return nil, nil, optionError{err, commandNames[c]}
 		}
 		rem := fs.Args()
 		if used := len(rest) - len(rem); used > 0 && rest[used-1] == "--" {
@@ -331,15 +331,23 @@ func parse(c command, args []string, stderr io.Writer) (*request, []string, erro
 	return r, files, nil
 }
 
-// optionError rewrites the flag package's messages with the -- style
-// this program's help uses.
-func optionError(err error) string {
-	s := err.Error()
+// An optionError is the flag package's error about an option, its
+// message rewritten in the -- style this program's help uses; it unwraps
+// to that error.
+type optionError struct {
+	err     error
+	command string
+}
+
+func (e optionError) Unwrap() error { return e.err }
+
+func (e optionError) Error() string {
+	s := e.err.Error()
 	s = strings.Replace(s, "invalid value", "bad value", 1)
 	s = strings.Replace(s, " for flag -", " for --", 1)
 	s = strings.Replace(s, "flag provided but not defined: -", "unknown option --", 1)
 	s = strings.Replace(s, "flag needs an argument: -", "option needs a value: --", 1)
-	return s
+	return fmt.Sprintf("%s (see reticle %s --help)", s, e.command)
 }
 
 // errHelp: the user asked for help, which was printed.
