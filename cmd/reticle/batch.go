@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"os"
@@ -59,9 +60,11 @@ func expandInputs(args []string) []string {
 // bar there. Each work(i) writes only its own results, so the caller
 // prints them in input order afterwards. order, when not nil, is the
 // order in which to start the items (the largest first keeps every core
-// busy to the end). Once ctx is cancelled no item is started; done
-// reports the items whose work finished before that.
-func forEach(ctx context.Context, n, jobs int, stderr io.Writer, label string, order []int, work func(i int)) (done []bool) {
+// busy to the end). work reports whether its item finished, that is was
+// not cut short by ctx (an item that failed for a reason of its own has
+// finished). Once ctx is cancelled no item is started; done reports the
+// items that finished.
+func forEach(ctx context.Context, n, jobs int, stderr io.Writer, label string, order []int, work func(i int) bool) (done []bool) {
 	done = make([]bool, n)
 	// --jobs N holds the whole run to N cores, since each analysis also
 	// spreads its own work over the cores it may use.
@@ -84,10 +87,7 @@ func forEach(ctx context.Context, n, jobs int, stderr io.Writer, label string, o
 		go func() {
 			defer wg.Done()
 			for i := range next {
-				work(i)
-				if ctx.Err() == nil {
-					done[i] = true
-				}
+				done[i] = work(i)
 				if bar != nil {
 					bar.Increment()
 				}
@@ -116,6 +116,12 @@ feed:
 		}
 	}
 	return done
+}
+
+// finished reports whether work that ended with err was not cut short by
+// its context.
+func finished(err error) bool {
+	return !errors.Is(err, context.Canceled) && !errors.Is(err, context.DeadlineExceeded)
 }
 
 // interrupted says which scans a command had finished when it was

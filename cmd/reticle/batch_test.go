@@ -107,7 +107,7 @@ func TestJobsHoldCores(t *testing.T) {
 		t.Skip("one core: nothing to hold back")
 	}
 	seen := make([]int, 3)
-	forEach(context.Background(), len(seen), 1, io.Discard, "test", nil, func(i int) { seen[i] = runtime.GOMAXPROCS(0) })
+	forEach(context.Background(), len(seen), 1, io.Discard, "test", nil, func(i int) bool { seen[i] = runtime.GOMAXPROCS(0); return true })
 	for i, c := range seen {
 		if c != 1 {
 			t.Errorf("item %d ran with %d cores, want 1", i, c)
@@ -116,7 +116,7 @@ func TestJobsHoldCores(t *testing.T) {
 	if after := runtime.GOMAXPROCS(0); after != before {
 		t.Errorf("after the run: %d cores, want %d", after, before)
 	}
-	forEach(context.Background(), 2, before, io.Discard, "test", nil, func(i int) { seen[i] = runtime.GOMAXPROCS(0) })
+	forEach(context.Background(), 2, before, io.Discard, "test", nil, func(i int) bool { seen[i] = runtime.GOMAXPROCS(0); return true })
 	if seen[0] != before {
 		t.Errorf("with --jobs %d: %d cores", before, seen[0])
 	}

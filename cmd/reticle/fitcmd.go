@@ -94,8 +94,9 @@ func cmdFitRun(ctx context.Context, args []string, stdout, stderr io.Writer) int
 	files = expandInputs(files)
 	docs := make([]fitDocJSON, len(files))
 	errs := make([]error, len(files))
-	done := forEach(ctx, len(files), r.jobs, stderr, "fitting", largestFirst(files), func(i int) {
+	done := forEach(ctx, len(files), r.jobs, stderr, "fitting", largestFirst(files), func(i int) bool {
 		docs[i], errs[i] = fitFile(ctx, files[i], r)
+		return finished(errs[i])
 	})
 	if ctx.Err() != nil {
 		return interrupted(cmdFit, files, done, stderr)

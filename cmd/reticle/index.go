@@ -27,9 +27,10 @@ func cmdIndexRun(ctx context.Context, args []string, stdout, stderr io.Writer) i
 	files = expandInputs(files)
 	as := make([]*analysis.Analysis, len(files))
 	rows := make([]report.SummaryRow, len(files))
-	done := forEach(ctx, len(files), r.jobs, stderr, "indexing", largestFirst(files), func(i int) {
+	done := forEach(ctx, len(files), r.jobs, stderr, "indexing", largestFirst(files), func(i int) bool {
 		a, sha, err := analyse(ctx, files[i], r.settings)
 		as[i], rows[i] = a, report.NewSummaryRow(files[i], sha, a, err)
+		return finished(err)
 	})
 	if ctx.Err() != nil {
 		return interrupted(cmdIndex, files, done, stderr)

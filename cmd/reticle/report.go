@@ -84,7 +84,7 @@ func reportAt(ctx context.Context, args []string, stdout, stderr io.Writer, date
 	}
 	outs := make([]outcome, len(files))
 	rows := make([]report.SummaryRow, len(files))
-	done := forEach(ctx, len(files), r.jobs, stderr, "reporting", largestFirst(files), func(i int) {
+	done := forEach(ctx, len(files), r.jobs, stderr, "reporting", largestFirst(files), func(i int) bool {
 		path := files[i]
 		o := &outs[i]
 		a, sha, err := analyse(ctx, path, settings)
@@ -116,9 +116,10 @@ func reportAt(ctx context.Context, args []string, stdout, stderr io.Writer, date
 		}
 		if err != nil {
 			o.err, rows[i] = err, report.NewSummaryRow(path, sha, nil, err)
-			return
+			return finished(err)
 		}
 		rows[i] = report.NewSummaryRow(path, sha, a, nil)
+		return true
 	})
 	if ctx.Err() != nil {
 		for i, o := range outs {
