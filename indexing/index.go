@@ -435,7 +435,8 @@ func solutionOf(k0 *cand, all, first []obs, o Options) Solution {
 		}
 		s.Lines = append(s.Lines, il)
 	}
-	s.Conditions = conditions(s)
+	cs := conditions(s)
+	s.Conditions, s.Extinction = conditionNames(cs), extinctionSymbol(s.Cell.System, s.Cell.Centring, cs)
 	if red, err := cell.Reduce(c); err == nil {
 		s.Reduced = red.Cell
 		s.FromReduced = red.Transform

@@ -2,7 +2,6 @@ package indexing
 
 import (
 	"fmt"
-	"strings"
 
 	"reticle/cell"
 )
@@ -78,8 +77,10 @@ type Solution struct {
 	// (for tick marks), at most 2,000.
 	Calculated []cell.Reflection
 	// Conditions lists reflection conditions that the indexed lines show
-	// beyond those of the centring, e.g. "00l: l = 2n".
+	// beyond those of the centring, e.g. "00l: l = 2n"; Extinction is
+	// the extinction symbol they give (see extinctionSymbol), or "".
 	Conditions []string
+	Extinction string
 	// Parameters is the number of refined parameters (free cell
 	// parameters and the zero offset); ChiSquare the Σ(Δ2θ/σ)² of the
 	// first lines it indexes, with DOF degrees of freedom.
@@ -90,135 +91,6 @@ type Solution struct {
 	// gives the reduced basis vectors (rows) in the basis of Cell.
 	Reduced     cell.Cell
 	FromReduced cell.Matrix
-}
-
-// A condition is a reflection condition of International Tables for
-// Crystallography Vol. A (Table 2.2.13.2 of the 2005 edition, from
-// memory): the reflections of a class (a zone or a row of the
-// reciprocal lattice) that a glide plane or a screw axis leaves, written
-// as ITA writes them ("h0l: l = 2n").
-type condition struct {
-	name  string
-	class func(cell.HKL) bool
-	ok    func(cell.HKL) bool
-}
-
-// conditionRules are the zone and row conditions beyond the lattice's
-// centring, on the cell's own axes: the glide planes of each zone
-// (axial glides, the diagonal n and the d glide) and the screw axes of
-// each row (2₁, 4₁ or 4₂, 3₁ or 6₂, 6₁).
-var conditionRules = func() []condition {
-	div := func(x, n int) bool { return mod(x, n) == 0 }
-	type cls struct {
-		name string
-		in   func(cell.HKL) bool
-	}
-	zones := []struct {
-		cls
-		a, b int    // the free indices
-		an   string // their letters
-		bn   string
-	}{
-		{cls{"0kl", func(v cell.HKL) bool { return v[0] == 0 && v[1] != 0 && v[2] != 0 }}, 1, 2, "k", "l"},
-		{cls{"h0l", func(v cell.HKL) bool { return v[1] == 0 && v[0] != 0 && v[2] != 0 }}, 0, 2, "h", "l"},
-		{cls{"hk0", func(v cell.HKL) bool { return v[2] == 0 && v[0] != 0 && v[1] != 0 }}, 0, 1, "h", "k"},
-	}
-	var out []condition
-	for _, z := range zones {
-		a, b := z.a, z.b
-		out = append(out,
-			condition{z.name + ": " + z.an + " = 2n", z.in, func(v cell.HKL) bool { return div(v[a], 2) }},
-			condition{z.name + ": " + z.bn + " = 2n", z.in, func(v cell.HKL) bool { return div(v[b], 2) }},
-			condition{z.name + ": " + z.an + " + " + z.bn + " = 2n", z.in, func(v cell.HKL) bool { return div(v[a]+v[b], 2) }},
-			condition{z.name + ": " + z.an + " + " + z.bn + " = 4n", z.in, func(v cell.HKL) bool { return div(v[a]+v[b], 4) }},
-		)
-	}
-	rows := []struct {
-		name, letter string
-		axis         int
-	}{{"h00", "h", 0}, {"0k0", "k", 1}, {"00l", "l", 2}}
-	for _, r := range rows {
-		ax := r.axis
-		in := func(v cell.HKL) bool {
-			for i := range v {
-				if (i == ax) != (v[i] != 0) {
-					return false
-				}
-			}
-			return true
-		}
-		for _, n := range []int{2, 3, 4, 6} {
-			out = append(out, condition{fmt.Sprintf("%s: %s = %dn", r.name, r.letter, n), in, func(v cell.HKL) bool { return div(v[ax], n) }})
-		}
-	}
-	out = append(out, condition{"hhl: l = 2n", func(v cell.HKL) bool { return v[0] == v[1] && v[0] != 0 && v[2] != 0 }, func(v cell.HKL) bool { return div(v[2], 2) }})
-	return out
-}()
-
-// conditions lists the reflection conditions (conditionRules) that the
-// lines indexed show: at least two indexed lines of the class, all of
-// them satisfying it, and a calculated line of the class in the range
-// that would violate it, alone at its place, not observed. They are
-// information on the space group, after the lattice; they never change
-// it. A condition implied by a stronger one shown (l = 2n by l = 4n) is
-// left out.
-func conditions(s Solution) []string {
-	observed := map[cell.HKL]bool{}
-	for _, l := range s.Lines {
-		for _, v := range l.HKL {
-			observed[v] = true
-		}
-	}
-	var out []string
-	for _, r := range conditionRules {
-		members, violating, unobservedViolating := 0, 0, 0
-		for _, ref := range s.Calculated {
-			for _, v := range ref.HKL {
-				if !r.class(v) {
-					continue
-				}
-				if observed[v] {
-					members++
-					if !r.ok(v) {
-						violating++
-					}
-				} else if !r.ok(v) && len(ref.HKL) == 1 {
-					unobservedViolating++
-				}
-			}
-		}
-		if members >= 2 && violating == 0 && unobservedViolating > 0 {
-			out = append(out, r.name)
-		}
-	}
-	// Leave out a condition of a row or zone that a stronger one of the
-	// same class implies (2n by 4n or 6n; 3n by 6n).
-	var kept []string
-	for _, c := range out {
-		implied := false
-		for _, d := range out {
-			if d != c && strings.HasPrefix(d, c[:strings.Index(c, "=")]) && impliedBy(c, d) {
-				implied = true
-			}
-		}
-		if !implied {
-			kept = append(kept, c)
-		}
-	}
-	return kept
-}
-
-// impliedBy reports whether the condition "… = an" is implied by "… =
-// bn" of the same class and index combination (b a multiple of a).
-func impliedBy(c, d string) bool {
-	var a, b int
-	if _, err := fmt.Sscanf(c[strings.LastIndex(c, "=")+1:], " %dn", &a); err != nil {
-		return false
-	}
-	if _, err := fmt.Sscanf(d[strings.LastIndex(d, "=")+1:], " %dn", &b); err != nil {
-		return false
-	}
-	return b > a && b%a == 0
 }
 
 // String prints the solution's cell and figures on one line.

@@ -247,6 +247,7 @@ type Solution struct {
 	Indexed     int      `json:"indexed"`
 	Unindexed   int      `json:"unindexed"`
 	Conditions  []string `json:"conditions,omitempty"`
+	Extinction  string   `json:"extinction_symbol,omitempty"`
 	// Parameters refined in the search (cell and zero), the χ² of the
 	// first lines' positions with its degrees of freedom, and the Niggli
 	// reduced cell of the lattice with the matrix whose rows give its
@@ -542,7 +543,7 @@ func NewSolution(a *analysis.Analysis, c *analysis.Candidate) Solution {
 		Rank: c.Rank, CellValues: NewCellValues(c.Cell(), c.Covariance().ESD(), v, ve), Zero: s.Zero,
 		Probability: s.Probability, LogEvidence: s.LogEvidence, DemandingLines: s.Demanding, DemandingIndex: s.Index,
 		M: s.M, FigureLines: s.FigureLines, FN: s.FN, FNMeanDiff: s.FNMeanDiff, FNPossible: s.FNPossible,
-		Indexed: s.Indexed, Unindexed: s.Unindexed, Conditions: s.Conditions, Lines: []Line{}, Calculated: []Calc{},
+		Indexed: s.Indexed, Unindexed: s.Unindexed, Conditions: s.Conditions, Extinction: s.Extinction, Lines: []Line{}, Calculated: []Calc{},
 		Parameters: s.Parameters, Chi2: s.ChiSquare, DOF: s.DOF, FromReduced: s.FromReduced,
 	}
 	if s.Reduced.Volume() > 0 {

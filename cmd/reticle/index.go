@@ -123,5 +123,8 @@ func printCandidates(w io.Writer, a *analysis.Analysis) {
 	if len(best.Conditions) > 0 {
 		fmt.Fprintf(w, "observed conditions: %s\n", strings.Join(best.Conditions, "; "))
 	}
+	if best.Extinction != "" {
+		fmt.Fprintf(w, "extinction symbol: %s (information on the space group; the lattice does not depend on it)\n", best.Extinction)
+	}
 	fmt.Fprintln(w)
 }
