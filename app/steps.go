@@ -524,11 +524,15 @@ func (u *ui) refineStep() fyne.CanvasObject {
 		widget.NewFormItem("Whole pattern", container.NewHBox(u.fitBtn)),
 		widget.NewFormItem("Further phases", container.NewBorder(nil, nil, nil, u.phaseSel, u.phasesEntry)),
 		widget.NewFormItem("Corrections", container.NewHBox(u.autoCheck, u.zeroCheck, u.dispCheck)),
+	)
+	// The settings changed less often fold away, so that the summary
+	// below has the room.
+	more := widget.NewAccordion(widget.NewAccordionItem("Radius, esd scaling and internal standard", widget.NewForm(
 		widget.NewFormItem("Goniometer radius (mm)", u.radiusEntry),
 		widget.NewFormItem("Scale esds by χ²_red", u.scalingSel),
 		widget.NewFormItem("Internal standard", u.standardEntry),
-	)
-	left := container.NewBorder(form, nil, nil, nil, container.NewVScroll(u.paramsText))
+	)))
+	left := container.NewBorder(container.NewVBox(form, more), nil, nil, nil, container.NewVScroll(u.paramsText))
 	split := container.NewHSplit(left, u.resTable)
 	split.Offset = 0.42
 	return split

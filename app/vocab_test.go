@@ -58,6 +58,12 @@ func TestWindowVocabulary(t *testing.T) {
 			if w.TextStyle.Bold { // a heading of the settings
 				names[w.Text] = true
 			}
+		case *widget.Accordion:
+			for _, it := range w.Items {
+				names[it.Title] = true
+				walk(it.Detail)
+			}
+			return
 		case *widget.Form:
 			for _, it := range w.Items {
 				names[it.Text] = true
