@@ -10,9 +10,13 @@ import (
 // evidence), most probable first, leaves out those with more calculated
 // lines than maxCalcLines and all but the weighKeep best by the
 // search's figure (and those marked weighAlways), and lists each lattice once: of
-// descriptions with the same calculated lines up to the last of the
-// first lines (within lineTolerance), the one with fewest parameters,
-// then the larger cell.
+// descriptions with the same calculated lines over the measured range
+// (within lineTolerance), the one with fewest parameters, then the
+// larger cell. The range is the one the evidence judges: two cells whose
+// lines agree up to the last of the first lines but part beyond it (a
+// pseudo-hexagonal cell and its twice larger C-centred one, whose extra
+// lines fall on the smaller one's at low angles) are told apart by the
+// lines beyond, and both stay for the evidence to weigh.
 func rankCands(ks []*cand, ls, all []obs, o Options) []*cand {
 	sp := spanOf(o, all)
 	var kept []*cand
@@ -31,7 +35,7 @@ func rankCands(ks []*cand, ls, all []obs, o Options) []*cand {
 		k.weigh(all, sp, o)
 	}
 	sort.SliceStable(ks, func(i, j int) bool { return moreLikely(ks[i], ks[j]) })
-	qmax := qOf(ls[len(ls)-1].tt, 0, o.Wavelength) * 1.001
+	qmax := qOf(sp.hi, 0, o.Wavelength)
 	tol := lineTolerance(resolution(all), o.Wavelength)
 	var out []*cand
 	var lines [][]float64

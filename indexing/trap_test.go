@@ -267,3 +267,14 @@ func TestZoneOffsetNearest(t *testing.T) {
 		t.Errorf("first %v, want %v", res.Solutions[:min(1, len(res.Solutions))], want)
 	}
 }
+
+// TestPseudoHexagonal: an orthorhombic P cell whose edges a and b stand
+// at √3 within 0.1 % (an invented cell) has the same calculated lines as
+// its twice larger C-centred cell (2a, 2b, c) up to the first lines,
+// since the extra lines of the larger cell fall on its own; beyond them
+// the larger cell adds lines that the scan lacks. The small cell must
+// come first, and the larger must not stand for it.
+func TestPseudoHexagonal(t *testing.T) {
+	want := cell.Must(cell.Orthorhombic, cell.P, 3.3574, 5.8218, 8.0709)
+	first(t, "pseudo-hexagonal orthorhombic P", modelLines(want, cuKa1, 100, nil, 0.01, -0.02, 3), cuKa1, want)
+}
