@@ -131,6 +131,9 @@ func (pf *patternFit) result(s *patternSolution, iter int, opt PatternOptions) (
 			out.Warnings = append(out.Warnings, fmt.Sprintf("%s%d of %d reflections fitted to zero intensity (held at the bound; their esds are not meaningful)", name, zero, len(ph.Reflections)))
 		}
 	}
+	if pf.gaussianBelowFloor(s.p) {
+		out.Warnings = append(out.Warnings, "the Gaussian width law U tan²θ + V tan θ + W is below zero at every line: the lines' Gaussian width sits at its floor (the scan's step) and U, V and W are not determined by the points")
+	}
 	if out.Rwp > 2*out.Rexp {
 		// Common practice: a fit whose Rwp exceeds twice the counting
 		// statistics' Rexp misses part of the pattern.
@@ -235,4 +238,23 @@ func correlations(reps []reported, cov func(x, y reported) float64, phases bool)
 		out = out[:MaxCorrelations]
 	}
 	return out
+}
+
+// gaussianBelowFloor reports whether the Gaussian width law of p is
+// below zero at every reflection in the range, where lineWidth holds the
+// Gaussian width at or below the scan's step and the law's terms no
+// longer act on the curve.
+func (pf *patternFit) gaussianBelowFloor(p []float64) bool {
+	iU := pf.phases[0].iU
+	for _, l := range pf.lines(p) {
+		if !l.ok || l.comp[0].tt < pf.lo || l.comp[0].tt > pf.hi {
+			continue
+		}
+		tt := l.comp[0].tt
+		t := math.Tan(tt * deg / 2)
+		if p[iU]*t*t+p[iU+1]*t+p[iU+2] >= 0 {
+			return false
+		}
+	}
+	return true
 }
