@@ -2,6 +2,7 @@ package indexing
 
 import (
 	"fmt"
+	"slices"
 	"strings"
 
 	"reticle/cell"
@@ -193,7 +194,7 @@ func extinctionSymbol(sys cell.System, cen cell.Centring, cs []condition) string
 		// d implies n; n with an axial glide happens only beside a
 		// centring, where ITA writes the axial glides.
 		switch {
-		case contains(ls, "d"):
+		case slices.Contains(ls, "d"):
 			return "d"
 		case len(ls) == 1:
 			return ls[0]
@@ -261,14 +262,4 @@ func extinctionSymbol(sys cell.System, cen cell.Centring, cs []condition) string
 		return cen.String() + " 1 " + dash(g) + " 1"
 	}
 	return ""
-}
-
-// contains reports whether ss holds s.
-func contains(ss []string, s string) bool {
-	for _, x := range ss {
-		if x == s {
-			return true
-		}
-	}
-	return false
 }
