@@ -40,11 +40,10 @@ func rankCands(ks []*cand, ls, all []obs, o Options) []*cand {
 	var out []*cand
 	var lines [][]float64
 	for _, k := range ks {
+		// A cell with too many lines to compare (nil) is kept as a
+		// lattice of its own.
 		q := linesOf(k.whole, qmax, tol)
-		if q == nil {
-			continue
-		}
-		if i := slices.IndexFunc(lines, func(p []float64) bool { return sameLines(p, q, tol) }); i >= 0 {
+		if i := slices.IndexFunc(lines, func(p []float64) bool { return p != nil && q != nil && sameLines(p, q, tol) }); i >= 0 {
 			// The same lines: the description of fewer parameters
 			// stands for them (its extra freedom fits noise); of as
 			// many, the larger cell, whose lines beyond the range the
