@@ -210,6 +210,9 @@ func bootstrap(fits []*Result, opt Options) *Result {
 	u := mat.NewVecDense(n, nil)
 	e := make([]float64, np)
 	eps := make([]float64, n)
+	// The departures themselves, kept when the esds are taken from
+	// their quantiles (see uncorrectedCredible).
+	credible := uncorrectedCredible(lin, weights)
 	dep6 := make([][]float64, 6)
 	depP := make([][]float64, np)
 	meanR := make([]float64, lin[0].nr) // Σ of the kept reciprocal coefficients
@@ -266,7 +269,9 @@ func bootstrap(fits []*Result, opt Options) *Result {
 		}
 		q0 := cells[gen]
 		for i := 0; i < 6; i++ {
-			dep6[i] = append(dep6[i], q[i]-q0[i])
+			if credible {
+				dep6[i] = append(dep6[i], q[i]-q0[i])
+			}
 			for j := 0; j < 6; j++ {
 				c6[i][j] += (q[i] - q0[i]) * (q[j] - q0[j])
 			}
@@ -279,7 +284,9 @@ func bootstrap(fits []*Result, opt Options) *Result {
 				x = q[paramIndex(p.Name)]
 			}
 			e[i] = x - values[gen][i]
-			depP[i] = append(depP[i], e[i])
+			if credible {
+				depP[i] = append(depP[i], e[i])
+			}
 		}
 		for i := range e {
 			for j := range e {
@@ -309,7 +316,7 @@ func bootstrap(fits []*Result, opt Options) *Result {
 		}
 	}
 	res.setValues(m, c, meanR, meanShift)
-	if uncorrectedCredible(lin, weights) {
+	if credible {
 		c6s := make([][]float64, 6)
 		for i := range c6s {
 			c6s[i] = c6[i][:]

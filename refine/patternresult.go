@@ -63,8 +63,9 @@ func (pf *patternFit) result(s *patternSolution, iter int, opt PatternOptions) (
 	}
 	cov := func(a, b int) float64 { return cg.At(a, b) * scale }
 	var reps []reported
+	ls := pf.lines(s.p) // every reflection's lines at the solution
 	for i, ph := range pf.phases {
-		pp, rs, err := pf.phaseResult(i, ph, s, cov, vi, scale)
+		pp, rs, err := pf.phaseResult(i, ph, s, ls, cov, vi, scale)
 		if err != nil {
 			return nil, err
 		}
@@ -131,7 +132,7 @@ func (pf *patternFit) result(s *patternSolution, iter int, opt PatternOptions) (
 			out.Warnings = append(out.Warnings, fmt.Sprintf("%s%d of %d reflections fitted to zero intensity (held at the bound; their esds are not meaningful)", name, zero, len(ph.Reflections)))
 		}
 	}
-	if pf.gaussianBelowFloor(s.p) {
+	if pf.gaussianBelowFloor(s.p, ls) {
 		out.Warnings = append(out.Warnings, "the Gaussian width law U tan²θ + V tan θ + W is below zero at every line: the lines' Gaussian width sits at its floor (the scan's step) and U, V and W are not determined by the points")
 	}
 	if out.Rwp > 2*out.Rexp {
@@ -144,7 +145,7 @@ func (pf *patternFit) result(s *patternSolution, iter int, opt PatternOptions) (
 
 // phaseResult returns phase i's cell and reflections, and its reported
 // parameters (their esds and place in the result the caller's).
-func (pf *patternFit) phaseResult(i int, ph phaseFit, s *patternSolution, cov func(a, b int) float64, vi []float64, scale float64) (PatternPhase, []reported, error) {
+func (pf *patternFit) phaseResult(i int, ph phaseFit, s *patternSolution, ls []line, cov func(a, b int) float64, vi []float64, scale float64) (PatternPhase, []reported, error) {
 	var out PatternPhase
 	c, err := ph.m1.cellOf(s.p[ph.iR:ph.iR+ph.nr], ph.cen)
 	if err != nil {
@@ -197,7 +198,6 @@ func (pf *patternFit) phaseResult(i int, ph phaseFit, s *patternSolution, cov fu
 			reps = append(reps, reported{Param: Param{Name: name, Unit: unit, Value: s.p[ph.iU+j]}, phase: i, grad: map[int]float64{ph.iU + j: 1}})
 		}
 	}
-	ls := pf.lines(s.p)
 	for k, r := range pf.refl {
 		l := ls[k]
 		if r.phase != i || !l.ok || l.comp[0].tt < pf.lo || l.comp[0].tt > pf.hi {
@@ -241,12 +241,12 @@ func correlations(reps []reported, cov func(x, y reported) float64, phases bool)
 }
 
 // gaussianBelowFloor reports whether the Gaussian width law of p is
-// below zero at every reflection in the range, where lineWidth holds the
-// Gaussian width at or below the scan's step and the law's terms no
-// longer act on the curve.
-func (pf *patternFit) gaussianBelowFloor(p []float64) bool {
+// below zero at every reflection in the range (ls, the lines at p), where
+// lineWidth holds the Gaussian width at or below the scan's step and the
+// law's terms no longer act on the curve.
+func (pf *patternFit) gaussianBelowFloor(p []float64, ls []line) bool {
 	iU := pf.phases[0].iU
-	for _, l := range pf.lines(p) {
+	for _, l := range ls {
 		if !l.ok || l.comp[0].tt < pf.lo || l.comp[0].tt > pf.hi {
 			continue
 		}
