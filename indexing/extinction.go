@@ -18,11 +18,15 @@ import (
 type condition struct {
 	name  string
 	class func(cell.HKL) bool
-	ok    func(cell.HKL) bool
 	row   bool // a row along axis; else the zone whose index axis is zero
 	axis  int
 	coef  cell.HKL
 	n     int
+}
+
+// ok reports whether v satisfies the condition.
+func (c condition) ok(v cell.HKL) bool {
+	return mod(c.coef[0]*v[0]+c.coef[1]*v[1]+c.coef[2]*v[2], c.n) == 0
 }
 
 // conditionRules are the zone and row conditions beyond the lattice's
@@ -34,15 +38,13 @@ var conditionRules = func() []condition {
 	var out []condition
 	add := func(c condition, class func(cell.HKL) bool) {
 		c.class = class
-		coef, n := c.coef, c.n
-		c.ok = func(v cell.HKL) bool { return mod(coef[0]*v[0]+coef[1]*v[1]+coef[2]*v[2], n) == 0 }
 		var terms []string
-		for i, x := range coef {
+		for i, x := range c.coef {
 			if x != 0 {
 				terms = append(terms, letters[i:i+1])
 			}
 		}
-		c.name = fmt.Sprintf("%s: %s = %dn", c.name, strings.Join(terms, " + "), n)
+		c.name = fmt.Sprintf("%s: %s = %dn", c.name, strings.Join(terms, " + "), c.n)
 		out = append(out, c)
 	}
 	for z := 0; z < 3; z++ {
@@ -213,16 +215,19 @@ func extinctionSymbol(sys cell.System, cen cell.Centring, cs []condition) string
 		return ""
 	}
 	// screw reports whether the row along ax shows h = 2n that no zone
-	// condition shown implies.
-	screw := func(ax int) bool {
+	// condition shown implies; byZones says whether the zones that hold
+	// the row are symmetry zones of the system (orthorhombic: yes; the
+	// monoclinic 0k0 lies in none, and a condition seen by chance in
+	// another zone implies nothing).
+	screw := func(ax int, byZones bool) bool {
 		shown := false
 		for _, c := range cs {
 			if c.row && c.axis == ax && c.n%2 == 0 {
 				shown = true
 			}
 		}
-		if !shown {
-			return false
+		if !shown || !byZones {
+			return shown
 		}
 		for _, c := range cs {
 			// A zone holds the row when its zero index is not the row's
@@ -244,7 +249,7 @@ func extinctionSymbol(sys cell.System, cen cell.Centring, cs []condition) string
 		parts := []string{cen.String()}
 		for ax := 0; ax < 3; ax++ {
 			g := glide(ax)
-			if g == "" && screw(ax) {
+			if g == "" && screw(ax, true) {
 				g = "21"
 			}
 			parts = append(parts, dash(g))
@@ -252,7 +257,7 @@ func extinctionSymbol(sys cell.System, cen cell.Centring, cs []condition) string
 		return strings.Join(parts, " ")
 	case cell.Monoclinic:
 		g := glide(1)
-		if screw(1) {
+		if screw(1, false) {
 			if g != "" {
 				g = "21/" + g
 			} else {

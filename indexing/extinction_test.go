@@ -72,3 +72,27 @@ func TestExtinctionSymbol(t *testing.T) {
 		t.Errorf("%d space groups read, want 29", n)
 	}
 }
+
+// TestExtinctionChanceZone: in a monoclinic cell only the h0l zone is a
+// symmetry zone; a 0kl condition that the lines show by chance must not
+// be read as implying the 0k0 row's, so the 2₁ stays in the symbol.
+func TestExtinctionChanceZone(t *testing.T) {
+	pick := func(name string) condition {
+		for _, c := range conditionRules {
+			if c.name == name {
+				return c
+			}
+		}
+		t.Fatalf("no rule %q", name)
+		return condition{}
+	}
+	cs := []condition{pick("0k0: k = 2n"), pick("0kl: k = 2n")}
+	if got := extinctionSymbol(cell.Monoclinic, cell.P, cs); got != "P 1 21 1" {
+		t.Errorf("monoclinic: %q, want \"P 1 21 1\"", got)
+	}
+	// In an orthorhombic cell the 0kl zone is the b glide's, which
+	// implies the row's condition: no 2₁ along b.
+	if got := extinctionSymbol(cell.Orthorhombic, cell.P, cs); got != "P b - -" {
+		t.Errorf("orthorhombic: %q, want \"P b - -\"", got)
+	}
+}
