@@ -167,6 +167,9 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 		if ranked[0].strong {
 			res.Warnings = append(res.Warnings, "the first cell leaves a strong line unindexed: a second phase, or not the right cell")
 		}
+		if u, ok := loneZone(ranked[0].whole, all, o.Wavelength); ok {
+			res.Warnings = append(res.Warnings, loneZoneWarning(u))
+		}
 	}
 	return res, nil
 }
