@@ -39,8 +39,9 @@ type Options struct {
 	// MaxVolume is the largest cell volume considered, Å³. Zero means
 	// 20,000 Å³.
 	MaxVolume float64
-	// SeedLines is how many of the first lines seed candidate cells.
-	// Zero means 5.
+	// SeedLines is how many of the first lines, and of the first lines
+	// stronger than a tenth of the strongest, seed candidate cells of the
+	// higher systems. Zero means 5.
 	SeedLines int
 	// MaxM and MaxL bound the index vectors assigned to seed lines of
 	// two-parameter systems: h²+k² (or h²+hk+k²) ≤ MaxM and |l| ≤ MaxL;

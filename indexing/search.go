@@ -41,6 +41,7 @@ func searchSystem(ctx context.Context, s cell.System, want map[cell.System]bool,
 		fig float64
 	}
 	var trials []screened
+	seed, four := seedLines(first, o.SeedLines), seedLines(first, 4)
 	for _, z := range zeros {
 		if err := ctx.Err(); err != nil {
 			return nil, err
@@ -53,7 +54,7 @@ func searchSystem(ctx context.Context, s cell.System, want map[cell.System]bool,
 			ws[i] = dQ(l.tt, l.tol+screenExtra, o.Wavelength)
 		}
 		maxCalc := float64(maxCalcLines(len(first)))
-		seeds(s, cen, qs, ws, z, o, func(t trial) {
+		seeds(s, cen, qs, ws, z, seed, four, o, func(t trial) {
 			if density(&t, qs[len(qs)-1]) > maxCalc {
 				return
 			}
@@ -127,20 +128,44 @@ func variants(s cell.System, want map[cell.System]bool) []variant {
 	return nil
 }
 
+// seedLines returns the indices, in order of angle, of the first n lines
+// and of the first n lines stronger than strongCut. A foreign phase of a
+// few per cent shows weak lines only (see strongCut), and where they
+// come first the sample's own cell would go unseeded among the first n;
+// its strong lines seed it whatever comes before them.
+func seedLines(ls []obs, n int) []int {
+	var out []int
+	strong := 0
+	for i, l := range ls {
+		first := i < n
+		isStrong := l.rel >= strongCut && strong < n
+		if isStrong {
+			strong++
+		}
+		if first || isStrong {
+			out = append(out, i)
+		}
+		if !first && strong == n {
+			break
+		}
+	}
+	return out
+}
+
 // seeds calls visit with every candidate lattice of system s from the Q
-// values qs of the first lines at zero offset z:
-//   - cubic: each of the first SeedLines lines as each h²+k²+l² ≤
-//     2·MaxM + MaxL²;
+// values qs of the first lines at zero offset z, seeded by the lines
+// seed lists (seedLines, in order of angle; four is the first four of
+// them and of the strong ones, see seedLines):
+//   - cubic: each seed line as each h²+k²+l² ≤ 2·MaxM + MaxL²;
 //   - two-parameter systems, three families that together cover every cell
-//     with a low-index line among the first SeedLines lines:
-//     (a) every pair of the first four lines as every pair of index
+//     with a low-index line among the seed lines:
+//     (a) every pair of the lines of four as every pair of index
 //     vectors with m ≤ 9 and l ≤ 4 (m = h²+k² or h²+hk+k²);
-//     (b) one of the first SeedLines lines as hk0 (m ≤ MaxM), which fixes
-//     1/a², and each of the first three lines that this does not index as
-//     any (m ≤ MaxM, 1 ≤ l ≤ MaxL), which fixes 1/c²;
+//     (b) one seed line as hk0 (m ≤ MaxM), which fixes 1/a², and each of
+//     the first three lines that this does not index as any (m ≤ MaxM,
+//     1 ≤ l ≤ MaxL), which fixes 1/c²;
 //     (c) the same with a 00l line (l ≤ MaxL) fixing 1/c² first.
-func seeds(s cell.System, cen cell.Centring, qs, ws []float64, z float64, o Options, visit func(trial)) {
-	k := min(len(qs), o.SeedLines)
+func seeds(s cell.System, cen cell.Centring, qs, ws []float64, z float64, seed, four []int, o Options, visit func(trial)) {
 	emit := func(pa, pc float64) {
 		if !(pa > 0) || s != cell.Cubic && !(pc > 0) {
 			return
@@ -165,7 +190,7 @@ func seeds(s cell.System, cen cell.Centring, qs, ws []float64, z float64, o Opti
 	}
 	if s == cell.Cubic {
 		nmax := 2*o.MaxM + o.MaxL*o.MaxL
-		for i := 0; i < k; i++ {
+		for _, i := range seed {
 			for n := 1; n <= nmax; n++ {
 				if cubicAllowed(cell.P, n) {
 					emit(qs[i]/float64(n), 0)
@@ -183,10 +208,9 @@ func seeds(s cell.System, cen cell.Centring, qs, ws []float64, z float64, o Opti
 			}
 		}
 	}
-	// (a) pairs of the first four lines.
-	k4 := min(len(qs), 4)
-	for i := 0; i < k4; i++ {
-		for j := i + 1; j < k4; j++ {
+	// (a) pairs of the lines of four.
+	for x, i := range four {
+		for _, j := range four[x+1:] {
 			for _, u := range small {
 				for _, v := range small {
 					det := u.m*v.l2 - v.m*u.l2
@@ -210,7 +234,7 @@ func seeds(s cell.System, cen cell.Centring, qs, ws []float64, z float64, o Opti
 		return out
 	}
 	// (b) an hk0 line first.
-	for i := 0; i < k; i++ {
+	for _, i := range seed {
 		for m := 1; m <= o.MaxM; m++ {
 			if !planeAllowed(s, cell.P, m, 0) {
 				continue
@@ -231,7 +255,7 @@ func seeds(s cell.System, cen cell.Centring, qs, ws []float64, z float64, o Opti
 		}
 	}
 	// (c) a 00l line first.
-	for i := 0; i < k; i++ {
+	for _, i := range seed {
 		for l := 1; l <= o.MaxL; l++ {
 			pc := qs[i] / float64(l*l)
 			for _, j := range unexplained(i, func(q, w float64) bool {

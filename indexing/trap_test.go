@@ -278,3 +278,22 @@ func TestPseudoHexagonal(t *testing.T) {
 	want := cell.Must(cell.Orthorhombic, cell.P, 3.3574, 5.8218, 8.0709)
 	first(t, "pseudo-hexagonal orthorhombic P", modelLines(want, cuKa1, 100, nil, 0.01, -0.02, 3), cuKa1, want)
 }
+
+// TestForeignLinesFirst: a body-centred cubic cell (a = 3.45 Å,
+// invented) to 120° whose first five lines, all below its own first
+// (110), are weak lines of a foreign phase (1–4 % of the strongest,
+// positions invented). Seeded from the first lines alone, no cubic cell
+// is proposed, and cells of more parameters that the foreign lines do
+// not need either come first; the strong lines must seed the cubic cell.
+func TestForeignLinesFirst(t *testing.T) {
+	want := cell.Must(cell.Cubic, cell.I, 3.45)
+	ls := modelLines(want, cuKa1, 120, nil, 0, 0, 4)
+	top := 0.0
+	for _, l := range ls {
+		top = math.Max(top, l.Intensity)
+	}
+	for i, tt := range []float64{21.15, 26.74, 33.19, 34.19, 34.55, 55.53} {
+		ls = append(ls, cell.Line{TwoTheta: tt, ESD: 0.005, Intensity: (0.01 + 0.006*float64(i%4)) * top})
+	}
+	first(t, "body-centred cubic after five weak foreign lines", ls, cuKa1, want)
+}
