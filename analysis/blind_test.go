@@ -85,6 +85,9 @@ func TestBlind(t *testing.T) {
 		} else if per <= 2 || os.Getenv("RETICLE_BLIND_MISSES") != "" {
 			t.Logf("miss (seed %d, %v): %s; got %s", jobs[i].seed, jobs[i].lat, r.what, r.got)
 		}
+		if r.warned && !r.zone && os.Getenv("RETICLE_BLIND_MISSES") != "" {
+			t.Logf("one-zone warning (seed %d, %v, right first %v): %s; got %s", jobs[i].seed, jobs[i].lat, r.first, r.what, r.got)
+		}
 	}
 	// The rates per lattice leave out the scans whose lines cannot fix
 	// the cell (zone only); they are counted apart.
@@ -107,10 +110,13 @@ func TestBlind(t *testing.T) {
 		}
 		fmt.Fprintf(&b, "%-16s %6d %5.1f%% %5.1f%% %10d\n", lat, n, 100*float64(f)/float64(n), 100*float64(t3)/float64(n), zone)
 	}
-	zone, zoneRight, zoneSure, zoneWarned, otherWarned := 0, 0, 0, 0, 0
+	zone, zoneRight, zoneSure, zoneWarned, otherWarned, otherWarnedRight := 0, 0, 0, 0, 0, 0
 	for _, r := range results {
 		if r.warned && !r.zone {
 			otherWarned++
+			if r.first {
+				otherWarnedRight++
+			}
 		}
 		if r.zone {
 			if r.warned {
@@ -125,7 +131,7 @@ func TestBlind(t *testing.T) {
 			}
 		}
 	}
-	fmt.Fprintf(&b, "zone only (the lines in range lie in one zone of the truth): %d scans, %d right first, %d stated ≥ 0.9, %d with the one-zone warning (the others: %d)\n", zone, zoneRight, zoneSure, zoneWarned, otherWarned)
+	fmt.Fprintf(&b, "zone only (the lines in range lie in one zone of the truth): %d scans, %d right first, %d stated ≥ 0.9, %d with the one-zone warning (the others: %d, of them %d right first)\n", zone, zoneRight, zoneSure, zoneWarned, otherWarned, otherWarnedRight)
 	fmt.Fprintf(&b, "stated probability of the first candidate against its hit rate:\n")
 	bins := []float64{0, 0.5, 0.9, 0.99, 1.0001}
 	for k := 0; k+1 < len(bins); k++ {
