@@ -52,3 +52,26 @@ func TestFitAt(t *testing.T) {
 		t.Errorf("outside the scan: %v", err)
 	}
 }
+
+// TestNoShoulderAtScanEnd: scans (Cu doublet, invented lines) that end
+// on the rising K-alpha2 edge of their last line, the K-alpha2 maximum
+// just beyond the end. The background cannot be clipped there, and the
+// residual it leaves must not be taken for a shoulder of the last line.
+func TestNoShoulderAtScanEnd(t *testing.T) {
+	rad, _ := scanfile.ParseRadiation("Cu")
+	x := grid(100, 120, 0.02)
+	for seed := uint64(1); seed <= 6; seed++ {
+		rng := rand.New(rand.NewPCG(seed, 41))
+		lines := []synthLine{{104.1, 4000, 0.10, 0.5}, {111.6, 6000, 0.11, 0.5}, {119.54, 4500, 0.12, 0.5}}
+		s := scanOf(x, synthScan(x, lines, rad, 150, 0, rng))
+		res, err := Extract(context.Background(), s, Options{Radiation: rad}, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, p := range res.Peaks {
+			if p.TwoTheta > 119 && p.Flags&FlagAdded != 0 {
+				t.Errorf("seed %d: a shoulder at %.3f° beside the last line (flags %v)", seed, p.TwoTheta, p.Flags)
+			}
+		}
+	}
+}

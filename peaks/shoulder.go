@@ -23,6 +23,11 @@ const shoulderLevel = 0.001
 // the misfit of the profile model does elsewhere in the group: a strong
 // line that the model describes to 1 % of its height leaves residuals of
 // that size, and a shoulder of that size is not evidence of a line.
+//
+// A group whose window an end of the scan cuts keeps none: the
+// background under the end of the data cannot be clipped (see
+// Result.LineESD), and a line cut by the end (the K-alpha2 of the last
+// line, say) leaves a residual there that no line beside it explains.
 func confirmShoulders(md *model, cs []*component) []*component {
 	drop := map[*component]bool{}
 	for _, g := range md.groups(cs) {
@@ -36,6 +41,12 @@ func confirmShoulders(md *model, cs []*component) []*component {
 			continue
 		}
 		lo, hi := md.span(g)
+		if lo == 0 || hi == len(md.x) {
+			for _, k := range added {
+				drop[g[k]] = true
+			}
+			continue
+		}
 		base := md.baseFor(cs, g, lo, hi)
 		chi1, nu1 := groupChi2(md, g, -1, lo, hi, base)
 		if nu1 <= 0 {
