@@ -228,3 +228,13 @@ func mod(a, m int) int {
 type HKL [3]int
 
 func (h HKL) String() string { return fmt.Sprintf("%d %d %d", h[0], h[1], h[2]) }
+
+// Dot returns h·u. With u a direct-lattice vector [uvw], h lies in the
+// zone of axis u when it is zero (Weiss's zone law, hu + kv + lw = 0).
+func (h HKL) Dot(u HKL) int { return h[0]*u[0] + h[1]*u[1] + h[2]*u[2] }
+
+// Cross returns h × k: the axis [uvw] (up to a common factor) of the
+// zone that holds both, zero when they are parallel.
+func (h HKL) Cross(k HKL) HKL {
+	return HKL{h[1]*k[2] - h[2]*k[1], h[2]*k[0] - h[0]*k[2], h[0]*k[1] - h[1]*k[0]}
+}

@@ -344,12 +344,22 @@ func leavesStrong(k *cand, all []obs) bool {
 // strongFirst returns the first n lines stronger than strongCut.
 func strongFirst(all []obs, n int) []obs {
 	var out []obs
-	for _, l := range all {
+	for _, i := range strongLines(all, n) {
+		out = append(out, all[i])
+	}
+	return out
+}
+
+// strongLines returns the indices of the first n lines stronger than
+// strongCut.
+func strongLines(ls []obs, n int) []int {
+	var out []int
+	for i, l := range ls {
+		if len(out) == n {
+			break
+		}
 		if l.rel >= strongCut {
-			out = append(out, l)
-			if len(out) == n {
-				break
-			}
+			out = append(out, i)
 		}
 	}
 	return out

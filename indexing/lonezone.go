@@ -64,14 +64,17 @@ func loneZone(k *cand, ls []obs, lambda float64) (cell.HKL, bool) {
 }
 
 // loneZoneSeeds is how many of the first indexed lines give the zone
-// axes loneZone tries.
+// axes loneZone tries. The axes grow as the square of the reflections
+// the lines may take, so they come from a few lines only; six hold two
+// independent reflections unless all six are orders of one row, and then
+// the warning is missed, never given wrongly (holdsAll decides).
 const loneZoneSeeds = 6
 
 // zoneAxis returns the zone axis of two reflections, their cross product
 // divided by its common factor, with its first non-zero index positive;
 // false when they are parallel.
 func zoneAxis(a, b cell.HKL) (cell.HKL, bool) {
-	u := cell.HKL{a[1]*b[2] - a[2]*b[1], a[2]*b[0] - a[0]*b[2], a[0]*b[1] - a[1]*b[0]}
+	u := a.Cross(b)
 	g := gcd(gcd(abs(u[0]), abs(u[1])), abs(u[2]))
 	if g == 0 {
 		return u, false
@@ -96,7 +99,7 @@ func holdsAll(u cell.HKL, lines [][]cell.HKL) bool {
 	for _, hs := range lines {
 		in := false
 		for _, h := range hs {
-			if h[0]*u[0]+h[1]*u[1]+h[2]*u[2] == 0 {
+			if h.Dot(u) == 0 {
 				in = true
 				break
 			}

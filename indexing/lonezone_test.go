@@ -8,7 +8,7 @@ import (
 	"reticle/cell"
 )
 
-// TestLoneZone indexes the lines of cells with one short edge: scanned
+// TestLoneZone indexes the lines of cells (invented) with one short edge: scanned
 // only to below the first line off the zone normal to it, every line
 // lies in that zone and the search must warn that the cell off it is a
 // guess; scanned further, the lines off the zone fix the cell and it

@@ -3,6 +3,7 @@ package indexing
 import (
 	"context"
 	"math"
+	"slices"
 	"sort"
 
 	"reticle/cell"
@@ -134,22 +135,12 @@ func variants(s cell.System, want map[cell.System]bool) []variant {
 // come first the sample's own cell would go unseeded among the first n;
 // its strong lines seed it whatever comes before them.
 func seedLines(ls []obs, n int) []int {
-	var out []int
-	strong := 0
-	for i, l := range ls {
-		first := i < n
-		isStrong := l.rel >= strongCut && strong < n
-		if isStrong {
-			strong++
-		}
-		if first || isStrong {
-			out = append(out, i)
-		}
-		if !first && strong == n {
-			break
-		}
+	out := strongLines(ls, n)
+	for i := range min(n, len(ls)) {
+		out = append(out, i)
 	}
-	return out
+	slices.Sort(out)
+	return slices.Compact(out)
 }
 
 // seeds calls visit with every candidate lattice of system s from the Q

@@ -31,7 +31,7 @@ func (s split) index() int {
 // in reports whether h is in class A.
 func (s split) in(h cell.HKL) bool {
 	for _, v := range s.v {
-		if mod(v[0]*h[0]+v[1]*h[1]+v[2]*h[2], s.m) != 0 {
+		if mod(h.Dot(v), s.m) != 0 {
 			return false
 		}
 	}

@@ -221,12 +221,16 @@ func (md *model) fitGroup(cs []*component, lo, hi int, base []float64) float64 {
 		} else {
 			c.flags &^= FlagShared
 		}
-		if lo == 0 || hi == len(md.x) {
+		if md.cutByEnd(lo, hi) {
 			c.flags |= FlagEdge
 		}
 	}
 	return red
 }
+
+// cutByEnd reports whether an end of the scan cuts the point range
+// [lo, hi) of a fit.
+func (md *model) cutByEnd(lo, hi int) bool { return lo == 0 || hi == len(md.x) }
 
 // window returns the point range a component needs: from 3 FWHM below its
 // K-alpha1 line to 3 FWHM above its K-alpha2 line.

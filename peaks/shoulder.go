@@ -41,7 +41,7 @@ func confirmShoulders(md *model, cs []*component) []*component {
 			continue
 		}
 		lo, hi := md.span(g)
-		if lo == 0 || hi == len(md.x) {
+		if md.cutByEnd(lo, hi) {
 			for _, k := range added {
 				drop[g[k]] = true
 			}

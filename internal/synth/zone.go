@@ -32,11 +32,11 @@ func ZoneOnly(c cell.Cell, qmax float64) bool {
 				case 0:
 					basis = append(basis, v)
 				case 1:
-					if n := cross(basis[0], v); n != (cell.HKL{}) {
+					if n := basis[0].Cross(v); n != (cell.HKL{}) {
 						basis, normal = append(basis, v), n
 					}
 				default:
-					if v[0]*normal[0]+v[1]*normal[1]+v[2]*normal[2] != 0 {
+					if v.Dot(normal) != 0 {
 						return false
 					}
 				}
@@ -44,8 +44,4 @@ func ZoneOnly(c cell.Cell, qmax float64) bool {
 		}
 	}
 	return true
-}
-
-func cross(a, b cell.HKL) cell.HKL {
-	return cell.HKL{a[1]*b[2] - a[2]*b[1], a[2]*b[0] - a[0]*b[2], a[0]*b[1] - a[1]*b[0]}
 }
