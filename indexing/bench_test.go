@@ -2,6 +2,7 @@ package indexing
 
 import (
 	"context"
+	"math"
 	"math/rand/v2"
 	"slices"
 	"testing"
@@ -82,5 +83,35 @@ func BenchmarkIndexSpread(b *testing.B) {
 			b.ReportMetric(ts[n/2], "median-s")
 			b.ReportMetric(ts[n-1], "worst-s")
 		})
+	}
+}
+
+// BenchmarkCount times lineSet.count, the zone search's inner loop, on
+// 300 random lattices against the 20 lines of a random triclinic cell
+// (TestCutoffBound's construction, fixed seed), unlimited.
+func BenchmarkCount(b *testing.B) {
+	rng := rand.New(rand.NewPCG(2026, 12))
+	ls, lambda, _ := randomCase(rng, randomCell(rng, cell.Triclinic, cell.P))
+	o := Options{Wavelength: lambda}.withDefaults()
+	ls = ls[:min(len(ls), 20)]
+	qs := make([]float64, len(ls))
+	ws := make([]float64, len(ls))
+	for i, l := range ls {
+		qs[i] = qOf(l.TwoTheta, 0, lambda)
+		ws[i] = dQ(l.TwoTheta, o.Tolerance+screenExtra, lambda)
+	}
+	set := newLineSet(qs, ws, qs[len(qs)-1]+ws[len(ws)-1])
+	fs := make([]cell.QForm, 300)
+	for k := range fs {
+		fs[k] = randomCell(rng, cell.Triclinic, cell.P).QForm()
+		for i := range fs[k] {
+			fs[k][i] /= 1 + 4*rng.Float64()
+		}
+	}
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		for _, f := range fs {
+			set.count(f, math.MaxInt32)
+		}
 	}
 }

@@ -477,19 +477,24 @@ type lineSet struct {
 	scale  float64
 	// start[b] is the first line at or above the bottom of bucket b of
 	// [0, qmax]: a lookup that replaces a search per reflection.
-	start [lineBuckets + 1]int
-	best  []float64 // countForm's scratch: each line's least discrepancy
+	start [lineBuckets + 1]int32
+	// padded is qs with +Inf after the last line, so that the walk from
+	// a bucket's first line to the first line at or above a Q needs no
+	// test of the end.
+	padded []float64
+	best   []float64 // countForm's scratch: each line's least discrepancy, and the pad's
 }
 
 const lineBuckets = 256
 
 func newLineSet(qs, ws []float64, qmax float64) *lineSet {
-	l := &lineSet{qs: qs, ws: ws, qmax: qmax, scale: lineBuckets / qmax * (1 - 1e-12), best: make([]float64, len(qs))}
+	l := &lineSet{qs: qs, ws: ws, qmax: qmax, scale: lineBuckets / qmax * (1 - 1e-12), best: make([]float64, len(qs)+1)}
+	l.padded = append(slices.Clone(qs), math.Inf(1))
 	for b, j := 0, 0; b <= lineBuckets; b++ {
 		for j < len(qs) && qs[j]*l.scale < float64(b) {
 			j++
 		}
-		l.start[b] = j
+		l.start[b] = int32(j)
 	}
 	return l
 }
@@ -523,7 +528,7 @@ func (ls *lineSet) count(f cell.QForm, ncMax int) (int, float64) {
 	for i := range best {
 		best[i] = math.Inf(1)
 	}
-	start, scale := &ls.start, ls.scale
+	start, scale, padded := &ls.start, ls.scale, ls.padded
 	qn := qs[len(qs)-1] * (1 + 1e-9)
 	nc, total := 0, 0
 	for h := 0; h <= hm; h++ {
@@ -547,10 +552,10 @@ func (ls *lineSet) count(f cell.QForm, ncMax int) (int, float64) {
 			inv := 1 / (2 * c)
 			l0 := max(-lm, int((-bl-sq)*inv)-2)
 			l1 := min(lm, int((-bl+sq)*inv)+2)
+			if h == 0 && k == 0 {
+				l0 = max(l0, 1) // one of each Friedel pair, and not the origin
+			}
 			for l := l0; l <= l1; l++ {
-				if h == 0 && k == 0 && l <= 0 {
-					continue
-				}
 				z := float64(l)
 				q := base + c*z*z + bl*z
 				if q > qmax || q <= 0 {
@@ -562,18 +567,17 @@ func (ls *lineSet) count(f cell.QForm, ncMax int) (int, float64) {
 						return 0, 0
 					}
 				}
-				// The first line at or above q: from its bucket on.
-				j := start[int(q*scale)]
-				for j < len(qs) && qs[j] < q {
+				// The first line at or above q, from its bucket on (the
+				// pad stops the walk); and the line below it.
+				j := int(start[int(q*scale)])
+				for padded[j] < q {
 					j++
 				}
-				if j < len(qs) {
-					if d := qs[j] - q; d < best[j] {
-						best[j] = d
-					}
+				if d := padded[j] - q; d < best[j] {
+					best[j] = d
 				}
 				if j > 0 {
-					if d := q - qs[j-1]; d < best[j-1] {
+					if d := q - padded[j-1]; d < best[j-1] {
 						best[j-1] = d
 					}
 				}
@@ -587,7 +591,7 @@ func (ls *lineSet) count(f cell.QForm, ncMax int) (int, float64) {
 	// mean discrepancy and the number of calculated lines.
 	n := 0
 	var sum float64
-	for i, d := range best {
+	for i, d := range best[:len(qs)] {
 		if d <= ws[i] {
 			n++
 			sum += math.Max(d, ws[i]/10)
