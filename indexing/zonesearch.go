@@ -49,8 +49,9 @@ func zoneSearch(ctx context.Context, first, all []obs, pool []*cand, o Options, 
 	if err != nil {
 		return nil, nil, err
 	}
+	memo := newLatticeMemo()
 	for {
-		if ks, err = zoneCands(ctx, first, o, want, need, searched, forms); err != nil {
+		if ks, err = zoneCands(ctx, first, o, want, need, searched, forms, memo); err != nil {
 			return nil, nil, err
 		}
 		ranked = rankCands(append(pool, ks...), first, all, o)
@@ -119,13 +120,38 @@ func zoneForms(ctx context.Context, first []obs, o Options, zeros []float64, nee
 	return formsAt, nil
 }
 
+// A latticeMemo keeps what zoneCands made of each lattice: its
+// refinement as a triclinic cell (nil when that failed), by lattice and
+// offset, and its descriptions in the higher systems, by that cell. A
+// later round of the zone search, at further offsets, then refines only
+// the lattices it adds; the cands are the same objects, so their
+// evidence is not taken again either. Each is a function of its lattice
+// and offset alone, so the outcome is that of refining every lattice
+// afresh.
+type latticeMemo struct {
+	tri       map[latticeAt]*cand
+	described map[*cand][]*cand
+}
+
+// latticeAt is a lattice (its reduced key) at a zero offset.
+type latticeAt struct {
+	key  [6]int64
+	zero float64
+}
+
+func newLatticeMemo() *latticeMemo {
+	return &latticeMemo{tri: map[latticeAt]*cand{}, described: map[*cand][]*cand{}}
+}
+
 // zoneCands refines the lattices the zone method found at the zero
 // offsets zeros (formsAt[i] at zeros[i]; merged in this fixed order, so
 // the outcome does not depend on the schedule) and returns their
-// descriptions in the wanted systems as settled cands.
-func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System]bool, need int, zeros []float64, formsAt [][]cell.QForm) ([]*cand, error) {
+// descriptions in the wanted systems as settled cands; memo holds what
+// earlier rounds made (see latticeMemo).
+func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System]bool, need int, zeros []float64, formsAt [][]cell.QForm, memo *latticeMemo) ([]*cand, error) {
 	var lattices []cell.Reduced
 	var latticeZero []float64
+	var latticeKey [][6]int64
 	seenLattice := map[[6]int64]bool{}
 	for zi, z := range zeros {
 		for _, f := range formsAt[zi] {
@@ -142,6 +168,7 @@ func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System
 				seenLattice[key] = true
 				lattices = append(lattices, red)
 				latticeZero = append(latticeZero, z)
+				latticeKey = append(latticeKey, key)
 			}
 		}
 	}
@@ -152,12 +179,20 @@ func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
-		k := &cand{c: red.Cell, zero: latticeZero[i], zeroFree: o.ZeroRange > 0}
-		if !k.settle(first, o.Wavelength, screenExtra, need) || math.Abs(k.zero) > o.zeroBound() {
-			continue
+		at := latticeAt{latticeKey[i], latticeZero[i]}
+		k, done := memo.tri[at]
+		if !done {
+			k = &cand{c: red.Cell, zero: latticeZero[i], zeroFree: o.ZeroRange > 0}
+			ok := k.settle(first, o.Wavelength, screenExtra, need) && math.Abs(k.zero) <= o.zeroBound()
+			if ok {
+				k.figures(first, o.Wavelength)
+			}
+			if !ok || !(k.m > 0) {
+				k = nil
+			}
+			memo.tri[at] = k
 		}
-		k.figures(first, o.Wavelength)
-		if k.m > 0 {
+		if k != nil {
 			tri = append(tri, k)
 		}
 	}
@@ -174,7 +209,12 @@ func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System
 		if want[cell.Triclinic] {
 			out = append(out, t)
 		}
-		out = append(out, describeLattice(red, t.zero, t.zeroFree, first, o, want, need, settingTol)...)
+		ds, done := memo.described[t]
+		if !done {
+			ds = describeLattice(red, t.zero, t.zeroFree, first, o, want, need, settingTol)
+			memo.described[t] = ds
+		}
+		out = append(out, ds...)
 	}
 	return out, nil
 }
