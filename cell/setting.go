@@ -152,15 +152,31 @@ func Settings(red Reduced, s System, tol Tolerance) []Setting {
 	if s == Triclinic {
 		return []Setting{{Cell: red.Cell, Transform: Identity}}
 	}
+	return NewSettingSearch(red).Settings(s, tol)
+}
+
+// A SettingSearch holds what Settings works out of a reduced lattice
+// once, whatever the system: the candidate basis vectors, their lengths
+// and the cosines of every pair. A lattice tried in several systems
+// builds it once.
+type SettingSearch struct {
+	red     Reduced
+	g       Matrix
+	vs      [][3]float64
+	len2    []float64
+	cosines []float64 // of vectors i and j at i·len(vs) + j
+}
+
+// NewSettingSearch prepares the setting search of a reduced lattice.
+func NewSettingSearch(red Reduced) *SettingSearch {
 	g := red.G6.Metric()
 	vs := vectors(g)
 	len2 := make([]float64, len(vs))
 	for i, v := range vs {
 		len2[i] = dot(g, v, v)
 	}
-	cosTol := math.Sin(tol.Angle * deg) // |cos| of an angle within tol of 90°
-	// The cosines of every pair, worked out once: the searches below
-	// test each pair many times.
+	// The cosines of every pair, worked out once: the searches test
+	// each pair many times.
 	n := len(vs)
 	cosines := make([]float64, n*n)
 	for i := range vs {
@@ -169,6 +185,17 @@ func Settings(red Reduced, s System, tol Tolerance) []Setting {
 			cosines[i*n+j], cosines[j*n+i] = c, c
 		}
 	}
+	return &SettingSearch{red: red, g: g, vs: vs, len2: len2, cosines: cosines}
+}
+
+// Settings is the package's Settings of the search's lattice.
+func (ss *SettingSearch) Settings(s System, tol Tolerance) []Setting {
+	red, g, vs, len2, cosines := ss.red, ss.g, ss.vs, ss.len2, ss.cosines
+	if s == Triclinic {
+		return []Setting{{Cell: red.Cell, Transform: Identity}}
+	}
+	n := len(vs)
+	cosTol := math.Sin(tol.Angle * deg) // |cos| of an angle within tol of 90°
 	perp := func(i, j int) bool { return math.Abs(cosines[i*n+j]) <= cosTol }
 	equal := func(i, j int) bool {
 		return math.Abs(math.Sqrt(len2[i])-math.Sqrt(len2[j])) <= tol.Length*math.Sqrt(len2[i])

@@ -225,11 +225,12 @@ func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System
 // settled on the lines and put in its system's conventional setting.
 func describeLattice(red cell.Reduced, zero float64, zeroFree bool, first []obs, o Options, want map[cell.System]bool, need int, tol cell.Tolerance) []*cand {
 	var out []*cand
+	search := cell.NewSettingSearch(red)
 	for _, s := range []cell.System{cell.Cubic, cell.Tetragonal, cell.Hexagonal, cell.Rhombohedral, cell.Orthorhombic, cell.Monoclinic} {
 		if !want[s] {
 			continue
 		}
-		sts := cell.Settings(red, s, tol)
+		sts := search.Settings(s, tol)
 		if len(sts) > 2 {
 			sts = sts[:2]
 		}
