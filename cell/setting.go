@@ -81,8 +81,12 @@ func centringOf(m Matrix) (Centring, bool) {
 	if n < 1 || n > 4 {
 		return 0, false // no centring has more than four lattice points
 	}
-	// Lattice points modulo 1, in units of 1/6.
-	var seen [][3]int
+	if n == 1 {
+		return P, true // the origin is the one lattice point
+	}
+	// Lattice points modulo 1, in units of 1/6 (at most n³ = 64 tried).
+	var buf [64][3]int
+	seen := buf[:0]
 	has1 := func(p [3]int) bool {
 		for _, q := range seen {
 			if q == p {
