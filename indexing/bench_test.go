@@ -93,13 +93,7 @@ func BenchmarkCount(b *testing.B) {
 	rng := rand.New(rand.NewPCG(2026, 12))
 	ls, lambda, _ := randomCase(rng, randomCell(rng, cell.Triclinic, cell.P))
 	o := Options{Wavelength: lambda}.withDefaults()
-	ls = ls[:min(len(ls), 20)]
-	qs := make([]float64, len(ls))
-	ws := make([]float64, len(ls))
-	for i, l := range ls {
-		qs[i] = qOf(l.TwoTheta, 0, lambda)
-		ws[i] = dQ(l.TwoTheta, o.Tolerance+screenExtra, lambda)
-	}
+	qs, ws := zoneLines(ls[:min(len(ls), 20)], o)
 	set := newLineSet(qs, ws, qs[len(qs)-1]+ws[len(ws)-1])
 	fs := make([]cell.QForm, 300)
 	for k := range fs {

@@ -18,12 +18,7 @@ func TestCutoffBound(t *testing.T) {
 	for trial := 0; trial < 6; trial++ {
 		ls, lambda, _ := randomCase(rng, randomCell(rng, cell.Triclinic, cell.P))
 		o := Options{Wavelength: lambda}.withDefaults()
-		qs := make([]float64, len(ls))
-		ws := make([]float64, len(ls))
-		for i, l := range ls {
-			qs[i] = qOf(l.TwoTheta, 0, lambda)
-			ws[i] = dQ(l.TwoTheta, o.Tolerance+screenExtra, lambda)
-		}
+		qs, ws := zoneLines(ls, o)
 		need := len(qs) - o.MaxImpurities
 		qmax := qs[len(qs)-1] + ws[len(ws)-1]
 		set := newLineSet(qs, ws, qmax)
@@ -53,4 +48,16 @@ func TestCutoffBound(t *testing.T) {
 		t.Fatal("no count stopped at its limit: the test checks nothing")
 	}
 	t.Logf("%d counts stopped at their limit", stopped)
+}
+
+// zoneLines returns the Q of the lines and their windows as the zone
+// search takes them at no zero offset.
+func zoneLines(ls []cell.Line, o Options) (qs, ws []float64) {
+	qs = make([]float64, len(ls))
+	ws = make([]float64, len(ls))
+	for i, l := range ls {
+		qs[i] = qOf(l.TwoTheta, 0, o.Wavelength)
+		ws[i] = dQ(l.TwoTheta, o.Tolerance+screenExtra, o.Wavelength)
+	}
+	return qs, ws
 }

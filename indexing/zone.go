@@ -386,7 +386,7 @@ type vote struct {
 
 // agreed returns the values that at least min distinct lines propose
 // within their windows, one per cluster (the mean of its members). The
-// votes are put in order of x (sortVotes).
+// votes are put in order of x (voteOrder.sort).
 func agreed(vs []vote, min int, scratch *voteOrder) []float64 {
 	scratch.sort(vs)
 	var out []float64
@@ -459,6 +459,11 @@ func reducedKey(f cell.QForm) ([6]int64, bool) {
 	if err != nil {
 		return [6]int64{}, false
 	}
+	return keyOf(red), true
+}
+
+// keyOf is reducedKey of a lattice already reduced.
+func keyOf(red cell.Reduced) [6]int64 {
 	g := red.G6
 	v := [6]float64{g.A, g.B, g.C, g.Xi, g.Eta, g.Zeta}
 	m := (v[0] + v[1] + v[2]) / 3
@@ -466,7 +471,7 @@ func reducedKey(f cell.QForm) ([6]int64, bool) {
 	for i := range k {
 		k[i] = int64(math.Round(v[i] / m * 1000))
 	}
-	return k, true
+	return k
 }
 
 // A lineSet holds the lines (Q qs, windows ws, sorted) that countForm
@@ -478,9 +483,9 @@ type lineSet struct {
 	// start[b] is the first line at or above the bottom of bucket b of
 	// [0, qmax]: a lookup that replaces a search per reflection.
 	start [lineBuckets + 1]int32
-	// padded is qs with +Inf after the last line, so that the walk from
-	// a bucket's first line to the first line at or above a Q needs no
-	// test of the end.
+	// padded is qs with +Inf after the last line (qs is padded without
+	// it), so that the walk from a bucket's first line to the first line
+	// at or above a Q needs no test of the end.
 	padded []float64
 	best   []float64 // countForm's scratch: each line's least discrepancy, and the pad's
 }
@@ -488,8 +493,8 @@ type lineSet struct {
 const lineBuckets = 256
 
 func newLineSet(qs, ws []float64, qmax float64) *lineSet {
-	l := &lineSet{qs: qs, ws: ws, qmax: qmax, scale: lineBuckets / qmax * (1 - 1e-12), best: make([]float64, len(qs)+1)}
-	l.padded = append(slices.Clone(qs), math.Inf(1))
+	padded := append(slices.Clone(qs), math.Inf(1))
+	l := &lineSet{qs: padded[:len(qs)], padded: padded, ws: ws, qmax: qmax, scale: lineBuckets / qmax * (1 - 1e-12), best: make([]float64, len(qs)+1)}
 	for b, j := 0, 0; b <= lineBuckets; b++ {
 		for j < len(qs) && qs[j]*l.scale < float64(b) {
 			j++

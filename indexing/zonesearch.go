@@ -121,26 +121,21 @@ func zoneForms(ctx context.Context, first []obs, o Options, zeros []float64, nee
 }
 
 // A latticeMemo keeps what zoneCands made of each lattice: its
-// refinement as a triclinic cell (nil when that failed), by lattice and
-// offset, and its descriptions in the higher systems, by that cell. A
-// later round of the zone search, at further offsets, then refines only
-// the lattices it adds; the cands are the same objects, so their
-// evidence is not taken again either. Each is a function of its lattice
-// and offset alone, so the outcome is that of refining every lattice
-// afresh.
+// refinement as a triclinic cell (nil when that failed), by the
+// lattice's reduced key, and its descriptions in the higher systems, by
+// that cell. A later round of the zone search, at further offsets, then
+// refines only the lattices it adds; the cands are the same objects, so
+// their evidence is not taken again either. A lattice is refined at the
+// offset where it was first found, which the fixed order of the rounds'
+// forms makes the same in every round, so the outcome is that of
+// refining every lattice afresh.
 type latticeMemo struct {
-	tri       map[latticeAt]*cand
+	tri       map[[6]int64]*cand
 	described map[*cand][]*cand
 }
 
-// latticeAt is a lattice (its reduced key) at a zero offset.
-type latticeAt struct {
-	key  [6]int64
-	zero float64
-}
-
 func newLatticeMemo() *latticeMemo {
-	return &latticeMemo{tri: map[latticeAt]*cand{}, described: map[*cand][]*cand{}}
+	return &latticeMemo{tri: map[[6]int64]*cand{}, described: map[*cand][]*cand{}}
 }
 
 // zoneCands refines the lattices the zone method found at the zero
@@ -149,10 +144,10 @@ func newLatticeMemo() *latticeMemo {
 // descriptions in the wanted systems as settled cands; memo holds what
 // earlier rounds made (see latticeMemo).
 func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System]bool, need int, zeros []float64, formsAt [][]cell.QForm, memo *latticeMemo) ([]*cand, error) {
-	var lattices []cell.Reduced
-	var latticeZero []float64
-	var latticeKey [][6]int64
-	seenLattice := map[[6]int64]bool{}
+	// Each lattice is first refined as it is (triclinic); the best go on
+	// to their descriptions in the higher systems.
+	var tri []*cand
+	seen := map[[6]int64]bool{}
 	for zi, z := range zeros {
 		for _, f := range formsAt[zi] {
 			c, err := f.Cell(cell.Triclinic, cell.P)
@@ -163,37 +158,29 @@ func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System
 			if err != nil || red.Cell.A < minTranslation {
 				continue
 			}
-			key, _ := reducedKey(f)
-			if !seenLattice[key] {
-				seenLattice[key] = true
-				lattices = append(lattices, red)
-				latticeZero = append(latticeZero, z)
-				latticeKey = append(latticeKey, key)
+			key := keyOf(red)
+			if seen[key] {
+				continue
 			}
-		}
-	}
-	// Each lattice is first refined as it is (triclinic); the best go on
-	// to their descriptions in the higher systems.
-	var tri []*cand
-	for i, red := range lattices {
-		if err := ctx.Err(); err != nil {
-			return nil, err
-		}
-		at := latticeAt{latticeKey[i], latticeZero[i]}
-		k, done := memo.tri[at]
-		if !done {
-			k = &cand{c: red.Cell, zero: latticeZero[i], zeroFree: o.ZeroRange > 0}
-			ok := k.settle(first, o.Wavelength, screenExtra, need) && math.Abs(k.zero) <= o.zeroBound()
-			if ok {
-				k.figures(first, o.Wavelength)
+			seen[key] = true
+			k, done := memo.tri[key]
+			if !done {
+				if err := ctx.Err(); err != nil {
+					return nil, err
+				}
+				k = &cand{c: red.Cell, zero: z, zeroFree: o.ZeroRange > 0}
+				ok := k.settle(first, o.Wavelength, screenExtra, need) && math.Abs(k.zero) <= o.zeroBound()
+				if ok {
+					k.figures(first, o.Wavelength)
+				}
+				if !ok || !(k.m > 0) {
+					k = nil
+				}
+				memo.tri[key] = k
 			}
-			if !ok || !(k.m > 0) {
-				k = nil
+			if k != nil {
+				tri = append(tri, k)
 			}
-			memo.tri[at] = k
-		}
-		if k != nil {
-			tri = append(tri, k)
 		}
 	}
 	tri = bestCands(tri, latticeKeep)
@@ -225,10 +212,13 @@ func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System
 // settled on the lines and put in its system's conventional setting.
 func describeLattice(red cell.Reduced, zero float64, zeroFree bool, first []obs, o Options, want map[cell.System]bool, need int, tol cell.Tolerance) []*cand {
 	var out []*cand
-	search := cell.NewSettingSearch(red)
+	var search *cell.SettingSearch // built for the first system wanted
 	for _, s := range []cell.System{cell.Cubic, cell.Tetragonal, cell.Hexagonal, cell.Rhombohedral, cell.Orthorhombic, cell.Monoclinic} {
 		if !want[s] {
 			continue
+		}
+		if search == nil {
+			search = cell.NewSettingSearch(red)
 		}
 		sts := search.Settings(s, tol)
 		if len(sts) > 2 {
