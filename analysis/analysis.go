@@ -186,6 +186,30 @@ func Read(path string, s Settings) (*scanfile.Scan, error) {
 // with a formula, works out the cells' contents (cells whose measured
 // density gives no whole Z rank last). The context cancels the work.
 func Analyse(ctx context.Context, e *Extraction, s Settings, progress Progress) (*Analysis, error) {
+	return analyse(ctx, e, s, progress, nil)
+}
+
+// ErrNoEarlierSearch is returned by Reweigh when the earlier analysis is
+// not one it can start from.
+var ErrNoEarlierSearch = errors.New("analysis: no earlier search of this scan under these settings")
+
+// Reweigh is Analyse without the search for cells: the candidates of an
+// earlier analysis are weighed again on the lines of the present
+// settings (see indexing.Reweigh), then refined as Analyse refines
+// them; the pattern is not fitted. It answers an edit of the lines at
+// once while Analyse runs, and its Search is marked provisional. The
+// earlier analysis must be of the same scan with the same settings but
+// for the lines rejected, added or left out of refinement; otherwise it
+// returns ErrNoEarlierSearch.
+func Reweigh(ctx context.Context, e *Extraction, s Settings, earlier *Analysis, progress Progress) (*Analysis, error) {
+	if earlier == nil || earlier.Search == nil || earlier.Scan != e.Scan || !sameBesidesLines(earlier.Settings, s) {
+		return nil, ErrNoEarlierSearch
+	}
+	return analyse(ctx, e, s, progress, earlier.Search.Solutions)
+}
+
+// analyse is Analyse, or Reweigh with the earlier solutions.
+func analyse(ctx context.Context, e *Extraction, s Settings, progress Progress, earlier []indexing.Solution) (*Analysis, error) {
 	if err := s.Check(); err != nil {
 		return nil, fmt.Errorf("%s: settings: %w", e.Scan.Path, err)
 	}
@@ -227,7 +251,13 @@ func Analyse(ctx context.Context, e *Extraction, s Settings, progress Progress) 
 	}
 	io := s.indexOptions(lambda)
 	io.MinTwoTheta, io.MaxTwoTheta = e.Scan.Range()
-	res, err := indexing.Index(ctx, lines, io, progress.of(StageIndexing))
+	var res *indexing.Result
+	var err error
+	if earlier != nil {
+		res, err = indexing.Reweigh(ctx, lines, io, earlier)
+	} else {
+		res, err = indexing.Index(ctx, lines, io, progress.of(StageIndexing))
+	}
 	if err != nil {
 		if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
 			return nil, err
@@ -249,7 +279,7 @@ func Analyse(ctx context.Context, e *Extraction, s Settings, progress Progress) 
 		}
 		a.Candidates = append(a.Candidates, c)
 	}
-	if s.WeighByPattern {
+	if s.WeighByPattern && earlier == nil {
 		if err := weighByPattern(ctx, a, e, s); err != nil {
 			return nil, err
 		}

@@ -180,25 +180,32 @@ type blindResult struct {
 }
 
 // blindOne draws, simulates and analyses one scan.
-func blindOne(lat synth.Lattice, seed uint64) blindResult {
+// blindScan draws the case of a lattice from a seed, simulates its scan
+// and returns it with the settings that name its radiation.
+func blindScan(lat synth.Lattice, seed uint64) (synth.Case, *scanfile.Scan, Settings, error) {
 	rng := rand.New(rand.NewPCG(seed, 0xb11d))
 	cs := synth.Draw(rng, lat)
 	s := synth.Simulate(cs.Spec, rng)
-	r := blindResult{what: cs.String()}
 	text := s.Text("blind test scan (internal/synth)\n" + cs.String())
 	if dir := os.Getenv("RETICLE_BLIND_DUMP"); dir != "" {
 		os.WriteFile(fmt.Sprintf("%s/blind-%d.xy", dir, seed), text, 0o644)
-	}
-	scan, err := scanfile.Parse(fmt.Sprintf("blind-%d.xy", seed), text)
-	if err != nil {
-		r.got = err.Error()
-		return r
 	}
 	rad := scanfile.Radiation{Name: "Cu K-alpha1", Lambda1: cs.Lambda}
 	if cs.Doublet {
 		rad, _ = scanfile.ParseRadiation("Cu")
 	}
-	a, err := Run(context.Background(), scan, Settings{Radiation: &rad}, nil)
+	scan, err := scanfile.Parse(fmt.Sprintf("blind-%d.xy", seed), text)
+	return cs, scan, Settings{Radiation: &rad}, err
+}
+
+func blindOne(lat synth.Lattice, seed uint64) blindResult {
+	cs, scan, settings, err := blindScan(lat, seed)
+	r := blindResult{what: cs.String()}
+	if err != nil {
+		r.got = err.Error()
+		return r
+	}
+	a, err := Run(context.Background(), scan, settings, nil)
 	if err != nil {
 		r.got = err.Error()
 		return r

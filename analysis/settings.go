@@ -1,6 +1,7 @@
 package analysis
 
 import (
+	"bytes"
 	"encoding/json"
 	"fmt"
 	"math"
@@ -102,6 +103,16 @@ func (s Settings) Clone() Settings {
 	s.Added = slices.Clone(s.Added)
 	s.Excluded = slices.Clone(s.Excluded)
 	return s
+}
+
+// sameBesidesLines reports whether s and t differ at most in the lines
+// rejected, added or left out of refinement.
+func sameBesidesLines(s, t Settings) bool {
+	s.Rejected, s.Added, s.Excluded = nil, nil, nil
+	t.Rejected, t.Added, t.Excluded = nil, nil, nil
+	a, err1 := json.Marshal(s)
+	b, err2 := json.Marshal(t)
+	return err1 == nil && err2 == nil && bytes.Equal(a, b)
 }
 
 // Check reports a setting that no analysis can use, naming it.

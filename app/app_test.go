@@ -252,6 +252,72 @@ func BenchmarkToggle(b *testing.B) {
 	}
 }
 
+// BenchmarkToggleShown measures the time from a click on a peak to the
+// earlier candidates, weighed again on the edited lines, in the window
+// (the full search that follows is not timed).
+func BenchmarkToggleShown(b *testing.B) {
+	u := demoUI(b, "")
+	shown := previews(u)
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		u.togglePeak(3)
+		<-shown
+		b.StopTimer()
+		u.wait()
+		for len(shown) > 0 {
+			<-shown
+		}
+		b.StartTimer()
+	}
+}
+
+// previews returns a channel that receives once each time the window
+// shows a provisional result.
+func previews(u *ui) <-chan struct{} {
+	ch := make(chan struct{}, 16)
+	onUI := u.onUI
+	u.onUI = func(f func()) {
+		onUI(f)
+		if u.m.A != nil && u.m.A.Search != nil && u.m.A.Search.Provisional {
+			ch <- struct{}{}
+		}
+	}
+	return ch
+}
+
+// TestTogglePreview checks that a click on a peak shows the earlier
+// candidates weighed again on the edited lines before the full search
+// ends, and that the full search's result then replaces them.
+func TestTogglePreview(t *testing.T) {
+	u := demoUI(t, "")
+	shown := previews(u)
+	// The full search is slowed so that the provisional result stays
+	// in the window for a look (RETICLE_SHOTS).
+	slowly(u, 300*time.Millisecond)
+	before := len(u.m.A.Lines)
+	u.togglePeak(3)
+	select {
+	case <-shown:
+	case <-time.After(30 * time.Second):
+		t.Fatal("no provisional result shown")
+	}
+	if !strings.Contains(u.status.Text, "weighed again") || len(u.m.A.Lines) != before-1 {
+		t.Errorf("provisional result: %d lines (were %d), status %q", len(u.m.A.Lines), before, u.status.Text)
+	}
+	shot(t, u, "toggle-preview")
+	u.wait()
+	if len(shown) != 0 {
+		t.Errorf("%d provisional results shown after the full search", len(shown))
+	}
+	a := u.m.A
+	if a.Search == nil || a.Search.Provisional || len(a.Lines) != before-1 || u.m.Stale() {
+		t.Fatalf("after the full search: provisional %v, %d lines (were %d), stale %v", a.Search != nil && a.Search.Provisional, len(a.Lines), before, u.m.Stale())
+	}
+	if !strings.Contains(u.status.Text, "candidate cells in") {
+		t.Errorf("status after the full search: %q", u.status.Text)
+	}
+}
+
 // TestHelperEditAndHang is the child of TestKilledSession: it opens the
 // demo, rejects a peak, chooses the second cell, reports on stdout that
 // the autosave is written, and waits to be killed.

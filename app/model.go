@@ -102,6 +102,13 @@ func (m *Model) Apply(a *analysis.Analysis, took time.Duration, used analysis.Se
 	m.sync()
 }
 
+// Preview shows a provisional result (analysis.Reweigh) of the settings
+// used until the full analysis arrives; the time of the last full run is
+// kept.
+func (m *Model) Preview(a *analysis.Analysis, used analysis.Settings) {
+	m.Apply(a, m.LastRun, used)
+}
+
 // sync shows the edits of the settings on the peaks of the last result
 // at once, before the candidates are found again: a peak the user
 // rejected is shown rejected whatever the result was computed from.

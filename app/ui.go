@@ -302,10 +302,24 @@ func (u *ui) recomputeThen(after func()) {
 	// touch it.
 	ext := u.m.Ext.Clone()
 	settings := u.m.Settings.Clone()
+	earlier := u.m.A
 	var a *analysis.Analysis
 	var took time.Duration
 	u.work("finding cells…", func(ctx context.Context, p analysis.Progress) (err error) {
 		t0 := time.Now()
+		// After an edit of the lines, the earlier candidates weighed
+		// again are shown at once, while the full search runs.
+		if q, err := analysis.Reweigh(ctx, ext, settings, earlier, nil); err == nil {
+			quick := time.Since(t0)
+			u.onUI(func() {
+				if ctx.Err() != nil {
+					return
+				}
+				u.m.Preview(q, settings)
+				u.refreshAll()
+				u.setStatus("%d lines: the last candidates weighed again in %.0f ms; searching anew…", len(q.Lines), quick.Seconds()*1000)
+			})
+		}
 		a, err = u.analyse(ctx, ext, settings, p)
 		took = time.Since(t0)
 		return err

@@ -55,3 +55,15 @@ func TestCalcLinesUnique(t *testing.T) {
 		t.Error("a rhombohedral lattice was listed by equivalents")
 	}
 }
+
+// BenchmarkCalcLines lists the lines of a triclinic cell up to the Q of
+// 2θ = 100° with Cu Kα1, about 600 of them.
+func BenchmarkCalcLines(b *testing.B) {
+	c := cell.Cell{System: cell.Triclinic, Centring: cell.P, A: 5.31, B: 6.02, C: 7.14, Alpha: 97.3, Beta: 104.8, Gamma: 91.6}
+	qmax := cell.QOf(100, 1.5406)
+	var buf []calcQ
+	for i := 0; i < b.N; i++ {
+		buf = calcLines(c, qmax, buf)
+	}
+	b.ReportMetric(float64(len(buf)), "lines")
+}

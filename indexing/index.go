@@ -131,27 +131,7 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 		pool = append(pool, more...)
 		ranked = rankCands(pool, first, all, o)
 	}
-	probs := probabilities(ranked, all, spanOf(o, all))
-	for i, k := range ranked {
-		if len(res.Solutions) == o.MaxSolutions {
-			break
-		}
-		// Two cands of one lattice can refine to one cell: it is
-		// listed once, at the better rank (cells within 2e-3, the
-		// relative spread within which the ranking takes calculated
-		// lines for one, see clustersOf).
-		sol := solutionOf(k, all, first, o)
-		sol.Probability, sol.LogEvidence = probs[i], k.ev.logE()
-		if sp := k.ev.splitUsed; sp != nil && len(k.ev.demanding) > 0 {
-			sol.Index = sp.index()
-			for _, j := range k.ev.demanding {
-				sol.Demanding = append(sol.Demanding, all[j].tt)
-			}
-		}
-		if !slices.ContainsFunc(res.Solutions, func(s Solution) bool { return sameCell(s.Cell, sol.Cell, 2e-3) }) {
-			res.Solutions = append(res.Solutions, sol)
-		}
-	}
+	res.list(ranked, first, all, o)
 	if sr.stopBy != nil && len(ranked) > 0 && !sameCell(ranked[0].c, sr.stopBy.c, 2e-3) {
 		// The cell that ended the search is not the one the full
 		// ranking puts first (a derivative lattice, or a cell of the
@@ -160,17 +140,7 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 		res.Stop = fmt.Sprintf("a cell of the higher systems, %s %s, explained the lines (M_N = %.1f with N = %d, every strong line indexed, positions within their esds), so lower systems were not searched; weighing every candidate then put %s %s first",
 			k.c.System, k.c.Centring, k.m, n, ranked[0].c.System, ranked[0].c.Centring)
 	}
-	if len(res.Solutions) > 0 {
-		if p := res.Solutions[0].Probability; p < clearLevel {
-			res.Warnings = append(res.Warnings, fmt.Sprintf("the first cell's probability is only %.0f %%: check the next candidates", 100*p))
-		}
-		if ranked[0].strong {
-			res.Warnings = append(res.Warnings, "the first cell leaves a strong line unindexed: a second phase, or not the right cell")
-		}
-		if u, ok := loneZone(ranked[0].whole, all, o.Wavelength); ok {
-			res.Warnings = append(res.Warnings, loneZoneWarning(u))
-		}
-	}
+	res.warn(ranked, all, o)
 	return res, nil
 }
 
@@ -204,9 +174,12 @@ func (sr *searcher) tick() {
 // MaxImpurities, or by default all but DefaultImpurityShare of them
 // (rounded down) and every line weaker than WeakLine; at least a cubic
 // cell's lines.
-func (sr *searcher) need(ls []obs) int {
+func (sr *searcher) need(ls []obs) int { return needed(ls, sr.o) }
+
+// needed is searcher.need for the options o.
+func needed(ls []obs, o Options) int {
 	n := len(ls)
-	allow := sr.o.MaxImpurities
+	allow := o.MaxImpurities
 	switch {
 	case allow == 0:
 		allow = int(DefaultImpurityShare * float64(n))
@@ -455,4 +428,46 @@ func solutionOf(k0 *cand, all, first []obs, o Options) Solution {
 		s.FromReduced = red.Transform
 	}
 	return s
+}
+
+// list fills res.Solutions from the ranked cands, with their
+// probabilities, at most o.MaxSolutions and each cell once.
+func (res *Result) list(ranked []*cand, first, all []obs, o Options) {
+	probs := probabilities(ranked, all, spanOf(o, all))
+	for i, k := range ranked {
+		if len(res.Solutions) == o.MaxSolutions {
+			break
+		}
+		// Two cands of one lattice can refine to one cell: it is
+		// listed once, at the better rank (cells within 2e-3, the
+		// relative spread within which the ranking takes calculated
+		// lines for one, see clustersOf).
+		sol := solutionOf(k, all, first, o)
+		sol.Probability, sol.LogEvidence = probs[i], k.ev.logE()
+		if sp := k.ev.splitUsed; sp != nil && len(k.ev.demanding) > 0 {
+			sol.Index = sp.index()
+			for _, j := range k.ev.demanding {
+				sol.Demanding = append(sol.Demanding, all[j].tt)
+			}
+		}
+		if !slices.ContainsFunc(res.Solutions, func(s Solution) bool { return sameCell(s.Cell, sol.Cell, 2e-3) }) {
+			res.Solutions = append(res.Solutions, sol)
+		}
+	}
+}
+
+// warn adds the warnings about the first of the ranked cands: a low
+// probability, a strong line unindexed, lines in one zone.
+func (res *Result) warn(ranked []*cand, all []obs, o Options) {
+	if len(res.Solutions) > 0 {
+		if p := res.Solutions[0].Probability; p < clearLevel {
+			res.Warnings = append(res.Warnings, fmt.Sprintf("the first cell's probability is only %.0f %%: check the next candidates", 100*p))
+		}
+		if ranked[0].strong {
+			res.Warnings = append(res.Warnings, "the first cell leaves a strong line unindexed: a second phase, or not the right cell")
+		}
+		if u, ok := loneZone(ranked[0].whole, all, o.Wavelength); ok {
+			res.Warnings = append(res.Warnings, loneZoneWarning(u))
+		}
+	}
 }

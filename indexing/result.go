@@ -18,6 +18,9 @@ type Result struct {
 	// Bounds are the limits of the search.
 	Bounds   Bounds
 	Warnings []string
+	// Provisional marks a result of Reweigh: the earlier candidates
+	// weighed again, to be replaced by a full search's.
+	Provisional bool
 }
 
 // Bounds are the limits within which the search is exhaustive.

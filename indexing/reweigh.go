@@ -1,0 +1,58 @@
+package indexing
+
+import (
+	"context"
+	"fmt"
+	"math"
+
+	"reticle/cell"
+)
+
+// Reweigh weighs the cells of an earlier result again on edited lines,
+// without a new search: each cell is refined on the lines from its
+// earlier zero offset and settings, and the cells are ranked by the same
+// evidence as Index's and given probabilities among themselves. It
+// answers in a small part of Index's time, since the search is most of
+// it, and it is what Index would answer whenever the edit leaves the
+// lattice among the earlier candidates (a line rejected as foreign,
+// or a line added that one of them indexes); a lattice that only the
+// edit makes findable needs Index, so the result says it is
+// provisional (Result.Provisional). It can be cancelled through ctx.
+func Reweigh(ctx context.Context, lines []cell.Line, opt Options, earlier []Solution) (*Result, error) {
+	o := opt.withDefaults()
+	if !(o.Wavelength > 0.1 && o.Wavelength < 5) {
+		return nil, fmt.Errorf("indexing: wavelength %g Å outside 0.1–5 Å", o.Wavelength)
+	}
+	all := prepare(lines, o)
+	want := map[cell.System]bool{}
+	for _, s := range o.Systems {
+		want[s] = true
+	}
+	first := all[:min(len(all), o.Lines)]
+	res := &Result{Wavelength: o.Wavelength, LinesUsed: len(first), Provisional: true,
+		Bounds: Bounds{MaxEdge: o.MaxEdge, MaxVolume: o.MaxVolume, ZeroRange: o.ZeroRange},
+		Stop:   "the candidates of the last search weighed again on the edited lines; no new search"}
+	if len(first) == 0 {
+		return res, nil
+	}
+	need := needed(first, o)
+	var pool []*cand
+	for _, sol := range earlier {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		if !want[sol.Cell.System] || len(first) < minLines(sol.Cell.System) {
+			continue
+		}
+		k := &cand{c: sol.Cell, zero: sol.Zero, zeroFree: sol.Parameters > len(cell.Basis(sol.Cell.System)) && len(first) >= minZeroLines}
+		if !k.settle(first, o.Wavelength, 0, need) || math.Abs(k.zero) > o.zeroBound() {
+			continue
+		}
+		k.figures(first, o.Wavelength)
+		pool = append(pool, k)
+	}
+	ranked := rankCands(pool, first, all, o)
+	res.list(ranked, first, all, o)
+	res.warn(ranked, all, o)
+	return res, nil
+}
