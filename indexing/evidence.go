@@ -284,10 +284,16 @@ func (k *cand) evidence(ls []obs, lambda float64, sp span, o Options) lineFit {
 	splits := splitsOf[k.c.System]
 	terms := []float64{math.Log(0.5) + one}
 	classA := make([]bool, groups)
+	r4, r3 := make([]int, len(calc)), make([]int, len(calc))
+	if len(splits) > 0 {
+		for ci, c := range calc {
+			r4[ci], r3[ci] = residues(k.calc[c.j].h)
+		}
+	}
 	for si, s := range splits {
 		clear(classA)
-		for _, c := range calc {
-			classA[c.group] = classA[c.group] || s.in(k.calc[c.j].h)
+		for ci, c := range calc {
+			classA[c.group] = classA[c.group] || s.inClassA(r4[ci], r3[ci])
 		}
 		na := 0
 		for _, a := range classA {
@@ -340,11 +346,18 @@ func twoClass(ls []obs, nears [][]near, mk []float64, classA []bool, na, nb int,
 			}
 		}
 	}
+	// Lines near no calculated line add nothing to sa and sb.
+	near := make([]int, 0, n)
+	for i := range ls {
+		if ga[i] != 0 || gb[i] != 0 {
+			near = append(near, i)
+		}
+	}
 	pa, pb := p, p
 	var sa, sb float64
 	for round := 0; round <= splitRounds; round++ {
 		sa, sb = 0, 0
-		for i := range ls {
+		for _, i := range near {
 			a, b := pa*ga[i], pb*gb[i]
 			tot := a + b + rho*mk[i]
 			sa += a / tot

@@ -16,6 +16,38 @@ import "reticle/cell"
 type split struct {
 	v [][3]int
 	m int
+	// classA tells, by the residues of hkl (see residues), whether the
+	// hkl are in class A: the congruences depend on hkl only modulo m,
+	// and a lookup spares the evidence the products for every
+	// calculated line and split.
+	classA []bool
+}
+
+// residues returns the codes of hkl's residues modulo 4 and modulo 3,
+// which index split.classA (modulo 2 follows from modulo 4).
+func residues(h cell.HKL) (int, int) {
+	return mod(h[0], 4)*16 + mod(h[1], 4)*4 + mod(h[2], 4), mod(h[0], 3)*9 + mod(h[1], 3)*3 + mod(h[2], 3)
+}
+
+// inClassA is in for the hkl of residue codes r4 and r3 (residues).
+func (s split) inClassA(r4, r3 int) bool {
+	if s.m == 3 {
+		return s.classA[r3]
+	}
+	return s.classA[r4]
+}
+
+// withTable returns the split with its table classA filled.
+func (s split) withTable() split {
+	n, base := 64, 4
+	if s.m == 3 {
+		n, base = 27, 3
+	}
+	s.classA = make([]bool, n)
+	for r := range n {
+		s.classA[r] = s.in(cell.HKL{r / (base * base), r / base % base, r % base})
+	}
+	return s
 }
 
 // index returns the split's index: class A's cell has 1/index the
@@ -76,7 +108,7 @@ var splitsOf = func() map[cell.System][]split {
 		key += string(rune('0' + s.m))
 		if !seen[key] {
 			seen[key] = true
-			all = append(all, s)
+			all = append(all, s.withTable())
 		}
 	}
 	vecs := func(m int) [][3]int {
@@ -94,18 +126,18 @@ var splitsOf = func() map[cell.System][]split {
 	}
 	for _, m := range []int{2, 3} {
 		for _, v := range vecs(m) {
-			add(split{[][3]int{v}, m})
+			add(split{v: [][3]int{v}, m: m})
 		}
 	}
 	for _, v := range vecs(4) {
 		if v[0]%2 == 1 || v[1]%2 == 1 || v[2]%2 == 1 {
-			add(split{[][3]int{v}, 4})
+			add(split{v: [][3]int{v}, m: 4})
 		}
 	}
 	v2 := vecs(2)
 	for i, u := range v2 {
 		for _, w := range v2[i+1:] {
-			add(split{[][3]int{u, w}, 2})
+			add(split{v: [][3]int{u, w}, m: 2})
 		}
 	}
 	out := map[cell.System][]split{}
