@@ -199,10 +199,10 @@ var ErrNoEarlierSearch = errors.New("analysis: no earlier search of this scan un
 // them; the pattern is not fitted. It answers an edit of the lines at
 // once while Analyse runs, and its Search is marked provisional. The
 // earlier analysis must be of the same scan with the same settings but
-// for the lines rejected, added or left out of refinement; otherwise it
-// returns ErrNoEarlierSearch.
+// for the lines rejected, added or left out of refinement, and have
+// found a cell; otherwise it returns ErrNoEarlierSearch.
 func Reweigh(ctx context.Context, e *Extraction, s Settings, earlier *Analysis, progress Progress) (*Analysis, error) {
-	if earlier == nil || earlier.Search == nil || earlier.Scan != e.Scan || !sameBesidesLines(earlier.Settings, s) {
+	if earlier == nil || earlier.Search == nil || len(earlier.Search.Solutions) == 0 || earlier.Scan != e.Scan || !sameBesidesLines(earlier.Settings, s) {
 		return nil, ErrNoEarlierSearch
 	}
 	return analyse(ctx, e, s, progress, earlier.Search.Solutions)

@@ -9,6 +9,7 @@ import (
 	"time"
 
 	"reticle/cell"
+	"reticle/indexing"
 	"reticle/internal/synth"
 	"reticle/scanfile"
 )
@@ -101,10 +102,13 @@ func sameCellAs(a, b cell.Cell) bool {
 }
 
 // TestReweighRefuses: Reweigh starts only from an earlier search of the
-// same scan under the same settings but for the lines.
+// same scan under the same settings but for the lines, which found a
+// cell.
 func TestReweighRefuses(t *testing.T) {
 	a := demo(t, Settings{})
 	other, _ := scanfile.ParseRadiation("Co")
+	none := *a
+	none.Search = &indexing.Result{}
 	for _, c := range []struct {
 		name    string
 		earlier *Analysis
@@ -113,6 +117,7 @@ func TestReweighRefuses(t *testing.T) {
 		{"no earlier analysis", nil, Settings{}},
 		{"another radiation", a, Settings{Radiation: &other}},
 		{"another threshold", a, Settings{Threshold: 6}},
+		{"no cell found before", &none, Settings{}},
 	} {
 		if _, err := Reweigh(context.Background(), a.Extraction, c.s, c.earlier, nil); !errors.Is(err, ErrNoEarlierSearch) {
 			t.Errorf("%s: %v, want ErrNoEarlierSearch", c.name, err)

@@ -277,10 +277,12 @@ func previews(u *ui) <-chan struct{} {
 	ch := make(chan struct{}, 16)
 	onUI := u.onUI
 	u.onUI = func(f func()) {
-		onUI(f)
-		if u.m.A != nil && u.m.A.Search != nil && u.m.A.Search.Provisional {
-			ch <- struct{}{}
-		}
+		onUI(func() {
+			f()
+			if u.m.A != nil && u.m.A.Search != nil && u.m.A.Search.Provisional {
+				ch <- struct{}{}
+			}
+		})
 	}
 	return ch
 }
@@ -290,21 +292,26 @@ func previews(u *ui) <-chan struct{} {
 // ends, and that the full search's result then replaces them.
 func TestTogglePreview(t *testing.T) {
 	u := demoUI(t, "")
+	mu := serialise(u)
 	shown := previews(u)
 	// The full search is slowed so that the provisional result stays
 	// in the window for a look (RETICLE_SHOTS).
 	slowly(u, 300*time.Millisecond)
 	before := len(u.m.A.Lines)
+	mu.Lock()
 	u.togglePeak(3)
+	mu.Unlock()
 	select {
 	case <-shown:
 	case <-time.After(30 * time.Second):
 		t.Fatal("no provisional result shown")
 	}
+	mu.Lock()
 	if !strings.Contains(u.status.Text, "weighed again") || len(u.m.A.Lines) != before-1 {
 		t.Errorf("provisional result: %d lines (were %d), status %q", len(u.m.A.Lines), before, u.status.Text)
 	}
 	shot(t, u, "toggle-preview")
+	mu.Unlock()
 	u.wait()
 	if len(shown) != 0 {
 		t.Errorf("%d provisional results shown after the full search", len(shown))
