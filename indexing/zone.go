@@ -553,10 +553,13 @@ func (ls *lineSet) count(f cell.QForm, ncMax int) (int, float64) {
 				continue
 			}
 			sq := math.Sqrt(disc)
-			// Truncation toward zero, widened by 2 for rounding.
+			// The integers between the roots, each root widened by a
+			// relative 1e-9 for rounding (the test below decides).
 			inv := 1 / (2 * c)
-			l0 := max(-lm, int((-bl-sq)*inv)-2)
-			l1 := min(lm, int((-bl+sq)*inv)+2)
+			r0, r1 := (-bl-sq)*inv, (-bl+sq)*inv
+			e := 1e-9 * (1 + math.Abs(r0) + math.Abs(r1))
+			l0 := max(-lm, int(math.Ceil(r0-e)))
+			l1 := min(lm, int(math.Floor(r1+e)))
 			if h == 0 && k == 0 {
 				l0 = max(l0, 1) // one of each Friedel pair, and not the origin
 			}
