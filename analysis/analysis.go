@@ -196,8 +196,10 @@ var ErrNoEarlierSearch = errors.New("analysis: no earlier search of this scan un
 // Reweigh is Analyse without the search for cells: the candidates of an
 // earlier analysis are weighed again on the lines of the present
 // settings (see indexing.Reweigh), then refined as Analyse refines
-// them; the pattern is not fitted. It answers an edit of the lines at
-// once while Analyse runs, and its Search is marked provisional. The
+// them — only the first and the one shown before the edit, the others
+// carrying ErrProvisional; the pattern is not fitted. It answers an
+// edit of the lines at once while Analyse runs, and its Search is
+// marked provisional. The
 // earlier analysis must be of the same scan with the same settings but
 // for the lines rejected, added or left out of refinement, and have
 // found a cell; otherwise it returns ErrNoEarlierSearch.
@@ -205,11 +207,27 @@ func Reweigh(ctx context.Context, e *Extraction, s Settings, earlier *Analysis, 
 	if earlier == nil || earlier.Search == nil || len(earlier.Search.Solutions) == 0 || earlier.Scan != e.Scan || !sameBesidesLines(earlier.Settings, s) {
 		return nil, ErrNoEarlierSearch
 	}
-	return analyse(ctx, e, s, progress, earlier.Search.Solutions)
+	var shown *cell.Cell
+	if c := earlier.ChosenCandidate(); c != nil {
+		x := c.Solution.Cell
+		shown = &x
+	}
+	return analyse(ctx, e, s, progress, &reweighing{earlier.Search.Solutions, shown})
 }
 
-// analyse is Analyse, or Reweigh with the earlier solutions.
-func analyse(ctx context.Context, e *Extraction, s Settings, progress Progress, earlier []indexing.Solution) (*Analysis, error) {
+// reweighing is what Reweigh passes to analyse: the earlier solutions,
+// and the cell of the candidate that was shown (nil: none).
+type reweighing struct {
+	solutions []indexing.Solution
+	shown     *cell.Cell
+}
+
+// ErrProvisional is the refinement error of the candidates that Reweigh
+// leaves unrefined: all but the first and the one shown before the edit.
+var ErrProvisional = errors.New("not refined in the provisional result; the full analysis follows")
+
+// analyse is Analyse, or Reweigh with what it passes.
+func analyse(ctx context.Context, e *Extraction, s Settings, progress Progress, earlier *reweighing) (*Analysis, error) {
 	if err := s.Check(); err != nil {
 		return nil, fmt.Errorf("%s: settings: %w", e.Scan.Path, err)
 	}
@@ -254,7 +272,7 @@ func analyse(ctx context.Context, e *Extraction, s Settings, progress Progress, 
 	var res *indexing.Result
 	var err error
 	if earlier != nil {
-		res, err = indexing.Reweigh(ctx, lines, io, earlier)
+		res, err = indexing.Reweigh(ctx, lines, io, earlier.solutions)
 	} else {
 		res, err = indexing.Index(ctx, lines, io, progress.of(StageIndexing))
 	}
@@ -270,7 +288,13 @@ func analyse(ctx context.Context, e *Extraction, s Settings, progress Progress, 
 			progress(StageRefinement, i, len(res.Solutions))
 		}
 		c := Candidate{Rank: i + 1, Solution: sol}
-		c.Refined, c.RefineErr = refineSolution(ctx, sol, a.StandardLines, ro, s.Excluded, widths)
+		if earlier != nil && i > 0 && (earlier.shown == nil || !cell.SameLattice(sol.Cell, *earlier.shown, 2e-3) || sol.Cell.System != earlier.shown.System) {
+			// A provisional result refines only what the window
+			// shows at once: the first candidate and the one shown.
+			c.RefineErr = ErrProvisional
+		} else {
+			c.Refined, c.RefineErr = refineSolution(ctx, sol, a.StandardLines, ro, s.Excluded, widths)
+		}
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}

@@ -2,11 +2,15 @@ package main
 
 import (
 	"math"
+	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
+
+	"reticle/cell"
+	"reticle/internal/synth"
 )
 
 // BenchmarkRender measures one redraw of the pattern at the window's size.
@@ -57,5 +61,53 @@ func BenchmarkRenderMillion(b *testing.B) {
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
 		u.plot.render()
+	}
+}
+
+// BenchmarkToggleShownSystems is BenchmarkToggleShown on simulated scans
+// (internal/synth, Cu K-alpha doublet, fixed seeds) of a cell of each
+// system from cubic to hexagonal: the time from a click on the fourth
+// peak to the candidates weighed again in the window.
+func BenchmarkToggleShownSystems(b *testing.B) {
+	for _, def := range []struct {
+		s    cell.System
+		cen  cell.Centring
+		free []float64
+	}{
+		{cell.Cubic, cell.I, []float64{3.3065}},
+		{cell.Tetragonal, cell.P, []float64{4.5937, 2.9587}},
+		{cell.Hexagonal, cell.P, []float64{3.2494, 5.2038}},
+		{cell.Rhombohedral, cell.R, []float64{4.9896, 17.0610}},
+	} {
+		c, err := cell.New(def.s, def.cen, def.free...)
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.Run(c.System.String(), func(b *testing.B) {
+			s := synth.Simulate(synth.Spec{Phases: []synth.Phase{{Cell: c}}, Instrument: synth.Instrument{Lambda1: 1.5405929, Lambda2: 1.5444274, Zero: 0.02},
+				From: 15, To: 120, Step: 0.02, Peak: 20000}, rand.New(rand.NewPCG(7, 1)))
+			p := filepath.Join(b.TempDir(), "sim.xy")
+			if err := os.WriteFile(p, s.Text("simulated scan (internal/synth)\nAnode: Cu"), 0o644); err != nil {
+				b.Fatal(err)
+			}
+			u := newTestUI(b, "")
+			u.open(p)
+			u.wait()
+			if u.m.A == nil || len(u.m.A.Candidates) == 0 {
+				b.Fatalf("no candidate: %s", u.status.Text)
+			}
+			shown := previews(u)
+			b.ResetTimer()
+			for i := 0; i < b.N; i++ {
+				u.togglePeak(3)
+				<-shown
+				b.StopTimer()
+				u.wait()
+				for len(shown) > 0 {
+					<-shown
+				}
+				b.StartTimer()
+			}
+		})
 	}
 }

@@ -45,6 +45,9 @@ type cand struct {
 	// weighAlways: the ranking takes the cand's evidence whatever its
 	// figure on the first lines (a cell of the strong lines).
 	weighAlways bool
+	// once: weigh takes the evidence at the cand's own cell and offsets,
+	// without refitting them to all lines (a provisional result).
+	once bool
 }
 
 // nparams returns the number of refined parameters: the system's free

@@ -568,6 +568,9 @@ func (k *cand) weigh(all []obs, sp span, o Options) {
 	g := &cand{c: k.c, zero: k.zero, zeroFree: k.zeroFree, qTop: top}
 	g.assign(all, o.Wavelength, 0)
 	k.whole, k.ev = g, g.evidence(all, o.Wavelength, sp, o)
+	if k.once {
+		return
+	}
 	disps := []bool{false}
 	if k.zeroFree && len(all) >= minDispLines {
 		disps = append(disps, true)

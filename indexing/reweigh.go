@@ -9,9 +9,10 @@ import (
 )
 
 // Reweigh weighs the cells of an earlier result again on edited lines,
-// without a new search: each cell is refined on the lines from its
-// earlier zero offset and settings, and the cells are ranked by the same
-// evidence as Index's and given probabilities among themselves. It
+// without a new search: each cell is refined on the first lines from its
+// earlier zero offset and displacement, and the cells are ranked by the
+// evidence of Index, taken once at that cell (Index refits each cell to
+// all lines first), and given probabilities among themselves. It
 // answers in a small part of Index's time, since the search is most of
 // it, and it is what Index would answer whenever the edit leaves the
 // lattice among the earlier candidates (a line rejected as foreign,
@@ -44,7 +45,8 @@ func Reweigh(ctx context.Context, lines []cell.Line, opt Options, earlier []Solu
 		if !want[sol.Cell.System] || len(first) < minLines(sol.Cell.System) {
 			continue
 		}
-		k := &cand{c: sol.Cell, zero: sol.Zero, zeroFree: sol.Parameters > len(cell.Basis(sol.Cell.System)) && len(first) >= minZeroLines}
+		k := &cand{c: sol.Cell, zero: sol.Zero, disp: sol.Displacement, once: true,
+			zeroFree: sol.Parameters > len(cell.Basis(sol.Cell.System)) && len(first) >= minZeroLines}
 		if !k.settle(first, o.Wavelength, 0, need) || math.Abs(k.zero) > o.zeroBound() {
 			continue
 		}
