@@ -5,9 +5,11 @@ import (
 	"encoding/json"
 	"math"
 	"math/rand/v2"
+	"os"
 	"reflect"
 	"strings"
 	"testing"
+	"time"
 
 	"reticle/cell"
 	"reticle/density"
@@ -245,4 +247,17 @@ func TestSettingsUnindexedKey(t *testing.T) {
 	if err := json.Unmarshal(out, &back); err != nil || back.Sample != "kiln trial 12" || back.Unindexed != 5 {
 		t.Errorf("read back %+v (%v)", back, err)
 	}
+}
+
+// sizeOf returns the number of cases and the seed of a randomized test:
+// short and the fixed seed normally; with RETICLE_LONG set, long and the
+// seed of the test's flag, or a fresh one (to be printed) when it is 0.
+func sizeOf(short, long int, fixed, flagged uint64) (int, uint64) {
+	if os.Getenv("RETICLE_LONG") == "" {
+		return short, fixed
+	}
+	if flagged == 0 {
+		flagged = uint64(time.Now().UnixNano())
+	}
+	return long, flagged
 }

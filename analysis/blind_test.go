@@ -11,7 +11,6 @@ import (
 	"strings"
 	"sync"
 	"testing"
-	"time"
 
 	"reticle/cell"
 	"reticle/internal/synth"
@@ -38,12 +37,10 @@ var blindSeed = flag.Uint64("blind.seed", 0, "seed of TestBlind's long run (0: a
 // from others; they are counted apart, with how often the first answer
 // was stated at 0.9 or more.
 func TestBlind(t *testing.T) {
-	per, seed, min := 1, uint64(20261203), 10
+	per, seed := sizeOf(1, 100, 20261203, *blindSeed)
+	min := 10
 	if os.Getenv("RETICLE_LONG") != "" {
-		per, seed, min = 100, *blindSeed, 0
-		if seed == 0 {
-			seed = uint64(time.Now().UnixNano())
-		}
+		min = 0
 	}
 	if v := os.Getenv("RETICLE_BLIND"); v != "" {
 		fmt.Sscan(v, &per)

@@ -6,10 +6,8 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
-	"os"
 	"sort"
 	"testing"
-	"time"
 
 	"reticle/cell"
 	"reticle/internal/synth"
@@ -58,13 +56,7 @@ func coverage(t *testing.T, clean bool) {
 	if clean {
 		limits = []coverageLimit{{1, 0.60, 0.78}, {2, 0.90, 1}}
 	}
-	n, seed := 24, uint64(14)
-	if os.Getenv("RETICLE_LONG") != "" {
-		n, seed = 300, *coverageSeed
-		if seed == 0 {
-			seed = uint64(time.Now().UnixNano())
-		}
-	}
+	n, seed := sizeOf(24, 300, 14, *coverageSeed)
 	t.Logf("seed %d (RETICLE_LONG=1 go test -run TestCoverage -coverage.seed %d to repeat)", seed, seed)
 	cells := []cell.Cell{
 		cell.Must(cell.Cubic, cell.F, 5.6402),

@@ -4,7 +4,6 @@ import (
 	"context"
 	"errors"
 	"math"
-	"os"
 	"testing"
 	"time"
 
@@ -22,13 +21,7 @@ import (
 // lattice from a fresh seed (printed; -blind.seed repeats it) and
 // prints the share that agree and the times.
 func TestReweigh(t *testing.T) {
-	per, seed := 1, uint64(20261204)
-	if os.Getenv("RETICLE_LONG") != "" {
-		per, seed = 10, *blindSeed
-		if seed == 0 {
-			seed = uint64(time.Now().UnixNano())
-		}
-	}
+	per, seed := sizeOf(1, 10, 20261204, *blindSeed)
 	t.Logf("%d scans per lattice, seed %d", per, seed)
 	ctx := context.Background()
 	var n, agree int
@@ -47,14 +40,8 @@ func TestReweigh(t *testing.T) {
 			if err != nil || len(a.Candidates) == 0 || len(a.Lines) < 8 {
 				continue
 			}
-			weakest := -1
-			for j, p := range a.Peaks {
-				if !p.Companion() && (weakest < 0 || p.Area < a.Peaks[weakest].Area) {
-					weakest = j
-				}
-			}
 			edited := settings.Clone()
-			edited.Reject(a.Peaks[weakest].TwoTheta)
+			edited.Reject(weakest(a))
 			t0 := time.Now()
 			q, err := Reweigh(ctx, a.Extraction, edited, a, nil)
 			tq := time.Since(t0)
@@ -152,14 +139,8 @@ func BenchmarkReweigh(b *testing.B) {
 		if err != nil || len(a.Candidates) == 0 {
 			continue
 		}
-		weakest := -1
-		for j, p := range a.Peaks {
-			if !p.Companion() && (weakest < 0 || p.Area < a.Peaks[weakest].Area) {
-				weakest = j
-			}
-		}
 		s := settings.Clone()
-		s.Reject(a.Peaks[weakest].TwoTheta)
+		s.Reject(weakest(a))
 		edits = append(edits, edit{a, s})
 	}
 	b.ResetTimer()
@@ -169,4 +150,16 @@ func BenchmarkReweigh(b *testing.B) {
 			b.Fatal(err)
 		}
 	}
+}
+
+// weakest returns the position, degrees 2θ, of the analysis's weakest
+// peak that is not a companion.
+func weakest(a *Analysis) float64 {
+	w := -1
+	for j, p := range a.Peaks {
+		if !p.Companion() && (w < 0 || p.Area < a.Peaks[w].Area) {
+			w = j
+		}
+	}
+	return a.Peaks[w].TwoTheta
 }

@@ -96,18 +96,7 @@ func BenchmarkToggleShownSystems(b *testing.B) {
 			if u.m.A == nil || len(u.m.A.Candidates) == 0 {
 				b.Fatalf("no candidate: %s", u.status.Text)
 			}
-			shown := previews(u)
-			b.ResetTimer()
-			for i := 0; i < b.N; i++ {
-				u.togglePeak(3)
-				<-shown
-				b.StopTimer()
-				u.wait()
-				for len(shown) > 0 {
-					<-shown
-				}
-				b.StartTimer()
-			}
+			timeShown(b, u)
 		})
 	}
 }
