@@ -48,7 +48,9 @@ func minLines(s cell.System) int {
 // the highest symmetry down: cubic, tetragonal, hexagonal and
 // rhombohedral by their own seeds; then, unless one of those explains the
 // lines acceptably (see acceptable), orthorhombic, monoclinic and
-// triclinic by the zone method. It can be cancelled through ctx and
+// triclinic by the zone method. When the first lines all lie in one zone
+// of the best cell, which they fix in two axes only, the search is
+// repeated once on twice the lines. It can be cancelled through ctx and
 // reports progress (search steps done of total) through progress, which
 // may be nil. The same input always gives the same result.
 func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(done, total int)) (*Result, error) {
@@ -130,6 +132,25 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 		}
 		pool = append(pool, more...)
 		ranked = rankCands(pool, first, all, o)
+	}
+	// Lines that all lie in one zone of the best cell fix two of its
+	// axes only: a lattice with one short edge beside long ones has its
+	// first lines in the zone normal to that edge, and the lines that fix
+	// the third axis come later. The search is then repeated on twice
+	// the lines (once), whose result is the better informed.
+	if !o.widened && n == o.Lines && len(all) > n && len(ranked) > 0 && wantsLower(want) {
+		if _, ok := loneZone(ranked[0], first, o.Wavelength); ok {
+			wider := opt
+			wider.Lines, wider.widened = min(len(all), 2*o.Lines), true
+			r, err := Index(ctx, lines, wider, progress)
+			if err != nil {
+				return nil, err
+			}
+			if len(r.Solutions) > 0 {
+				r.Warnings = append(r.Warnings, fmt.Sprintf("the first %d lines lie in one zone of the best cell found from them, which fixes two of its axes only; the search was repeated on the first %d lines", n, r.LinesUsed))
+				return r, nil
+			}
+		}
 	}
 	res.list(ranked, first, all, o)
 	if sr.stopBy != nil && len(ranked) > 0 && !sameCell(ranked[0].c, sr.stopBy.c, 2e-3) {
@@ -470,4 +491,10 @@ func (res *Result) warn(ranked []*cand, all []obs, o Options) {
 			res.Warnings = append(res.Warnings, loneZoneWarning(u))
 		}
 	}
+}
+
+// wantsLower reports whether a system below the hexagonal is wanted: a
+// lattice with one short edge is found by the zone method.
+func wantsLower(want map[cell.System]bool) bool {
+	return want[cell.Orthorhombic] || want[cell.Monoclinic] || want[cell.Triclinic]
 }

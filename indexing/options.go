@@ -58,6 +58,8 @@ type Options struct {
 	// zeroLimit is the largest zero offset the search reached beyond
 	// ZeroRange (see harmonicZeros), degrees 2θ; zero for none.
 	zeroLimit float64
+	// widened marks the repeated search of Index on more lines.
+	widened bool
 }
 
 // zeroBound returns the largest zero offset, degrees 2θ, a cell may
