@@ -199,10 +199,10 @@ var ErrNoEarlierSearch = errors.New("analysis: no earlier search of this scan un
 // them — only the first and the one shown before the edit, the others
 // carrying ErrProvisional; the pattern is not fitted. It answers an
 // edit of the lines at once while Analyse runs, and its Search is
-// marked provisional. The
-// earlier analysis must be of the same scan with the same settings but
-// for the lines rejected, added or left out of refinement, and have
-// found a cell; otherwise it returns ErrNoEarlierSearch.
+// marked provisional. The earlier analysis must be of the same scan
+// with the same settings but for the lines rejected, added or left out
+// of refinement, and have found a cell; otherwise it returns
+// ErrNoEarlierSearch.
 func Reweigh(ctx context.Context, e *Extraction, s Settings, earlier *Analysis, progress Progress) (*Analysis, error) {
 	if earlier == nil || earlier.Search == nil || len(earlier.Search.Solutions) == 0 || earlier.Scan != e.Scan || !sameBesidesLines(earlier.Settings, s) {
 		return nil, ErrNoEarlierSearch
@@ -220,6 +220,12 @@ func Reweigh(ctx context.Context, e *Extraction, s Settings, earlier *Analysis, 
 type reweighing struct {
 	solutions []indexing.Solution
 	shown     *cell.Cell
+}
+
+// refines reports whether the provisional result refines the solution
+// of rank i (from 0): the first, and the cell that was shown.
+func (r *reweighing) refines(i int, c cell.Cell) bool {
+	return i == 0 || r.shown != nil && c.System == r.shown.System && cell.SameLattice(c, *r.shown, 2e-3)
 }
 
 // ErrProvisional is the refinement error of the candidates that Reweigh
@@ -288,9 +294,7 @@ func analyse(ctx context.Context, e *Extraction, s Settings, progress Progress, 
 			progress(StageRefinement, i, len(res.Solutions))
 		}
 		c := Candidate{Rank: i + 1, Solution: sol}
-		if earlier != nil && i > 0 && (earlier.shown == nil || !cell.SameLattice(sol.Cell, *earlier.shown, 2e-3) || sol.Cell.System != earlier.shown.System) {
-			// A provisional result refines only what the window
-			// shows at once: the first candidate and the one shown.
+		if earlier != nil && !earlier.refines(i, sol.Cell) {
 			c.RefineErr = ErrProvisional
 		} else {
 			c.Refined, c.RefineErr = refineSolution(ctx, sol, a.StandardLines, ro, s.Excluded, widths)

@@ -67,14 +67,16 @@ func BenchmarkRenderMillion(b *testing.B) {
 // BenchmarkToggleShownSystems is BenchmarkToggleShown on simulated scans
 // (internal/synth, Cu K-alpha doublet, fixed seeds) of a cell of each
 // system from cubic to hexagonal: the time from a click on the fourth
-// peak to the candidates weighed again in the window.
+// peak to the candidates weighed again in the window. The cells are
+// those of common phases, from memory: tantalum (cubic I), rutile,
+// zincite and calcite (hexagonal axes); only their size matters here.
 func BenchmarkToggleShownSystems(b *testing.B) {
 	for _, def := range []struct {
 		s    cell.System
 		cen  cell.Centring
 		free []float64
 	}{
-		{cell.Cubic, cell.I, []float64{3.3065}},
+		{cell.Cubic, cell.I, []float64{3.3058}},
 		{cell.Tetragonal, cell.P, []float64{4.5937, 2.9587}},
 		{cell.Hexagonal, cell.P, []float64{3.2494, 5.2038}},
 		{cell.Rhombohedral, cell.R, []float64{4.9896, 17.0610}},

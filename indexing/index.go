@@ -55,14 +55,13 @@ func minLines(s cell.System) int {
 // may be nil. The same input always gives the same result.
 func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(done, total int)) (*Result, error) {
 	o := opt.withDefaults()
-	if !(o.Wavelength > 0.1 && o.Wavelength < 5) {
-		return nil, fmt.Errorf("indexing: wavelength %g Å outside 0.1–5 Å", o.Wavelength)
+	if err := o.checkWavelength(); err != nil {
+		return nil, err
 	}
 	all := prepare(lines, o)
-	want := map[cell.System]bool{}
+	want := o.wanted()
 	fewest := math.MaxInt
-	for _, s := range o.Systems {
-		want[s] = true
+	for s := range want {
 		fewest = min(fewest, minLines(s))
 	}
 	if len(all) < fewest {

@@ -1,6 +1,7 @@
 package indexing
 
 import (
+	"fmt"
 	"math"
 
 	"reticle/cell"
@@ -119,3 +120,21 @@ const DefaultImpurityShare = 0.35
 // or an artefact of the instrument, shows as such weak lines, and they
 // say little about the cell (common practice).
 const WeakLine = 0.02
+
+// checkWavelength reports a wavelength outside 0.1–5 Å, the range of
+// laboratory anodes, synchrotron and neutron instruments.
+func (o Options) checkWavelength() error {
+	if !(o.Wavelength > 0.1 && o.Wavelength < 5) {
+		return fmt.Errorf("indexing: wavelength %g Å outside 0.1–5 Å", o.Wavelength)
+	}
+	return nil
+}
+
+// wanted returns the systems to search as a set.
+func (o Options) wanted() map[cell.System]bool {
+	want := map[cell.System]bool{}
+	for _, s := range o.Systems {
+		want[s] = true
+	}
+	return want
+}

@@ -2,7 +2,6 @@ package indexing
 
 import (
 	"context"
-	"fmt"
 	"math"
 
 	"reticle/cell"
@@ -21,14 +20,11 @@ import (
 // provisional (Result.Provisional). It can be cancelled through ctx.
 func Reweigh(ctx context.Context, lines []cell.Line, opt Options, earlier []Solution) (*Result, error) {
 	o := opt.withDefaults()
-	if !(o.Wavelength > 0.1 && o.Wavelength < 5) {
-		return nil, fmt.Errorf("indexing: wavelength %g Å outside 0.1–5 Å", o.Wavelength)
+	if err := o.checkWavelength(); err != nil {
+		return nil, err
 	}
 	all := prepare(lines, o)
-	want := map[cell.System]bool{}
-	for _, s := range o.Systems {
-		want[s] = true
-	}
+	want := o.wanted()
 	first := all[:min(len(all), o.Lines)]
 	res := &Result{Wavelength: o.Wavelength, LinesUsed: len(first), Provisional: true,
 		Bounds: Bounds{MaxEdge: o.MaxEdge, MaxVolume: o.MaxVolume, ZeroRange: o.ZeroRange},
