@@ -32,6 +32,9 @@
 // and foreign lines, Student t position errors, intensities that make a
 // strong line hard to call foreign, a detection model averaged over the
 // cell's derivative lattices in split.go, and a Laplace Occam factor).
+// When some lines are weak, each candidate is also weighed beside
+// another as a second phase that takes the lines it leaves (pair.go),
+// the phase of the stronger lines being the sample's.
 // Normalised over the candidates and the hypothesis that no cell
 // explains the lines, the evidence gives each candidate its probability.
 // De Wolff's M_N (J. Appl. Cryst. 1 (1968) 108) and Smith & Snyder's F_N

@@ -74,14 +74,37 @@ type lineFit struct {
 	splitUsed *split
 	bestSplit float64
 	demanding []int
+	// own is each line's chance of belonging to the cell.
+	own []float64
+	// second is, in a fit beside a second phase, the Σ of the lines'
+	// chance of belonging to it.
+	second float64
+	// paired marks a fit weighed with second phases too (see pairUp):
+	// partner is the best of them (nil when none qualified), pairE the
+	// log evidence of the cell beside it and pairLines the lines it takes.
+	paired    bool
+	partner   *cand
+	pairE     float64
+	pairLines float64
 	// weights are the lines' weights for a refinement under the model,
 	// 1/degree²: chance of belonging times the t distribution's weight
 	// over the variance.
 	weights []float64
 }
 
-// logE returns the log evidence.
-func (f lineFit) logE() float64 { return f.logL + f.logOccam }
+// soloE returns the log evidence of the cell alone.
+func (f lineFit) soloE() float64 { return f.logL + f.logOccam }
+
+// logE returns the log evidence: over the cell alone, or, once the
+// ranking weighs second phases (see pairUp), averaged over the cell
+// alone and the cell beside its best second phase, each with prior ½.
+func (f lineFit) logE() float64 {
+	solo := f.soloE()
+	if !f.paired {
+		return solo
+	}
+	return logSumExp([]float64{math.Log(0.5) + solo, math.Log(0.5) + f.pairE})
+}
 
 // span is the range of 2θ over which lines were looked for.
 type span struct{ lo, hi float64 }
@@ -181,7 +204,12 @@ type near struct {
 // lineFit.demanding). Each p is integrated out under a uniform prior
 // (occamP).
 func (k *cand) evidence(ls []obs, lambda float64, sp span, o Options) lineFit {
-	// Calculated lines in the range, in 2θ, grouped by the resolution.
+	return k.evidenceWith(ls, lambda, sp, o, nil)
+}
+
+// calcIn returns the cand's calculated lines in the range sp, in 2θ,
+// grouped by the resolution of the lines ls, and the number of groups.
+func (k *cand) calcIn(ls []obs, lambda float64, sp span) ([]calcLine, int) {
 	res := resolution(ls)
 	var calc []calcLine
 	groups, start := 0, math.Inf(-1)
@@ -203,6 +231,18 @@ func (k *cand) evidence(ls []obs, lambda float64, sp span, o Options) lineFit {
 	for i := range calc {
 		calc[i].w = 1 / float64(size[calc[i].group])
 	}
+	return calc, groups
+}
+
+// evidenceWith is evidence with a second phase pt beside the cand (nil
+// for none): the rate of lines at line i then has the term q·h_i·m_i,
+// h_i the second phase's density of calculated lines there, q the
+// chance that one of them is seen (fitted with p, ρ and σ) and m_i the
+// ratio of the densities of the line's intensity under the second phase
+// and under the cand (see phaseMarks); the evidence pays q's Occam
+// factor and the second phase's cell's.
+func (k *cand) evidenceWith(ls []obs, lambda float64, sp span, o Options, pt *partner) lineFit {
+	calc, groups := k.calcIn(ls, lambda, sp)
 	f := lineFit{nCalc: groups}
 	R := sp.hi - sp.lo
 	n := len(ls)
@@ -243,16 +283,30 @@ func (k *cand) evidence(ls []obs, lambda float64, sp span, o Options) lineFit {
 	f.p = math.Min(1, float64(n)/float64(groups))
 	f.rho = 1 / R
 	minRho := 1e-6 / R
+	// The second phase's lines, seen each with chance q; e[i] is their
+	// rate at line i.
+	var q, sq float64
+	var e []float64
+	if pt != nil {
+		q, e = math.Min(1, float64(n)/float64(pt.groups)), make([]float64, n)
+	}
 	for round := 0; round <= emRounds; round++ {
 		densities(f.sys)
 		var st, ss float64
+		sq = 0
 		for i, l := range ls {
 			g[i] = 0
 			for _, x := range nears[i] {
 				g[i] += x.phi
 			}
 			a := f.p * g[i]
-			t[i] = a / (a + f.rho*mk[i])
+			tot := a + f.rho*mk[i]
+			if e != nil {
+				e[i] = q * pt.h[i] * pt.mk[i]
+				tot += e[i]
+				sq += e[i] / tot
+			}
+			t[i] = a / tot
 			st += t[i]
 			d := l.tt - calc[nearest[i]].tt
 			s2 := l.variance(f.sys)
@@ -263,11 +317,15 @@ func (k *cand) evidence(ls []obs, lambda float64, sp span, o Options) lineFit {
 			break
 		}
 		f.p = math.Min(1, st/float64(groups))
-		f.rho = math.Max(math.Max(float64(n)-st, 0)/R, minRho)
+		f.rho = math.Max(math.Max(float64(n)-st-sq, 0)/R, minRho)
+		if pt != nil {
+			q = math.Min(1, sq/float64(pt.groups))
+		}
 		if st > 0 {
 			f.sys = math.Max(weightFloor, math.Sqrt(ss/st))
 		}
 	}
+	f.own = t
 	f.weights = make([]float64, n)
 	for i, l := range ls {
 		d := l.tt - calc[nearest[i]].tt
@@ -276,10 +334,18 @@ func (k *cand) evidence(ls []obs, lambda float64, sp span, o Options) lineFit {
 	}
 	one := -f.p*float64(groups) - f.rho*R
 	for i := range ls {
-		one += math.Log(f.p*g[i] + f.rho*mk[i])
+		x := f.p*g[i] + f.rho*mk[i]
+		if e != nil {
+			x += e[i]
+		}
+		one += math.Log(x)
 		f.explain += t[i]
 	}
 	one += occamP(f.explain, groups)
+	if pt != nil {
+		one += -q*float64(pt.groups) + occamP(sq, pt.groups) + pt.logOccam
+		f.second = sq
+	}
 	// Two classes, for every split the symmetry allows.
 	splits := splitsOf[k.c.System]
 	terms := []float64{math.Log(0.5) + one}
@@ -306,7 +372,10 @@ func (k *cand) evidence(ls []obs, lambda float64, sp span, o Options) lineFit {
 			terms = append(terms, math.Log(0.5/float64(len(splits)))+one)
 			continue
 		}
-		l2, dem, weak := twoClass(ls, nears, mk, classA, na, nb, f.p, f.rho, R, minRho)
+		l2, dem, weak := twoClass(ls, nears, mk, e, classA, na, nb, f.p, f.rho, R, minRho)
+		if pt != nil {
+			l2 += -q*float64(pt.groups) + occamP(sq, pt.groups) + pt.logOccam
+		}
 		terms = append(terms, math.Log(0.5/float64(len(splits)))+l2)
 		if l2 > f.bestSplit || f.splitUsed == nil {
 			f.bestSplit, f.splitUsed, f.demanding = l2, &splits[si], nil
@@ -333,7 +402,7 @@ func (k *cand) evidence(ls []obs, lambda float64, sp span, o Options) lineFit {
 // larger cell), and whether class B is the weaker (its p below half of
 // class A's: a superstructure's lines, or those of a weak centring
 // violation).
-func twoClass(ls []obs, nears [][]near, mk []float64, classA []bool, na, nb int, p, rho, R, minRho float64) (float64, []int, bool) {
+func twoClass(ls []obs, nears [][]near, mk, e []float64, classA []bool, na, nb int, p, rho, R, minRho float64) (float64, []int, bool) {
 	n := len(ls)
 	ga := make([]float64, n)
 	gb := make([]float64, n)
@@ -353,29 +422,42 @@ func twoClass(ls []obs, nears [][]near, mk []float64, classA []bool, na, nb int,
 			near = append(near, i)
 		}
 	}
+	// The second phase's share of the lines near no calculated line,
+	// which do not change between rounds except through ρ.
+	fe := func(i int) float64 {
+		if e == nil {
+			return 0
+		}
+		return e[i]
+	}
 	pa, pb := p, p
-	var sa, sb float64
+	var sa, sb, se float64
 	for round := 0; round <= splitRounds; round++ {
-		sa, sb = 0, 0
+		sa, sb, se = 0, 0, 0
 		for _, i := range near {
 			a, b := pa*ga[i], pb*gb[i]
-			tot := a + b + rho*mk[i]
+			tot := a + b + rho*mk[i] + fe(i)
 			sa += a / tot
 			sb += b / tot
+		}
+		if e != nil {
+			for i := range ls {
+				se += e[i] / (pa*ga[i] + pb*gb[i] + rho*mk[i] + e[i])
+			}
 		}
 		if round == splitRounds {
 			break
 		}
 		pa = math.Min(1, sa/float64(na))
 		pb = math.Min(1, sb/float64(nb))
-		rho = math.Max(math.Max(float64(n)-sa-sb, 0)/R, minRho)
+		rho = math.Max(math.Max(float64(n)-sa-sb-se, 0)/R, minRho)
 	}
 	ll := -pa*float64(na) - pb*float64(nb) - rho*R
 	var dem []int
 	for i := range ls {
 		a, b := pa*ga[i], pb*gb[i]
-		ll += math.Log(a + b + rho*mk[i])
-		if b > a+rho*mk[i] {
+		ll += math.Log(a + b + rho*mk[i] + fe(i))
+		if b > a+rho*mk[i]+fe(i) {
 			dem = append(dem, i)
 		}
 	}
@@ -439,13 +521,7 @@ const foreignScale = 0.1
 // and the strongest lines cannot be foreign (the ratio is e^-12 at r =
 // 0.5, e^-50 at r = 1). Lines of unknown intensity have ratio 1.
 func marks(ls []obs) []float64 {
-	lo := 1.0
-	for _, l := range ls {
-		if l.rel > 0 {
-			lo = math.Min(lo, l.rel)
-		}
-	}
-	lo = math.Max(lo, 1e-4)
+	lo := weakestRel(ls)
 	out := make([]float64, len(ls))
 	for i, l := range ls {
 		out[i] = 1
@@ -454,6 +530,42 @@ func marks(ls []obs) []float64 {
 			fF := math.Sqrt(2/math.Pi) / foreignScale * math.Exp(-r*r/(2*foreignScale*foreignScale))
 			fC := 1 / (r * math.Log(1/lo))
 			out[i] = fF / fC
+		}
+	}
+	return out
+}
+
+// weakestRel returns the relative intensity of the weakest line of
+// known intensity, at least 1e-4 (1 when none is known).
+func weakestRel(ls []obs) float64 {
+	lo := 1.0
+	for _, l := range ls {
+		if l.rel > 0 {
+			lo = math.Min(lo, l.rel)
+		}
+	}
+	return math.Max(lo, 1e-4)
+}
+
+// phaseMarks returns, per line, the ratio of the densities of its
+// relative intensity r under a second phase whose strongest line has
+// relative intensity top to under the first phase (see marks): each
+// phase's r uniform in ln r from the weakest line's to its strongest
+// line's, the first phase's strongest line being the scan's. The
+// ratio is ln(1/lo)/ln(top/lo) up to top and zero above it; a second
+// phase of weak lines takes weak lines more readily than the first.
+// Lines of unknown intensity have ratio 1.
+func phaseMarks(ls []obs, top float64) []float64 {
+	lo := weakestRel(ls)
+	out := make([]float64, len(ls))
+	for i, l := range ls {
+		out[i] = 1
+		switch {
+		case l.rel <= 0 || lo >= 1:
+		case l.rel > top*(1+1e-9):
+			out[i] = 0
+		default:
+			out[i] = math.Log(1/lo) / math.Max(math.Log(top/lo), math.Log(2))
 		}
 	}
 	return out

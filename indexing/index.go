@@ -43,6 +43,15 @@ func minLines(s cell.System) int {
 	return len(cell.Basis(s)) + 2
 }
 
+// fewestLines is the fewest lines that any of the systems wanted needs.
+func fewestLines(want map[cell.System]bool) int {
+	fewest := math.MaxInt
+	for s := range want {
+		fewest = min(fewest, minLines(s))
+	}
+	return fewest
+}
+
 // Index searches the lattices named in opt for cells that explain the
 // lines, and returns them ranked, best first. Systems are searched from
 // the highest symmetry down: cubic, tetragonal, hexagonal and
@@ -60,10 +69,7 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 	}
 	all := prepare(lines, o)
 	want := o.wanted()
-	fewest := math.MaxInt
-	for s := range want {
-		fewest = min(fewest, minLines(s))
-	}
+	fewest := fewestLines(want)
 	if len(all) < fewest {
 		return nil, fmt.Errorf("%w: %d given, the systems searched need at least %d", ErrTooFewLines, len(all), fewest)
 	}
@@ -99,12 +105,15 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 	ranked := rankCands(pool, first, all, o)
 	// A foreign phase with more lines than the sample's own can fill the
 	// first lines and crowd out the sample's cell, whose lines are the
-	// strong ones: when the best cell leaves a strong line unexplained,
-	// the strong lines are searched again on their own, in the systems
-	// of the seeds (the zone method over the few strong lines of a low
-	// symmetry finds what it found over all of them, at its cost again).
-	if len(ranked) > 0 && leavesStrong(ranked[0], all) {
-		if strong := strongFirst(all, o.Lines); len(strong) >= fewest && len(strong) < n {
+	// strong ones: either its cell comes first and leaves the strong
+	// lines unexplained, or a larger cell explains both phases' lines.
+	// So whenever some of the first lines are weak, the strong lines are
+	// searched again on their own, in the systems of the seeds (the zone
+	// method over the few strong lines of a low symmetry finds what it
+	// found over all of them, at its cost again), and every cell is then
+	// weighed beside the others as a second phase (see pairUp).
+	if len(ranked) > 0 {
+		if strong := strongApart(all, n, fewest); strong != nil {
 			more, err := sr.run(strong, nil, false)
 			if err != nil {
 				return nil, err
@@ -121,6 +130,7 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 				k.weighAlways = true
 			}
 			pool = append(pool, more...)
+			o.pairing = true
 			ranked = rankCands(pool, first, all, o)
 		}
 	}
@@ -315,23 +325,19 @@ func (sr *searcher) run(ls []obs, res *Result, zones bool) ([]*cand, error) {
 const strongKeep = 10
 
 // strongCut is the intensity, relative to the strongest line, above
-// which a line can hardly be foreign (see foreignMean: a foreign line
-// that strong is e^-2 as likely as a weak one).
+// which a line can hardly be foreign (see foreignScale: a foreign line
+// that strong is e^-0.5 as likely as a weak one, and its chance falls
+// fast above).
 const strongCut = 0.1
 
-// leavesStrong reports whether a cand leaves a line of the scan stronger
-// than strongCut unexplained (no calculated line within its window).
-func leavesStrong(k *cand, all []obs) bool {
-	w := k.whole
-	if w == nil {
-		return false
+// strongApart returns the first n lines stronger than strongCut when
+// they are fewer than n (some of the first n lines are weak) and at
+// least fewest; nil otherwise.
+func strongApart(all []obs, n, fewest int) []obs {
+	if strong := strongFirst(all, n); len(strong) >= fewest && len(strong) < n {
+		return strong
 	}
-	for i, l := range all {
-		if l.rel >= strongCut && w.ref[i] < 0 {
-			return true
-		}
-	}
-	return false
+	return nil
 }
 
 // strongFirst returns the first n lines stronger than strongCut.
@@ -470,6 +476,10 @@ func (res *Result) list(ranked []*cand, first, all []obs, o Options) {
 				sol.Demanding = append(sol.Demanding, all[j].tt)
 			}
 		}
+		if f := k.ev; f.paired && f.partner != nil && f.pairE > f.soloE() {
+			c := f.partner.whole.c
+			sol.SecondPhase, sol.SecondPhaseLines = &c, int(math.Round(f.pairLines))
+		}
 		if !slices.ContainsFunc(res.Solutions, func(s Solution) bool { return sameCell(s.Cell, sol.Cell, 2e-3) }) {
 			res.Solutions = append(res.Solutions, sol)
 		}
@@ -482,6 +492,9 @@ func (res *Result) warn(ranked []*cand, all []obs, o Options) {
 	if len(res.Solutions) > 0 {
 		if p := res.Solutions[0].Probability; p < clearLevel {
 			res.Warnings = append(res.Warnings, fmt.Sprintf("the first cell's probability is only %.0f %%: check the next candidates", 100*p))
+		}
+		if s := res.Solutions[0]; s.SecondPhase != nil {
+			res.Warnings = append(res.Warnings, fmt.Sprintf("the first cell was weighed beside a second phase, %v, which takes about %d of the lines it leaves: a further phase to check", *s.SecondPhase, s.SecondPhaseLines))
 		}
 		if ranked[0].strong {
 			res.Warnings = append(res.Warnings, "the first cell leaves a strong line unindexed: a second phase, or not the right cell")

@@ -61,6 +61,8 @@ type Options struct {
 	zeroLimit float64
 	// widened marks the repeated search of Index on more lines.
 	widened bool
+	// pairing makes the ranking weigh second phases (see pairUp).
+	pairing bool
 }
 
 // zeroBound returns the largest zero offset, degrees 2θ, a cell may

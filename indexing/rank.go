@@ -35,6 +35,10 @@ func rankCands(ks []*cand, ls, all []obs, o Options) []*cand {
 		k.weigh(all, sp, o)
 	}
 	sort.SliceStable(ks, func(i, j int) bool { return moreLikely(ks[i], ks[j]) })
+	if o.pairing {
+		pairUp(ks, all, sp, o)
+		sort.SliceStable(ks, func(i, j int) bool { return moreLikely(ks[i], ks[j]) })
+	}
 	qmax := qOf(sp.hi, 0, o.Wavelength)
 	tol := lineTolerance(resolution(all), o.Wavelength)
 	var out []*cand

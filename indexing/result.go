@@ -63,6 +63,12 @@ type Solution struct {
 	// Empty when none do.
 	Demanding []float64
 	Index     int
+	// SecondPhase is the cell of a second phase that the evidence
+	// weighed beside this one (see pairUp), when the lines it takes
+	// made the cell likelier; SecondPhaseLines is about how many of
+	// the observed lines it takes. Nil and zero otherwise.
+	SecondPhase      *cell.Cell
+	SecondPhaseLines int
 
 	// M is de Wolff's figure of merit M_N over the first N lines (M20
 	// when N = 20); FigureLines is that N.

@@ -33,6 +33,10 @@ func Reweigh(ctx context.Context, lines []cell.Line, opt Options, earlier []Solu
 		return res, nil
 	}
 	need := needed(first, o)
+	// Index weighs second phases, and cells of the strong lines alone,
+	// when some of the first lines are weak.
+	strong := strongApart(all, len(first), fewestLines(want))
+	o.pairing = strong != nil
 	var pool []*cand
 	for _, sol := range earlier {
 		if err := ctx.Err(); err != nil {
@@ -43,7 +47,17 @@ func Reweigh(ctx context.Context, lines []cell.Line, opt Options, earlier []Solu
 		}
 		k := &cand{c: sol.Cell, zero: sol.Zero, disp: sol.Displacement, once: true,
 			zeroFree: sol.Parameters > len(cell.Basis(sol.Cell.System)) && len(first) >= minZeroLines}
-		if !k.settle(first, o.Wavelength, 0, need) || math.Abs(k.zero) > o.zeroBound() {
+		switch {
+		case k.settle(first, o.Wavelength, 0, need):
+		case strong != nil && len(strong) >= minLines(sol.Cell.System) && k.settle(strong, o.Wavelength, 0, needed(strong, o)):
+			// A cell of the strong lines, as Index's search on them
+			// finds it, is weighed whatever its figure on the first.
+			k.assign(first, o.Wavelength, 0)
+			k.weighAlways = true
+		default:
+			continue
+		}
+		if math.Abs(k.zero) > o.zeroBound() {
 			continue
 		}
 		k.figures(first, o.Wavelength)

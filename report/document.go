@@ -236,6 +236,11 @@ type Solution struct {
 	// (indexing.Solution.Demanding).
 	DemandingLines []float64 `json:"demanding_lines,omitempty"`
 	DemandingIndex int       `json:"demanding_index,omitempty"`
+	// SecondPhase is the cell of the second phase that the evidence
+	// weighed beside this one, and SecondPhaseLines about how many
+	// lines it takes (indexing.Solution.SecondPhase).
+	SecondPhase      string `json:"second_phase,omitempty"`
+	SecondPhaseLines int    `json:"second_phase_lines,omitempty"`
 	// Zero is the zero shift the search found, degrees 2θ; the refined
 	// one, with its esd, is the refinement's.
 	Zero        float64  `json:"zero_shift"`
@@ -545,6 +550,9 @@ func NewSolution(a *analysis.Analysis, c *analysis.Candidate) Solution {
 		M: s.M, FigureLines: s.FigureLines, FN: s.FN, FNMeanDiff: s.FNMeanDiff, FNPossible: s.FNPossible,
 		Indexed: s.Indexed, Unindexed: s.Unindexed, Conditions: s.Conditions, Extinction: s.Extinction, Lines: []Line{}, Calculated: []Calc{},
 		Parameters: s.Parameters, Chi2: s.ChiSquare, DOF: s.DOF, FromReduced: s.FromReduced,
+	}
+	if s.SecondPhase != nil {
+		j.SecondPhase, j.SecondPhaseLines = cell.Format(*s.SecondPhase, cell.ESD{}), s.SecondPhaseLines
 	}
 	if s.Reduced.Volume() > 0 {
 		j.Reduced = cell.Format(s.Reduced, cell.ESD{})

@@ -120,6 +120,9 @@ func printCandidates(w io.Writer, a *analysis.Analysis) {
 		}
 		fmt.Fprintf(w, "lines that demand this lattice over one with %d times its lattice points (a centring or a smaller cell): %s°\n", best.Index, strings.Join(tts, ", "))
 	}
+	if best.SecondPhase != nil {
+		fmt.Fprintf(w, "weighed beside a second phase, %s, which takes about %d of the lines this cell leaves\n", cell.Format(*best.SecondPhase, cell.ESD{}), best.SecondPhaseLines)
+	}
 	if len(best.Conditions) > 0 {
 		fmt.Fprintf(w, "observed conditions: %s\n", strings.Join(best.Conditions, "; "))
 	}

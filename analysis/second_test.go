@@ -1,0 +1,51 @@
+package analysis
+
+import (
+	"context"
+	"testing"
+
+	"reticle/cell"
+	"reticle/internal/synth"
+)
+
+// TestSecondPhase: scans drawn by synth.Draw whose foreign phase, a few
+// per cent as strong as the sample, shows far more lines than the
+// sample (a small cubic cell) does. Weighed against foreign lines
+// spread evenly, the foreign phase's cell came first, leaving the
+// scan's strongest lines unexplained; weighed as a second phase beside
+// the sample's cell, it leaves the sample's cell first and is named as
+// the second phase.
+func TestSecondPhase(t *testing.T) {
+	for _, tc := range []struct {
+		lat  synth.Lattice
+		seed uint64
+	}{
+		// cubic P, a = 3.335 Å; foreign hexagonal P a = 4.912, c = 8.607 Å at 6 %
+		{synth.Lattice{System: cell.Cubic, Centring: cell.P}, 1796800000000000113},
+		// cubic I (drawn as tetragonal I with c = a), a = 3.174 Å;
+		// foreign hexagonal P a = 5.364, c = 9.098 Å at 9 %
+		{synth.Lattice{System: cell.Tetragonal, Centring: cell.I}, 1796800000000000145},
+	} {
+		cs, scan, settings, err := blindScan(tc.lat, tc.seed)
+		if err != nil {
+			t.Fatal(err)
+		}
+		a, err := Run(context.Background(), scan, settings, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(a.Candidates) == 0 {
+			t.Fatalf("seed %d: no candidate", tc.seed)
+		}
+		_, hi := scan.Range()
+		qmax := cell.QOf(hi, cs.Lambda)
+		first := a.Candidates[0]
+		if got := first.Cell(); got.System != cs.Truth.System || !synth.SameLines(cs.Truth, got, qmax, 20) {
+			t.Errorf("seed %d: first %v, want %v", tc.seed, got, cs.Truth)
+		}
+		foreign := cs.Spec.Phases[1].Cell
+		if sp := first.Solution.SecondPhase; sp == nil || !synth.SameLines(foreign, *sp, qmax, 20) {
+			t.Errorf("seed %d: second phase %v, want %v", tc.seed, sp, foreign)
+		}
+	}
+}
