@@ -132,6 +132,25 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 			pool = append(pool, more...)
 			o.pairing = true
 			ranked = rankCands(pool, first, all, o)
+			// The lines the first cell leaves may be a second phase
+			// that no cell found so far describes (a larger cell can
+			// take a few of them as its own): they are searched on
+			// their own, and their cells join the ranking, to be
+			// weighed as second phases.
+			if left := leftOver(ranked[0], all, o.Lines); len(left) >= minPairLeft {
+				more, err := sr.run(left, nil, false)
+				if err != nil {
+					return nil, err
+				}
+				more = bestCands(more, leftKeep)
+				for _, k := range more {
+					k.assign(first, o.Wavelength, 0)
+					k.figures(first, o.Wavelength)
+					k.weighAlways = true
+				}
+				pool = append(pool, more...)
+				ranked = rankCands(pool, first, all, o)
+			}
 		}
 	}
 	if len(ranked) > 0 {
@@ -329,6 +348,30 @@ const strongKeep = 10
 // that strong is e^-0.5 as likely as a weak one, and its chance falls
 // fast above).
 const strongCut = 0.1
+
+// minPairLeft is the fewest lines left by the first cell that are
+// searched for a second phase: with fewer, the higher systems' search
+// finds cells by chance (minZeroLines).
+const minPairLeft = minZeroLines
+
+// leftKeep is how many cells of the lines the first cell leaves are
+// weighed as second phases.
+const leftKeep = 3
+
+// leftOver returns the first n lines that the cand's evidence gives
+// less than an even chance of belonging to it.
+func leftOver(k *cand, all []obs, n int) []obs {
+	var out []obs
+	for i, l := range all {
+		if len(out) == n {
+			break
+		}
+		if i < len(k.ev.own) && k.ev.own[i] < 0.5 {
+			out = append(out, l)
+		}
+	}
+	return out
+}
 
 // strongApart returns the first n lines stronger than strongCut when
 // they are fewer than n (some of the first n lines are weak) and at

@@ -3,6 +3,7 @@ package indexing
 import (
 	"context"
 	"math"
+	"slices"
 
 	"reticle/cell"
 )
@@ -37,8 +38,20 @@ func Reweigh(ctx context.Context, lines []cell.Line, opt Options, earlier []Solu
 	// when some of the first lines are weak.
 	strong := strongApart(all, len(first), fewestLines(want))
 	o.pairing = strong != nil
-	var pool []*cand
+	// The earlier cells' second phases, listed or not, are weighed
+	// again, at the zero offset of the cell they stood beside.
+	var seconds []cell.Cell
+	cands := slices.Clone(earlier)
 	for _, sol := range earlier {
+		if sp := sol.SecondPhase; sp != nil && !slices.ContainsFunc(seconds, func(c cell.Cell) bool { return sameCell(c, *sp, 2e-3) }) {
+			seconds = append(seconds, *sp)
+			if !slices.ContainsFunc(earlier, func(s Solution) bool { return sameCell(s.Cell, *sp, 2e-3) }) {
+				cands = append(cands, Solution{Cell: *sp, Zero: sol.Zero, Displacement: sol.Displacement, Parameters: sol.Parameters})
+			}
+		}
+	}
+	var pool []*cand
+	for _, sol := range cands {
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
@@ -48,6 +61,11 @@ func Reweigh(ctx context.Context, lines []cell.Line, opt Options, earlier []Solu
 		k := &cand{c: sol.Cell, zero: sol.Zero, disp: sol.Displacement, once: true,
 			zeroFree: sol.Parameters > len(cell.Basis(sol.Cell.System)) && len(first) >= minZeroLines}
 		switch {
+		case slices.ContainsFunc(seconds, func(c cell.Cell) bool { return sameCell(c, sol.Cell, 2e-3) }):
+			// An earlier cell's second phase is weighed as one again,
+			// as it stood (it may index few of the first lines).
+			k.assign(first, o.Wavelength, 0)
+			k.weighAlways = true
 		case k.settle(first, o.Wavelength, 0, need):
 		case strong != nil && len(strong) >= minLines(sol.Cell.System) && k.settle(strong, o.Wavelength, 0, needed(strong, o)):
 			// A cell of the strong lines, as Index's search on them
