@@ -114,20 +114,12 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 	// weighed beside the others as a second phase (see pairUp).
 	if len(ranked) > 0 {
 		if strong := strongApart(all, n, fewest); strong != nil {
-			more, err := sr.run(strong, nil, false)
-			if err != nil {
-				return nil, err
-			}
 			// The best of them, by their figure on the strong lines,
 			// are ranked whatever their figure on the first lines
-			// (which a foreign phase fills); their assignments and
-			// figures are then taken on the first lines, as every
-			// other cand's.
-			more = bestCands(more, strongKeep)
-			for _, k := range more {
-				k.assign(first, o.Wavelength, 0)
-				k.figures(first, o.Wavelength)
-				k.weighAlways = true
+			// (which a foreign phase fills).
+			more, err := sr.apart(strong, strongKeep, first)
+			if err != nil {
+				return nil, err
 			}
 			pool = append(pool, more...)
 			o.pairing = true
@@ -138,15 +130,9 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 			// their own, and their cells join the ranking, to be
 			// weighed as second phases.
 			if left := leftOver(ranked[0], all, o.Lines); len(left) >= minPairLeft {
-				more, err := sr.run(left, nil, false)
+				more, err := sr.apart(left, leftKeep, first)
 				if err != nil {
 					return nil, err
-				}
-				more = bestCands(more, leftKeep)
-				for _, k := range more {
-					k.assign(first, o.Wavelength, 0)
-					k.figures(first, o.Wavelength)
-					k.weighAlways = true
 				}
 				pool = append(pool, more...)
 				ranked = rankCands(pool, first, all, o)
@@ -191,6 +177,24 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 	}
 	res.warn(ranked, all, o)
 	return res, nil
+}
+
+// apart searches the higher systems on the lines ls alone and returns
+// the best keep cells by their figure on them, marked to be weighed
+// whatever their figure on the first lines; their assignments and
+// figures are taken on the first lines, as every other cand's.
+func (sr *searcher) apart(ls []obs, keep int, first []obs) ([]*cand, error) {
+	more, err := sr.run(ls, nil, false)
+	if err != nil {
+		return nil, err
+	}
+	more = bestCands(more, keep)
+	for _, k := range more {
+		k.assign(first, sr.o.Wavelength, 0)
+		k.figures(first, sr.o.Wavelength)
+		k.weighAlways = true
+	}
+	return more, nil
 }
 
 // A searcher runs the searches of one Index call.
