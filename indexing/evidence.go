@@ -729,6 +729,12 @@ func (k *cand) assignNearest(ls []obs, lambda float64) {
 // candidates or none.
 func probabilities(ks []*cand, all []obs, sp span) []float64 {
 	null := nullLogL(all, sp.hi-sp.lo)
+	if len(ks) > 0 && ks[0].ev.paired {
+		// Weighed with second phases, each cell's evidence is averaged
+		// over one phase and two, each with prior ½; the model of no
+		// cell has no second phase of its own.
+		null += math.Log(0.5)
+	}
 	top := null
 	for _, k := range ks {
 		top = math.Max(top, k.ev.logE())

@@ -139,7 +139,7 @@ func pairUp(ks []*cand, all []obs, sp span, o Options) {
 				hs[b] = d
 			}
 			pt := secondOf(k, b, all, d.h, d.groups)
-			if pt == nil {
+			if pt == nil || d.groups == 0 {
 				continue
 			}
 			f := k.whole.evidenceWith(all, o.Wavelength, sp, o, pt)
