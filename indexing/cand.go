@@ -48,6 +48,10 @@ type cand struct {
 	// once: weigh takes the evidence at the cand's own cell and offsets,
 	// without refitting them to all lines (a provisional result).
 	once bool
+	// pairs holds the cand's evidence beside each cand weighed as its
+	// second phase (see pairUp), so that a later ranking of the same
+	// search does not take it again.
+	pairs map[*cand]pairFit
 }
 
 // nparams returns the number of refined parameters: the system's free

@@ -342,8 +342,12 @@ func (k *cand) evidenceWith(ls []obs, lambda float64, sp span, o Options, pt *pa
 		f.explain += t[i]
 	}
 	one += occamP(f.explain, groups)
+	// What the second phase adds to every model of the cand's lines:
+	// its lines' expected count, q's Occam factor and its cell's.
+	var second float64
 	if pt != nil {
-		one += -q*float64(pt.groups) + occamP(sq, pt.groups) + pt.logOccam
+		second = -q*float64(pt.groups) + occamP(sq, pt.groups) + pt.logOccam
+		one += second
 		f.second = sq
 	}
 	// Two classes, for every split the symmetry allows.
@@ -373,9 +377,7 @@ func (k *cand) evidenceWith(ls []obs, lambda float64, sp span, o Options, pt *pa
 			continue
 		}
 		l2, dem, weak := twoClass(ls, nears, mk, e, classA, na, nb, f.p, f.rho, R, minRho)
-		if pt != nil {
-			l2 += -q*float64(pt.groups) + occamP(sq, pt.groups) + pt.logOccam
-		}
+		l2 += second
 		terms = append(terms, math.Log(0.5/float64(len(splits)))+l2)
 		if l2 > f.bestSplit || f.splitUsed == nil {
 			f.bestSplit, f.splitUsed, f.demanding = l2, &splits[si], nil
@@ -422,8 +424,8 @@ func twoClass(ls []obs, nears [][]near, mk, e []float64, classA []bool, na, nb i
 			near = append(near, i)
 		}
 	}
-	// The second phase's share of the lines near no calculated line,
-	// which do not change between rounds except through ρ.
+	// The rate of a second phase's lines at line i (e, fixed by the
+	// one-class fit; none without a second phase).
 	fe := func(i int) float64 {
 		if e == nil {
 			return 0

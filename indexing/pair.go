@@ -108,9 +108,18 @@ func secondOf(k, b *cand, ls []obs, h []float64, groups int) *partner {
 	return &partner{h: h, mk: phaseMarks(ls, top), groups: groups, logOccam: occam}
 }
 
-// pairUp weighs the first pairKeep cands of ks by their evidence alone and those marked weighAlways each beside every other
-// of them that can be its second phase (see secondOf), and marks every
-// cand of ks as weighed with second phases, keeping each one's best.
+// A pairFit is a cand's evidence beside one second phase.
+type pairFit struct {
+	ok    bool    // the other cand can be its second phase (see secondOf)
+	logE  float64 // the log evidence of the pair
+	lines float64 // the lines the second phase takes
+}
+
+// pairUp weighs the first pairKeep cands of ks by their evidence alone,
+// and those marked weighAlways, each beside every other of them that
+// can be its second phase (see secondOf), and marks every cand of ks as
+// weighed with second phases, keeping each one's best. A pair weighed
+// in an earlier ranking of the same search is not weighed again.
 func pairUp(ks []*cand, all []obs, sp span, o Options) {
 	byOwn := slices.Clone(ks)
 	sort.SliceStable(byOwn, func(i, j int) bool { return byOwn[i].ev.soloE() > byOwn[j].ev.soloE() })
@@ -129,22 +138,28 @@ func pairUp(ks []*cand, all []obs, sp span, o Options) {
 		k.ev.paired, k.ev.partner, k.ev.pairE = true, nil, math.Inf(-1)
 	}
 	for _, k := range set {
+		if k.pairs == nil {
+			k.pairs = make(map[*cand]pairFit)
+		}
 		for _, b := range set {
 			if b == k {
 				continue
 			}
-			d, ok := hs[b]
-			if !ok {
-				d.h, d.groups = lineDensity(b, all, o.Wavelength, sp)
-				hs[b] = d
+			pf, done := k.pairs[b]
+			if !done {
+				d, ok := hs[b]
+				if !ok {
+					d.h, d.groups = lineDensity(b, all, o.Wavelength, sp)
+					hs[b] = d
+				}
+				if pt := secondOf(k, b, all, d.h, d.groups); pt != nil && d.groups > 0 {
+					f := k.whole.evidenceWith(all, o.Wavelength, sp, o, pt)
+					pf = pairFit{ok: true, logE: f.logL + f.logOccam, lines: f.second}
+				}
+				k.pairs[b] = pf
 			}
-			pt := secondOf(k, b, all, d.h, d.groups)
-			if pt == nil || d.groups == 0 {
-				continue
-			}
-			f := k.whole.evidenceWith(all, o.Wavelength, sp, o, pt)
-			if e := f.logL + f.logOccam; e > k.ev.pairE {
-				k.ev.partner, k.ev.pairE, k.ev.pairLines = b, e, f.second
+			if pf.ok && pf.logE > k.ev.pairE {
+				k.ev.partner, k.ev.pairE, k.ev.pairLines = b, pf.logE, pf.lines
 			}
 		}
 	}

@@ -120,7 +120,8 @@ func printCandidates(w io.Writer, a *analysis.Analysis) {
 		}
 		fmt.Fprintf(w, "lines that demand this lattice over one with %d times its lattice points (a centring or a smaller cell): %s°\n", best.Index, strings.Join(tts, ", "))
 	}
-	if best.SecondPhase != nil {
+	// The search's warnings name the first solution's second phase.
+	if best.SecondPhase != nil && best.Solution.Cell != a.Search.Solutions[0].Cell {
 		fmt.Fprintf(w, "weighed beside a second phase, %s, which takes about %d of the lines this cell leaves\n", cell.Format(*best.SecondPhase, cell.ESD{}), best.SecondPhaseLines)
 	}
 	if len(best.Conditions) > 0 {
