@@ -30,8 +30,21 @@ const zeroStep = 0.05
 const keep = 40
 
 // minZeroLines is the fewest lines from which the zero offset is refined
-// with the cell.
+// with the cell in every system (see zeroLines).
 const minZeroLines = 6
+
+// zeroLines is the fewest lines from which the zero offset is refined
+// with a cell of the system: three more than the cell's parameters and
+// the zero, so that the lines test the fit and do not merely fix it —
+// five for a cubic cell — and at most minZeroLines. A zero offset
+// of 0.1° 2θ moves five lines of a cubic cell off any one edge by several
+// windows, so a cubic cell held at zero 0 can fail to index them at all
+// while a cell of two or more parameters takes the offset up in a wrong
+// axis (common practice: the zero is refined whenever the lines
+// over-determine it).
+func zeroLines(s cell.System) int {
+	return min(minZeroLines, len(cell.Basis(s))+4)
+}
 
 // minLines is the number of lines each system needs: one more than its
 // free cell parameters and the zero offset, and three for cubic (three
@@ -41,6 +54,16 @@ func minLines(s cell.System) int {
 		return 3
 	}
 	return len(cell.Basis(s)) + 2
+}
+
+// fewestZeroLines is the fewest lines from which any of the systems
+// wanted refines the zero offset.
+func fewestZeroLines(want map[cell.System]bool) int {
+	fewest := minZeroLines
+	for s := range want {
+		fewest = min(fewest, zeroLines(s))
+	}
+	return fewest
 }
 
 // fewestLines is the fewest lines that any of the systems wanted needs.
@@ -76,10 +99,19 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 	first := all[:min(len(all), o.Lines)]
 	n := len(first)
 	var notes []string
-	if n < minZeroLines && o.ZeroRange > 0 {
+	zeroFree := map[cell.System]bool{}
+	anyFree := false
+	for s := range want {
+		zeroFree[s] = o.ZeroRange > 0 && n >= zeroLines(s)
+		anyFree = anyFree || zeroFree[s]
+	}
+	switch {
+	case o.ZeroRange > 0 && !anyFree:
 		// So few lines cannot tell a zero offset from the cell.
 		o.ZeroRange = 0
-		notes = append(notes, fmt.Sprintf("with fewer than %d lines the zero shift is held at 0", minZeroLines))
+		notes = append(notes, fmt.Sprintf("with fewer than %d lines the zero shift is held at 0", fewestZeroLines(want)))
+	case o.ZeroRange > 0 && n < minZeroLines:
+		notes = append(notes, fmt.Sprintf("with %d lines the zero shift is refined with cubic cells only and held at 0 for the others", n))
 	}
 	zeros := []float64{0}
 	for z := zeroStep; z <= o.ZeroRange+1e-9; z += zeroStep {
@@ -97,7 +129,7 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 		res.Warnings = append(res.Warnings, fmt.Sprintf("only %d lines: a cell from so few lines is a hypothesis to check against more data", n))
 	}
 	res.Warnings = append(res.Warnings, notes...)
-	sr := &searcher{ctx: ctx, o: o, want: want, all: all, zeros: zeros, progress: progress}
+	sr := &searcher{ctx: ctx, o: o, want: want, all: all, zeros: zeros, zeroFree: zeroFree, progress: progress}
 	pool, err := sr.run(first, res, true)
 	if err != nil {
 		return nil, err
@@ -201,16 +233,29 @@ func (sr *searcher) apart(ls []obs, keep int, first []obs) ([]*cand, error) {
 type searcher struct {
 	// stopBy is the cand whose figure ended the search after the higher
 	// systems, if one did.
-	stopBy   *cand
-	ctx      context.Context
-	o        Options
-	want     map[cell.System]bool
-	all      []obs
-	zeros    []float64
+	stopBy *cand
+	ctx    context.Context
+	o      Options
+	want   map[cell.System]bool
+	all    []obs
+	zeros  []float64
+	// zeroFree tells, by system, whether the zero offset is refined
+	// (zeroLines of the first lines).
+	zeroFree map[cell.System]bool
 	progress func(done, total int)
 
 	mu          sync.Mutex
 	done, total int
+}
+
+// zerosOf returns the zero offsets searched, and the options, for the
+// system s: the offsets when s refines the zero, else 0 alone.
+func (sr *searcher) zerosOf(s cell.System, o Options) ([]float64, Options) {
+	if sr.zeroFree[s] {
+		return sr.zeros, o
+	}
+	o.ZeroRange = 0
+	return sr.zeros[:1], o
 }
 
 // tick counts one step of the search done.
@@ -286,7 +331,11 @@ func (sr *searcher) run(ls []obs, res *Result, zones bool) ([]*cand, error) {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			pools[gi], errs[gi] = searchSystem(sr.ctx, s, want, ls, sr.zeros, oh, need, sr.tick)
+			zeros, os := sr.zerosOf(s, oh)
+			pools[gi], errs[gi] = searchSystem(sr.ctx, s, want, ls, zeros, os, need, sr.tick)
+			for range len(sr.zeros) - len(zeros) {
+				sr.tick()
+			}
 		}()
 	}
 	wg.Wait()
@@ -330,7 +379,11 @@ func (sr *searcher) run(ls []obs, res *Result, zones bool) ([]*cand, error) {
 			lw[s] = true
 		}
 	}
-	ks, _, err := zoneSearch(sr.ctx, ls, sr.all, pool, o, lw, need, sr.zeros, sr.tick)
+	zeros, oz := sr.zerosOf(lowSystems[0], o)
+	ks, _, err := zoneSearch(sr.ctx, ls, sr.all, pool, oz, lw, need, zeros, sr.tick)
+	for range len(sr.zeros) - len(zeros) {
+		sr.tick()
+	}
 	if err != nil {
 		return nil, err
 	}

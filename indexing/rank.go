@@ -4,6 +4,8 @@ import (
 	"math"
 	"slices"
 	"sort"
+
+	"reticle/cell"
 )
 
 // rankCands orders the cands by their evidence over all lines (see
@@ -48,12 +50,15 @@ func rankCands(ks []*cand, ls, all []obs, o Options) []*cand {
 		// lattice of its own.
 		q := linesOf(k.whole, qmax, tol)
 		if i := slices.IndexFunc(lines, func(p []float64) bool { return p != nil && q != nil && sameLines(p, q, tol) }); i >= 0 {
-			// The same lines: the description of fewer parameters
-			// stands for them (its extra freedom fits noise); of as
-			// many, the larger cell, whose lines beyond the range the
-			// smaller one's would not all be (cubic I and cubic P of
-			// a/√2 agree up to h² + k² + l² = 14).
-			if pk, po := k.nparams(), out[i].nparams(); pk < po || pk == po && k.c.Volume() > out[i].c.Volume()*(1+1e-6) {
+			// The same lines: the description of fewer cell
+			// parameters stands for them (its extra freedom fits
+			// noise); of as many, and as many corrections, the larger
+			// cell, whose lines beyond the range the smaller one's
+			// would not all be (cubic I and cubic P of a/√2 agree up
+			// to h² + k² + l² = 14); of as many cell parameters but
+			// other corrections, the more likely (the one kept).
+			pk, po := len(cell.Basis(k.c.System)), len(cell.Basis(out[i].c.System))
+			if pk < po || pk == po && k.nparams() == out[i].nparams() && k.c.Volume() > out[i].c.Volume()*(1+1e-6) {
 				out[i], lines[i] = k, q
 			}
 			continue

@@ -59,7 +59,7 @@ func Reweigh(ctx context.Context, lines []cell.Line, opt Options, earlier []Solu
 			continue
 		}
 		k := &cand{c: sol.Cell, zero: sol.Zero, disp: sol.Displacement, once: true,
-			zeroFree: sol.Parameters > len(cell.Basis(sol.Cell.System)) && len(first) >= minZeroLines}
+			zeroFree: sol.Parameters > len(cell.Basis(sol.Cell.System)) && len(first) >= zeroLines(sol.Cell.System)}
 		switch {
 		case slices.ContainsFunc(seconds, func(c cell.Cell) bool { return sameCell(c, sol.Cell, 2e-3) }):
 			// An earlier cell's second phase is weighed as one again,
