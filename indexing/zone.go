@@ -26,6 +26,9 @@ import (
 //     from the lines that neither zone indexes: each such line and index
 //     triple proposes a value, and the values that many lines agree on
 //     are tried.
+//     When one zone holds most of the lines, its third vector is also
+//     found from the lines off it alone (layerLattices): a lattice
+//     with one short edge shows too few of those for a second zone.
 //  3. Symmetry. Each lattice is Niggli reduced, and its descriptions in
 //     every system whose metric it has within the tolerance of the lines
 //     (cell.Settings) become candidate cells, centred where the setting

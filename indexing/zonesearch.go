@@ -107,7 +107,9 @@ func zoneForms(ctx context.Context, first []obs, o Options, zeros []float64, nee
 				qs[i] = qOf(l.tt, z, o.Wavelength)
 				ws[i] = dQ(l.tt, l.tol+screenExtra, o.Wavelength)
 			}
-			formsAt[zi], errs[zi] = zoneLattices(ctx, findZones(qs, ws, 4), qs, ws, need, o)
+			zs := findZones(qs, ws, 4)
+			formsAt[zi], errs[zi] = zoneLattices(ctx, zs, qs, ws, need, o)
+			formsAt[zi] = append(formsAt[zi], layerLattices(zs, qs, ws, need)...)
 			tick()
 		}()
 	}

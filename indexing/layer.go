@@ -1,0 +1,295 @@
+package indexing
+
+import (
+	"maps"
+	"math"
+	"math/bits"
+	"slices"
+
+	"gonum.org/v1/gonum/mat"
+
+	"reticle/cell"
+)
+
+// Layers over one zone. A lattice whose lines lie mostly in one zone
+// (one edge much shorter than the others, or a few lines only) shows
+// few lines off it, often too few for a second zone of the lattice to
+// be found, and then the zone method (zoneLattices) cannot combine two.
+// The zone itself fixes two reciprocal vectors p, q; a third, r, adds
+// the layers of reflections (i, j, m) with m ≠ 0:
+//
+//	Q = i²·p·p + j²·q·q + 2ij·p·q + m²·C + 2m(i·D + j·E),
+//
+// with C = r·r, D = r·p and E = r·q, linear in the three unknowns.
+// Taking r as the shortest vector of the first layer (its projection
+// on the zone within the zone's reduced mesh, so that |2D| ≤ p·p and
+// |2E| ≤ q·q), the lowest line off the zone is (0, 0, 1), which gives
+// C, and every other line off the zone and index triple (i, j, m)
+// proposes a straight line in the plane of (D, E). Where lines of
+// several observed lines cross is the third vector: a Hough transform
+// (Hough 1962; Duda & Hart, Comm. ACM 15 (1972) 11) over a grid of the
+// mesh, each crossing then refined by least squares on the lines it
+// holds. This is the search of the third axis from a known zone, done
+// by hand by the early indexers of layer lines (common practice).
+
+// layerShare is the least share of the lines a zone must index for its
+// layers to be searched. Up to Q_N a plane of the reciprocal lattice
+// holds about π·Q_N/A* points (A* its mesh's area) and the lattice
+// about (4π/3)·Q_N^{3/2}/V*, so one zone holds most of the first lines
+// only when the reciprocal vector off it is long, |r|² of the order of
+// Q_N: a short edge, or few lines. That is the case the zone method
+// fails on, as the lines off the zone are then few.
+const layerShare = 0.5
+
+// layerZones is how many zones, most lines first, have their layers
+// searched.
+const layerZones = 3
+
+// layerAnchors is how many of the lowest lines off a zone are tried as
+// its first layer's shortest reflection: one of them may be foreign, or
+// of the second layer.
+const layerAnchors = 2
+
+// layerGrid is the number of cells of the Hough grid along each side of
+// the mesh. The grid only finds where the proposals meet; least squares
+// then places the crossing (layerFit), so it needs to be no finer than
+// the proposals of low index triples are thick (a window over 2m·|i|).
+const layerGrid = 128
+
+// layerMaxLines bounds the lines off a zone that vote (one bit each).
+const layerMaxLines = 64
+
+// layerAgree is the least number of observed lines off the zone,
+// anchor included, whose proposals must meet: four, as in zoneLattices
+// (three agree by chance for many values).
+const layerAgree = 4
+
+// layerPeaks is how many crossings of each anchor are refined.
+const layerPeaks = 6
+
+// layerLattices returns the lattices (reciprocal forms in a primitive
+// basis) made of the zones zs that index at least layerShare of the
+// lines (Q qs, windows ws), at most layerZones of them, and a third
+// vector found from the lines off each zone, that index at least need
+// of the lines with a figure of at least minFormFigure.
+func layerLattices(zs []zone, qs, ws []float64, need int) []cell.QForm {
+	qmax := qs[len(qs)-1] + ws[len(ws)-1]
+	lines := newLineSet(qs, ws, qmax)
+	var out []cell.QForm
+	tried := 0
+	for _, z := range zs {
+		if tried == layerZones || float64(z.n) < layerShare*float64(len(qs)) {
+			break
+		}
+		tried++
+		z = z.reduce()
+		zq := z.qs(qmax)
+		var off []int
+		for i, q := range qs {
+			j, _ := slices.BinarySearch(zq, q-ws[i])
+			if !(j < len(zq) && zq[j] <= q+ws[i]) {
+				off = append(off, i)
+			}
+		}
+		if len(off) < layerAgree {
+			continue
+		}
+		off = off[:min(len(off), layerMaxLines)]
+		for a := 0; a < min(layerAnchors, len(off)-layerAgree+1); a++ {
+			for _, f := range layerForms(z, off[a], off, qs, ws) {
+				if n, fig := lines.count(f, math.MaxInt32); n >= need && fig >= minFormFigure {
+					out = append(out, f)
+				}
+			}
+		}
+	}
+	return out
+}
+
+// A layerVote is the straight line α·D + β·E = γ, within ±τ, that an
+// observed line proposes for one index triple (i, j, m).
+type layerVote struct {
+	line       int // the observed line's place among those off the zone
+	i, j, m    int
+	al, be, ga float64
+	tau        float64
+}
+
+// layerForms returns the forms of the zone z completed by a third vector
+// whose first layer's shortest reflection is the line anchor, from the
+// crossings in the mesh of the proposals of the lines off (indices into
+// qs, anchor among them).
+func layerForms(z zone, anchor int, off []int, qs, ws []float64) []cell.QForm {
+	c0, w0 := qs[anchor], ws[anchor]
+	// The mesh: |2D| ≤ p·p, |2E| ≤ q·q, a little wider for the windows.
+	dMax, eMax := 0.55*z.qa, 0.55*z.qb
+	// The index pairs of a line's layer m: Q(i, j) ≤ Q + 2m(|i|·|D| +
+	// |j|·|E|), within |i| ≤ (1 + m)·√(Q_N·q·q/det), likewise j (the
+	// zone's pairs up to Q_N, and m times the mesh beyond).
+	det := z.qa*z.qb - z.r*z.r
+	qn := qs[len(qs)-1]
+	im := int(math.Sqrt(qn*z.qb/det)) + 1
+	jm := int(math.Sqrt(qn*z.qa/det)) + 1
+	var votes []layerVote
+	for li, k := range off {
+		if k == anchor {
+			continue
+		}
+		for m := 1; m <= 2; m++ {
+			fm := float64(m)
+			for i := -(m + 1) * im; i <= (m+1)*im; i++ {
+				for j := -(m + 1) * jm; j <= (m+1)*jm; j++ {
+					if i == 0 && j == 0 || z.q(i, j) > qs[k]+2*fm*(math.Abs(float64(i))*dMax+math.Abs(float64(j))*eMax) {
+						continue
+					}
+					fi, fj := float64(i), float64(j)
+					v := layerVote{line: li, i: i, j: j, m: m,
+						al:  2 * fm * fi,
+						be:  2 * fm * fj,
+						ga:  qs[k] - fm*fm*c0 - z.q(i, j),
+						tau: ws[k] + fm*fm*w0}
+					// Only lines that cross the mesh.
+					if math.Abs(v.ga) > math.Abs(v.al)*dMax+math.Abs(v.be)*eMax+v.tau {
+						continue
+					}
+					votes = append(votes, v)
+				}
+			}
+		}
+	}
+	// The Hough grid: in each cell, a bit per observed line whose
+	// proposals cross it, and the closeness of the nearest proposal of
+	// each such line summed (1 on the proposal, 0 at τ and half a cell
+	// from it): the lines of a window as wide as the mesh cross most
+	// cells, and the crossing is where they pass closest together.
+	const n = layerGrid
+	hd, he := 2*dMax/n, 2*eMax/n
+	mask := make([]uint64, n*n)
+	score := make([]float32, n*n)
+	near := make([]float32, n*n) // this line's closeness
+	mark := func(v layerVote, r, c int, d, e, pad float64) {
+		w := float32(1 - math.Abs(v.al*d+v.be*e-v.ga)/pad)
+		if w > near[r*n+c] {
+			near[r*n+c] = w
+		}
+	}
+	for start := 0; start < len(votes); {
+		line := votes[start].line
+		end := start
+		for end < len(votes) && votes[end].line == line {
+			end++
+		}
+		for _, v := range votes[start:end] {
+			// A cell is crossed when the line passes within τ of it.
+			pad := v.tau + (math.Abs(v.al)*hd+math.Abs(v.be)*he)/2
+			if math.Abs(v.be)*he >= math.Abs(v.al)*hd {
+				for c := range n {
+					d := -dMax + (float64(c)+0.5)*hd
+					lo := (v.ga - v.al*d - pad) / v.be
+					hi := (v.ga - v.al*d + pad) / v.be
+					if lo > hi {
+						lo, hi = hi, lo
+					}
+					for r := max(0, int(math.Floor((lo+eMax)/he))); r <= min(n-1, int(math.Floor((hi+eMax)/he))); r++ {
+						mark(v, r, c, d, -eMax+(float64(r)+0.5)*he, pad)
+					}
+				}
+			} else {
+				for r := range n {
+					e := -eMax + (float64(r)+0.5)*he
+					lo := (v.ga - v.be*e - pad) / v.al
+					hi := (v.ga - v.be*e + pad) / v.al
+					if lo > hi {
+						lo, hi = hi, lo
+					}
+					for c := max(0, int(math.Floor((lo+dMax)/hd))); c <= min(n-1, int(math.Floor((hi+dMax)/hd))); c++ {
+						mark(v, r, c, -dMax+(float64(c)+0.5)*hd, e, pad)
+					}
+				}
+			}
+		}
+		bit := uint64(1) << uint(line)
+		for idx, w := range near {
+			if w > 0 {
+				mask[idx] |= bit
+				score[idx] += w
+				near[idx] = 0
+			}
+		}
+		start = end
+	}
+	// The cells crossed by layerAgree lines with the anchor at least,
+	// closest crossing first, one of each neighbourhood: the crossing
+	// of lines as thick as theirs is a ridge some cells wide.
+	var out []cell.QForm
+	for range layerPeaks {
+		best := -1
+		for idx, b := range mask {
+			if bits.OnesCount64(b)+1 >= layerAgree && (best < 0 || score[idx] > score[best]) {
+				best = idx
+			}
+		}
+		if best < 0 {
+			break
+		}
+		r, c := best/n, best%n
+		if f, ok := layerFit(z, anchor, off, qs, ws, votes, mask[best], -dMax+(float64(c)+0.5)*hd, -eMax+(float64(r)+0.5)*he); ok {
+			out = append(out, f)
+		}
+		for rr := max(0, r-layerApart); rr <= min(n-1, r+layerApart); rr++ {
+			for cc := max(0, c-layerApart); cc <= min(n-1, c+layerApart); cc++ {
+				mask[rr*n+cc] = 0
+			}
+		}
+	}
+	return out
+}
+
+// layerApart is how many cells of the Hough grid apart the crossings
+// refined must lie, along each side: a thirty-second of the mesh.
+const layerApart = layerGrid / 32
+
+// layerFit refines C, D and E by weighted least squares on the anchor
+// and, for each line whose bit is set in mask, the index triple whose
+// proposal passes nearest (d, e), and returns the lattice's form in the
+// basis (p, q, r).
+func layerFit(z zone, anchor int, off []int, qs, ws []float64, votes []layerVote, mask uint64, d, e float64) (cell.QForm, bool) {
+	best := map[int]layerVote{}
+	for _, v := range votes {
+		if mask&(uint64(1)<<uint(v.line)) == 0 {
+			continue
+		}
+		miss := math.Abs(v.al*d+v.be*e-v.ga) / v.tau
+		if b, ok := best[v.line]; !ok || miss < math.Abs(b.al*d+b.be*e-b.ga)/b.tau {
+			best[v.line] = v
+		}
+	}
+	// Rows: Q − Q(i, j) = m²·C + 2mi·D + 2mj·E, weighted by 1/window.
+	rows := len(best) + 1
+	a := mat.NewDense(rows, 3, nil)
+	y := mat.NewVecDense(rows, nil)
+	a.SetRow(0, []float64{1 / ws[anchor], 0, 0})
+	y.SetVec(0, qs[anchor]/ws[anchor])
+	r := 1
+	for _, li := range slices.Sorted(maps.Keys(best)) {
+		v := best[li]
+		k := off[li]
+		fm, fi, fj := float64(v.m), float64(v.i), float64(v.j)
+		w := ws[k]
+		a.SetRow(r, []float64{fm * fm / w, 2 * fm * fi / w, 2 * fm * fj / w})
+		y.SetVec(r, (qs[k]-z.q(v.i, v.j))/w)
+		r++
+	}
+	var x mat.VecDense
+	if err := x.SolveVec(a, y); err != nil {
+		return cell.QForm{}, false
+	}
+	c, dd, ee := x.AtVec(0), x.AtVec(1), x.AtVec(2)
+	// Basis (p, q, r): A = p·p, B = q·q, C = r·r, D = 2q·r, E = 2p·r,
+	// F = 2p·q.
+	f := cell.QForm{z.qa, z.qb, c, 2 * ee, 2 * dd, 2 * z.r}
+	if !(f.Reciprocal().Det() > 0) {
+		return cell.QForm{}, false
+	}
+	return f, true
+}

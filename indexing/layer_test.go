@@ -1,0 +1,76 @@
+package indexing
+
+import (
+	"math"
+	"testing"
+
+	"reticle/cell"
+)
+
+// TestLayerLattices checks that the layers over a lattice's densest zone
+// give the lattice back from its first forty calculated lines (Cu
+// K-alpha1, windows of 0.01° 2θ), for invented cells of one short edge
+// beside long ones, whose first lines are mostly one zone.
+func TestLayerLattices(t *testing.T) {
+	const cu = 1.5405929 // Hölzer et al. 1997 (from memory)
+	for _, test := range []struct {
+		name string
+		cell cell.Cell
+	}{
+		{"orthorhombic", cell.Must(cell.Orthorhombic, cell.P, 3.49, 12.25, 25.18)},
+		{"monoclinic, short unique axis", cell.Must(cell.Monoclinic, cell.P, 8.1, 3.3, 14.3, 104.5)},
+		{"monoclinic, short axis in the zone", cell.Must(cell.Monoclinic, cell.P, 3.07, 23.9, 11.94, 102.1)},
+		{"triclinic", cell.Must(cell.Triclinic, cell.P, 2.91, 11.2, 17.4, 95.5, 103.2, 88.4)},
+	} {
+		// The first forty distinct lines.
+		var qs, ws []float64
+		for _, r := range cell.Reflections(test.cell, qOf(90, 0, cu)) {
+			if len(qs) > 0 && r.Q-qs[len(qs)-1] < 1e-9 {
+				continue
+			}
+			if len(qs) == 40 {
+				break
+			}
+			tt := ttOf(r.Q, cu)
+			qs = append(qs, r.Q)
+			ws = append(ws, dQ(tt, 0.01, cu))
+		}
+		zs := findZones(qs, ws, 4)
+		if len(zs) == 0 || float64(zs[0].n) < layerShare*float64(len(qs)) {
+			t.Fatalf("%s: the first lines are not mostly one zone", test.name)
+		}
+		want, err := cell.Reduce(test.cell)
+		if err != nil {
+			t.Fatal(err)
+		}
+		found := false
+		for _, f := range layerLattices(zs, qs, ws, len(qs)) {
+			c, err := f.Cell(cell.Triclinic, cell.P)
+			if err != nil {
+				continue
+			}
+			red, err := cell.Reduce(c)
+			if err == nil && sameReduced(red, want, 1e-3) {
+				found = true
+			}
+		}
+		if !found {
+			t.Errorf("%s: %v not among the layers' lattices", test.name, test.cell)
+		}
+	}
+}
+
+// sameReduced reports whether two reduced cells agree in every G6
+// component to a relative tol of their mean edge squared.
+func sameReduced(a, b cell.Reduced, tol float64) bool {
+	ga, gb := a.G6, b.G6
+	va := [6]float64{ga.A, ga.B, ga.C, ga.Xi, ga.Eta, ga.Zeta}
+	vb := [6]float64{gb.A, gb.B, gb.C, gb.Xi, gb.Eta, gb.Zeta}
+	m := (va[0] + va[1] + va[2]) / 3
+	for i := range va {
+		if math.Abs(va[i]-vb[i]) > tol*m {
+			return false
+		}
+	}
+	return true
+}
