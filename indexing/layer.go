@@ -251,43 +251,58 @@ const layerApart = layerGrid / 32
 
 // layerFit refines C, D and E by weighted least squares on the anchor
 // and, for each line whose bit is set in mask, the index triple whose
-// proposal passes nearest (d, e), and returns the lattice's form in the
-// basis (p, q, r).
+// proposal passes nearest (d, e); then, twice, on every line off the
+// zone whose nearest calculated Q of the refined vector lies within its
+// window. It returns the lattice's form in the basis (p, q, r).
 func layerFit(z zone, anchor int, off []int, qs, ws []float64, votes []layerVote, mask uint64, d, e float64) (cell.QForm, bool) {
-	best := map[int]layerVote{}
-	for _, v := range votes {
-		if mask&(uint64(1)<<uint(v.line)) == 0 {
-			continue
+	c := qs[anchor]
+	for it := range 3 {
+		// The nearest proposal of each line: by its line's distance
+		// from (d, e) at first, then by the refined Q's.
+		best := map[int]layerVote{}
+		miss := func(v layerVote) float64 {
+			if it == 0 {
+				return math.Abs(v.al*d+v.be*e-v.ga) / v.tau
+			}
+			fm := float64(v.m)
+			return math.Abs(qs[off[v.line]]-fm*fm*c-2*fm*(float64(v.i)*d+float64(v.j)*e)-z.q(v.i, v.j)) / ws[off[v.line]]
 		}
-		miss := math.Abs(v.al*d+v.be*e-v.ga) / v.tau
-		if b, ok := best[v.line]; !ok || miss < math.Abs(b.al*d+b.be*e-b.ga)/b.tau {
-			best[v.line] = v
+		for _, v := range votes {
+			if it == 0 && mask&(uint64(1)<<uint(v.line)) == 0 || it > 0 && miss(v) > 1 {
+				continue
+			}
+			if b, ok := best[v.line]; !ok || miss(v) < miss(b) {
+				best[v.line] = v
+			}
 		}
+		if len(best)+1 < layerAgree {
+			return cell.QForm{}, false
+		}
+		// Rows: Q − Q(i, j) = m²·C + 2mi·D + 2mj·E, weighted by
+		// 1/window.
+		a := mat.NewDense(len(best)+1, 3, nil)
+		y := mat.NewVecDense(len(best)+1, nil)
+		a.SetRow(0, []float64{1 / ws[anchor], 0, 0})
+		y.SetVec(0, qs[anchor]/ws[anchor])
+		r := 1
+		for _, li := range slices.Sorted(maps.Keys(best)) {
+			v := best[li]
+			k := off[li]
+			fm, fi, fj := float64(v.m), float64(v.i), float64(v.j)
+			w := ws[k]
+			a.SetRow(r, []float64{fm * fm / w, 2 * fm * fi / w, 2 * fm * fj / w})
+			y.SetVec(r, (qs[k]-z.q(v.i, v.j))/w)
+			r++
+		}
+		var x mat.VecDense
+		if err := x.SolveVec(a, y); err != nil {
+			return cell.QForm{}, false
+		}
+		c, d, e = x.AtVec(0), x.AtVec(1), x.AtVec(2)
 	}
-	// Rows: Q − Q(i, j) = m²·C + 2mi·D + 2mj·E, weighted by 1/window.
-	rows := len(best) + 1
-	a := mat.NewDense(rows, 3, nil)
-	y := mat.NewVecDense(rows, nil)
-	a.SetRow(0, []float64{1 / ws[anchor], 0, 0})
-	y.SetVec(0, qs[anchor]/ws[anchor])
-	r := 1
-	for _, li := range slices.Sorted(maps.Keys(best)) {
-		v := best[li]
-		k := off[li]
-		fm, fi, fj := float64(v.m), float64(v.i), float64(v.j)
-		w := ws[k]
-		a.SetRow(r, []float64{fm * fm / w, 2 * fm * fi / w, 2 * fm * fj / w})
-		y.SetVec(r, (qs[k]-z.q(v.i, v.j))/w)
-		r++
-	}
-	var x mat.VecDense
-	if err := x.SolveVec(a, y); err != nil {
-		return cell.QForm{}, false
-	}
-	c, dd, ee := x.AtVec(0), x.AtVec(1), x.AtVec(2)
 	// Basis (p, q, r): A = p·p, B = q·q, C = r·r, D = 2q·r, E = 2p·r,
 	// F = 2p·q.
-	f := cell.QForm{z.qa, z.qb, c, 2 * ee, 2 * dd, 2 * z.r}
+	f := cell.QForm{z.qa, z.qb, c, 2 * e, 2 * d, 2 * z.r}
 	if !(f.Reciprocal().Det() > 0) {
 		return cell.QForm{}, false
 	}
