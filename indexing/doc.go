@@ -22,7 +22,10 @@
 // and volume bounds whose two low-angle lines have indices within those
 // bounds is therefore generated. The zero-point error is an unknown: the
 // search runs on a grid of zero offsets and every candidate is refined with
-// a free zero.
+// a free zero (from five lines for a cubic cell and six for the others,
+// zeroLines). Orthorhombic, monoclinic and triclinic lattices come from
+// the zone method (zone.go): pairs of zones of the lines combined, and,
+// when one zone holds most lines, that zone's layers (layer.go).
 //
 // # Ranking and probability
 //
