@@ -185,24 +185,16 @@ func layerForms(z zone, anchor int, off []int, qs, ws []float64) []cell.QForm {
 			if math.Abs(v.be)*he >= math.Abs(v.al)*hd {
 				for c := range n {
 					d := -dMax + (float64(c)+0.5)*hd
-					lo := (v.ga - v.al*d - pad) / v.be
-					hi := (v.ga - v.al*d + pad) / v.be
-					if lo > hi {
-						lo, hi = hi, lo
-					}
-					for r := max(0, int(math.Floor((lo+eMax)/he))); r <= min(n-1, int(math.Floor((hi+eMax)/he))); r++ {
+					r0, r1 := crossed(v.ga, v.al, v.be, d, pad, eMax, he, n)
+					for r := r0; r <= r1; r++ {
 						mark(v, r, c, d, -eMax+(float64(r)+0.5)*he, pad)
 					}
 				}
 			} else {
 				for r := range n {
 					e := -eMax + (float64(r)+0.5)*he
-					lo := (v.ga - v.be*e - pad) / v.al
-					hi := (v.ga - v.be*e + pad) / v.al
-					if lo > hi {
-						lo, hi = hi, lo
-					}
-					for c := max(0, int(math.Floor((lo+dMax)/hd))); c <= min(n-1, int(math.Floor((hi+dMax)/hd))); c++ {
+					c0, c1 := crossed(v.ga, v.be, v.al, e, pad, dMax, hd, n)
+					for c := c0; c <= c1; c++ {
 						mark(v, r, c, -dMax+(float64(c)+0.5)*hd, e, pad)
 					}
 				}
@@ -243,6 +235,16 @@ func layerForms(z zone, anchor int, off []int, qs, ws []float64) []cell.QForm {
 		}
 	}
 	return out
+}
+
+// crossed returns the first and last of the n cells, of width h from
+// −lim, along y that the line a·x + b·y = g, within ±pad, crosses at x.
+func crossed(g, a, b, x, pad, lim, h float64, n int) (int, int) {
+	lo, hi := (g-a*x-pad)/b, (g-a*x+pad)/b
+	if lo > hi {
+		lo, hi = hi, lo
+	}
+	return max(0, int(math.Floor((lo+lim)/h))), min(n-1, int(math.Floor((hi+lim)/h)))
 }
 
 // layerApart is how many cells of the Hough grid apart the crossings
