@@ -54,3 +54,33 @@ func TestFewCubicLinesZero(t *testing.T) {
 		}
 	}
 }
+
+// TestZeroRhombohedralOnly: a search of the rhombohedral lattices alone
+// (searched as hexagonal ones) refines the zero offset as a search of
+// every system does: the first eight lines of corundum (a = 4.759, c =
+// 12.991 Å on hexagonal axes, handbook values from memory) shifted by
+// +0.1° 2θ.
+func TestZeroRhombohedralOnly(t *testing.T) {
+	const cu = 1.5405929 // Hölzer et al. 1997 (from memory)
+	c := cell.Must(cell.Rhombohedral, cell.R, 4.759, 12.991)
+	var ls []cell.Line
+	for _, r := range cell.Reflections(c, qOf(150, 0, cu)) {
+		if len(ls) == 8 {
+			break
+		}
+		ls = append(ls, cell.Line{TwoTheta: ttOf(r.Q, cu) + 0.1, ESD: 0.004})
+	}
+	for _, systems := range [][]cell.System{nil, {cell.Rhombohedral}} {
+		res, err := Index(context.Background(), ls, Options{Wavelength: cu, Systems: systems}, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(res.Solutions) == 0 || math.Abs(res.Solutions[0].Zero-0.1) > 0.01 {
+			t.Errorf("systems %v: no solution, or the zero not refined to 0.1°", systems)
+			continue
+		}
+		if got := res.Solutions[0].Cell; got.System != cell.Rhombohedral || math.Abs(got.A/c.A-1) > 1e-3 || math.Abs(got.C/c.C-1) > 1e-3 {
+			t.Errorf("systems %v: first %v, want %v", systems, got, c)
+		}
+	}
+}

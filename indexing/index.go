@@ -7,6 +7,7 @@ import (
 	"math"
 	"slices"
 	"sort"
+	"strings"
 	"sync"
 
 	"gonum.org/v1/gonum/stat/distuv"
@@ -99,19 +100,23 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 	first := all[:min(len(all), o.Lines)]
 	n := len(first)
 	var notes []string
+	// The zero is refined by system (every system: the rhombohedral
+	// lattices are searched as hexagonal ones).
 	zeroFree := map[cell.System]bool{}
-	anyFree := false
-	for s := range want {
+	var free []string
+	for _, s := range cell.Systems {
 		zeroFree[s] = o.ZeroRange > 0 && n >= zeroLines(s)
-		anyFree = anyFree || zeroFree[s]
+		if zeroFree[s] && want[s] {
+			free = append(free, s.String())
+		}
 	}
 	switch {
-	case o.ZeroRange > 0 && !anyFree:
+	case o.ZeroRange > 0 && len(free) == 0:
 		// So few lines cannot tell a zero offset from the cell.
 		o.ZeroRange = 0
 		notes = append(notes, fmt.Sprintf("with fewer than %d lines the zero shift is held at 0", fewestZeroLines(want)))
 	case o.ZeroRange > 0 && n < minZeroLines:
-		notes = append(notes, fmt.Sprintf("with %d lines the zero shift is refined with cubic cells only and held at 0 for the others", n))
+		notes = append(notes, fmt.Sprintf("with %d lines the zero shift is refined with %s cells only and held at 0 for the others", n, strings.Join(free, " and ")))
 	}
 	zeros := []float64{0}
 	for z := zeroStep; z <= o.ZeroRange+1e-9; z += zeroStep {
