@@ -23,14 +23,13 @@ import (
 // with C = r·r, D = r·p and E = r·q, linear in the three unknowns.
 // Taking r as the shortest vector of the first layer (its projection
 // on the zone within the zone's reduced mesh, so that |2D| ≤ p·p and
-// |2E| ≤ q·q), the lowest line off the zone is (0, 0, 1), which gives
-// C, and every other line off the zone and index triple (i, j, m)
-// proposes a straight line in the plane of (D, E). Where lines of
-// several observed lines cross is the third vector: a Hough transform
-// (Hough 1962; Duda & Hart, Comm. ACM 15 (1972) 11) over a grid of the
-// mesh, each crossing then refined by least squares on the lines it
-// holds. This is the search of the third axis from a known zone, done
-// by hand by the early indexers of layer lines (common practice).
+// |2E| ≤ q·q), the lowest line off the zone is taken as (0, 0, 1),
+// which gives C (or the next lowest, layerAnchors), and every other line
+// off the zone and index triple (i, j, m) proposes a straight line in
+// the plane of (D, E). Where lines of several observed lines cross is
+// the third vector: a Hough transform (Hough, US patent 3 069 654,
+// 1962; Duda & Hart, Comm. ACM 15 (1972) 11) over a grid of the mesh,
+// each crossing then refined by least squares on the lines it holds.
 
 // layerShare is the least share of the lines a zone must index for its
 // layers to be searched. Up to Q_N a plane of the reciprocal lattice
