@@ -95,9 +95,11 @@ func layerLattices(zs []zone, qs, ws []float64, need int) []cell.QForm {
 		}
 		off = off[:min(len(off), layerMaxLines)]
 		for a := 0; a < min(layerAnchors, len(off)-layerAgree+1); a++ {
-			for _, f := range layerForms(z, off[a], off, qs, ws) {
-				if n, fig := lines.count(f, math.MaxInt32); n >= need && fig >= minFormFigure {
-					out = append(out, f)
+			for _, reach := range []float64{0.5, layerReach} {
+				for _, f := range layerForms(z, off[a], off, qs, ws, reach) {
+					if n, fig := lines.count(f, math.MaxInt32); n >= need && fig >= minFormFigure {
+						out = append(out, f)
+					}
 				}
 			}
 		}
@@ -118,10 +120,10 @@ type layerVote struct {
 // whose first layer's shortest reflection is the line anchor, from the
 // crossings in the mesh of the proposals of the lines off (indices into
 // qs, anchor among them).
-func layerForms(z zone, anchor int, off []int, qs, ws []float64) []cell.QForm {
+func layerForms(z zone, anchor int, off []int, qs, ws []float64, reach float64) []cell.QForm {
 	c0, w0 := qs[anchor], ws[anchor]
 	// The mesh: |2D| ≤ p·p, |2E| ≤ q·q, a little wider for the windows.
-	dMax, eMax := 0.55*z.qa, 0.55*z.qb
+	dMax, eMax := (reach+0.05)*z.qa, (reach+0.05)*z.qb
 	// The index pairs of a line's layer m: Q(i, j) ≤ Q + 2m(|i|·|D| +
 	// |j|·|E|), within |i| ≤ (1 + m)·√(Q_N·q·q/det), likewise j (the
 	// zone's pairs up to Q_N, and m times the mesh beyond).
@@ -309,3 +311,9 @@ func layerFit(z zone, anchor int, off []int, qs, ws []float64, votes []layerVote
 	}
 	return f, true
 }
+
+// layerReach bounds the third vector's products with the zone's in a
+// second search, |D| ≤ layerReach·p·p and |E| ≤ layerReach·q·q: the
+// anchor may then be any reflection of the first layer within one step
+// of the mesh of its shortest, which may be too weak to be seen.
+const layerReach = 1.5
