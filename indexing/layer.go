@@ -23,7 +23,8 @@ import (
 // with C = r·r, D = r·p and E = r·q, linear in the three unknowns.
 // Taking r as the shortest vector of the first layer (its projection
 // on the zone within the zone's reduced mesh, so that |2D| ≤ p·p and
-// |2E| ≤ q·q), the lowest line off the zone is taken as (0, 0, 1),
+// |2E| ≤ q·q; or, in a second search, one a mesh step from it,
+// layerReach), the lowest line off the zone is taken as (0, 0, 1),
 // which gives C (or the next lowest, layerAnchors), and every other line
 // off the zone and index triple (i, j, m) proposes a straight line in
 // the plane of (D, E). Where lines of several observed lines cross is
@@ -117,9 +118,10 @@ type layerVote struct {
 }
 
 // layerForms returns the forms of the zone z completed by a third vector
-// whose first layer's shortest reflection is the line anchor, from the
-// crossings in the mesh of the proposals of the lines off (indices into
-// qs, anchor among them).
+// whose first layer's reflection (0, 0, 1) is the line anchor, from the
+// crossings of the proposals of the lines off (indices into qs, anchor
+// among them) where |D| ≤ reach·p·p and |E| ≤ reach·q·q: a half for the
+// shortest reflection of the layer, more for one near it.
 func layerForms(z zone, anchor int, off []int, qs, ws []float64, reach float64) []cell.QForm {
 	c0, w0 := qs[anchor], ws[anchor]
 	// The mesh: |2D| ≤ p·p, |2E| ≤ q·q, a little wider for the windows.
