@@ -384,6 +384,8 @@ func (sr *searcher) run(ls []obs, res *Result, zones bool) ([]*cand, error) {
 			lw[s] = true
 		}
 	}
+	// The lower systems refine the zero from as many lines as each
+	// other (zeroLines), the orthorhombic cells' standing for all.
 	zeros, oz := sr.zerosOf(lowSystems[0], o)
 	ks, _, err := zoneSearch(sr.ctx, ls, sr.all, pool, oz, lw, need, zeros, sr.tick)
 	for range len(sr.zeros) - len(zeros) {

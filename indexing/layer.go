@@ -124,7 +124,8 @@ type layerVote struct {
 // shortest reflection of the layer, more for one near it.
 func layerForms(z zone, anchor int, off []int, qs, ws []float64, reach float64) []cell.QForm {
 	c0, w0 := qs[anchor], ws[anchor]
-	// The mesh: |2D| ≤ p·p, |2E| ≤ q·q, a little wider for the windows.
+	// The mesh searched: |D| ≤ reach·p·p, |E| ≤ reach·q·q, a twentieth
+	// of the zone's mesh wider for the windows.
 	dMax, eMax := (reach+0.05)*z.qa, (reach+0.05)*z.qb
 	// The index pairs of a line's layer m: Q(i, j) ≤ Q + 2m(|i|·|D| +
 	// |j|·|E|), within |i| ≤ (1 + m)·√(Q_N·q·q/det), likewise j (the
