@@ -218,6 +218,29 @@ func layerForms(z zone, anchor int, off []int, qs, ws []float64, reach float64) 
 	// closest crossing first, one of each neighbourhood: the crossing
 	// of lines as thick as theirs is a ridge some cells wide.
 	var out []cell.QForm
+	// The third vector's special places first: its projection on the
+	// zone at a point of the zone's half mesh (x·p + y·q, x and y whole
+	// or half), where the lattice has a twofold axis normal to the zone
+	// — the monoclinic and orthorhombic lattices' — and its reflections
+	// coincide in pairs. When few lines lie off the zone, their windows
+	// cross over much of the grid and the closest crossing is a chance
+	// one, and these places are weighed beside it. −r stands for r, so
+	// x ≥ 0.
+	for _, x := range []float64{0, 0.5, 1} {
+		for _, y := range []float64{-1, -0.5, 0, 0.5, 1} {
+			if x == 0 && y < 0 {
+				continue
+			}
+			d, e := x*z.qa+y*z.r, x*z.r+y*z.qb
+			c, r := int(math.Floor((d+dMax)/hd)), int(math.Floor((e+eMax)/he))
+			if c < 0 || c >= n || r < 0 || r >= n || bits.OnesCount64(mask[r*n+c])+1 < layerAgree {
+				continue
+			}
+			if f, ok := layerFit(z, anchor, off, qs, ws, votes, mask[r*n+c], d, e); ok {
+				out = append(out, f)
+			}
+		}
+	}
 	for range layerPeaks {
 		best := -1
 		for idx, b := range mask {
@@ -232,10 +255,22 @@ func layerForms(z zone, anchor int, off []int, qs, ws []float64, reach float64) 
 		if f, ok := layerFit(z, anchor, off, qs, ws, votes, mask[best], -dMax+(float64(c)+0.5)*hd, -eMax+(float64(r)+0.5)*he); ok {
 			out = append(out, f)
 		}
-		for rr := max(0, r-layerApart); rr <= min(n-1, r+layerApart); rr++ {
-			for cc := max(0, c-layerApart); cc <= min(n-1, c+layerApart); cc++ {
-				mask[rr*n+cc] = 0
+		// Its neighbourhood, and the same lattice's crossings: −r
+		// gives (−D, −E), and over a rectangular zone (findZones makes
+		// one with p·q = 0 from a single line) the mirror images
+		// (−D, E) and (D, −E) are lattices of the same Q.
+		drop := func(r, c int) {
+			for rr := max(0, r-layerApart); rr <= min(n-1, r+layerApart); rr++ {
+				for cc := max(0, c-layerApart); cc <= min(n-1, c+layerApart); cc++ {
+					mask[rr*n+cc] = 0
+				}
 			}
+		}
+		drop(r, c)
+		drop(n-1-r, n-1-c)
+		if z.r == 0 {
+			drop(r, n-1-c)
+			drop(n-1-r, c)
 		}
 	}
 	return out
