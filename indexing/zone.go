@@ -452,7 +452,7 @@ func (o *voteOrder) sort(vs []vote) {
 }
 
 // reducedKey rounds the Niggli reduced Gruber vector of a form's lattice
-// (relative to its mean edge², in steps of 1e-3) for de-duplication.
+// for de-duplication (keyOf).
 func reducedKey(f cell.QForm) ([6]int64, bool) {
 	c, err := f.Cell(cell.Triclinic, cell.P)
 	if err != nil {
@@ -465,16 +465,22 @@ func reducedKey(f cell.QForm) ([6]int64, bool) {
 	return keyOf(red), true
 }
 
-// keyOf is reducedKey of a lattice already reduced.
+// keyOf rounds a reduced lattice's Gruber vector for de-duplication:
+// each edge² in relative steps of 1e-3 (half that in the edge), each
+// product 2b·c·cos α, 2a·c·cos β, 2a·b·cos γ over its two edges
+// (the cosine) in steps of 1e-3. Each component to its own scale: a
+// short edge beside long ones is told apart to the same precision
+// (steps of the mean edge² would merge short edges 1 % apart).
 func keyOf(red cell.Reduced) [6]int64 {
 	g := red.G6
-	v := [6]float64{g.A, g.B, g.C, g.Xi, g.Eta, g.Zeta}
-	m := (v[0] + v[1] + v[2]) / 3
-	var k [6]int64
-	for i := range k {
-		k[i] = int64(math.Round(v[i] / m * 1000))
+	return [6]int64{
+		int64(math.Round(math.Log(g.A) * 1000)),
+		int64(math.Round(math.Log(g.B) * 1000)),
+		int64(math.Round(math.Log(g.C) * 1000)),
+		int64(math.Round(g.Xi / (2 * math.Sqrt(g.B*g.C)) * 1000)),
+		int64(math.Round(g.Eta / (2 * math.Sqrt(g.A*g.C)) * 1000)),
+		int64(math.Round(g.Zeta / (2 * math.Sqrt(g.A*g.B)) * 1000)),
 	}
-	return k
 }
 
 // A lineSet holds the lines (Q qs, windows ws, sorted) that countForm
