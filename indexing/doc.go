@@ -25,7 +25,9 @@
 // a free zero (from five lines for a cubic cell and six for the others,
 // zeroLines). Orthorhombic, monoclinic and triclinic lattices come from
 // the zone method (zone.go): pairs of zones of the lines combined, and,
-// when one zone holds most lines, that zone's layers (layer.go).
+// when one zone holds most lines, that zone's layers (layer.go), down
+// to a single line off the zone at the places where the lattice has a
+// twofold axis normal to it.
 //
 // # Ranking and probability
 //

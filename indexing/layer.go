@@ -91,7 +91,24 @@ func layerLattices(zs []zone, qs, ws []float64, need int) []cell.QForm {
 				off = append(off, i)
 			}
 		}
+		if len(off) == 0 {
+			continue
+		}
 		if len(off) < layerAgree {
+			// Too few lines off the zone to agree on a crossing: the
+			// third vector at the special places alone, its first
+			// layer's reflection each of the lowest lines off the zone.
+			for _, k := range off[:min(len(off), layerAnchors)] {
+				for _, p := range halfMesh(z, (layerReach+0.05)*z.qa, (layerReach+0.05)*z.qb) {
+					f := cell.QForm{z.qa, z.qb, qs[k], 2 * p[1], 2 * p[0], 2 * z.r}
+					if !(f.Reciprocal().Det() > 0) {
+						continue
+					}
+					if n, fig := lines.count(f, math.MaxInt32); n >= need && fig >= minFormFigure {
+						out = append(out, f)
+					}
+				}
+			}
 			continue
 		}
 		off = off[:min(len(off), layerMaxLines)]
@@ -218,27 +235,17 @@ func layerForms(z zone, anchor int, off []int, qs, ws []float64, reach float64) 
 	// closest crossing first, one of each neighbourhood: the crossing
 	// of lines as thick as theirs is a ridge some cells wide.
 	var out []cell.QForm
-	// The third vector's special places first: its projection on the
-	// zone at a point of the zone's half mesh (x·p + y·q, x and y whole
-	// or half), where the lattice has a twofold axis normal to the zone
-	// — the monoclinic and orthorhombic lattices' — and its reflections
-	// coincide in pairs. When few lines lie off the zone, their windows
-	// cross over much of the grid and the closest crossing is a chance
-	// one, and these places are weighed beside it. −r stands for r, so
-	// x ≥ 0.
-	for _, x := range []float64{0, 0.5, 1} {
-		for _, y := range []float64{-1, -0.5, 0, 0.5, 1} {
-			if x == 0 && y < 0 {
-				continue
-			}
-			d, e := x*z.qa+y*z.r, x*z.r+y*z.qb
-			c, r := int(math.Floor((d+dMax)/hd)), int(math.Floor((e+eMax)/he))
-			if c < 0 || c >= n || r < 0 || r >= n || bits.OnesCount64(mask[r*n+c])+1 < layerAgree {
-				continue
-			}
-			if f, ok := layerFit(z, anchor, off, qs, ws, votes, mask[r*n+c], d, e); ok {
-				out = append(out, f)
-			}
+	// The special places first (halfMesh): when few lines lie off the
+	// zone, their windows cross over much of the grid and the closest
+	// crossing is a chance one, and these places are weighed beside it.
+	for _, p := range halfMesh(z, dMax, eMax) {
+		d, e := p[0], p[1]
+		c, r := int(math.Floor((d+dMax)/hd)), int(math.Floor((e+eMax)/he))
+		if bits.OnesCount64(mask[r*n+c])+1 < layerAgree {
+			continue
+		}
+		if f, ok := layerFit(z, anchor, off, qs, ws, votes, mask[r*n+c], d, e); ok {
+			out = append(out, f)
 		}
 	}
 	for range layerPeaks {
@@ -271,6 +278,30 @@ func layerForms(z zone, anchor int, off []int, qs, ws []float64, reach float64) 
 		if z.r == 0 {
 			drop(r, n-1-c)
 			drop(n-1-r, c)
+		}
+	}
+	return out
+}
+
+// halfMesh returns the special places (D, E) of the third vector r over
+// the zone z within |D| < dMax and |E| < eMax: those where its
+// projection on the zone is a point of the zone's half mesh, x·p + y·q
+// with x and y whole or half (at most one step), D = r·p and E = r·q.
+// There the lattice has a twofold axis normal to the zone (the rotation
+// takes r to r − 2(x·p + y·q), a lattice vector), as the monoclinic and
+// orthorhombic lattices have, and its reflections coincide in pairs.
+// −r stands for r, so x ≥ 0.
+func halfMesh(z zone, dMax, eMax float64) [][2]float64 {
+	var out [][2]float64
+	for _, x := range []float64{0, 0.5, 1} {
+		for _, y := range []float64{-1, -0.5, 0, 0.5, 1} {
+			if x == 0 && y < 0 {
+				continue
+			}
+			d, e := x*z.qa+y*z.r, x*z.r+y*z.qb
+			if math.Abs(d) < dMax && math.Abs(e) < eMax {
+				out = append(out, [2]float64{d, e})
+			}
 		}
 	}
 	return out

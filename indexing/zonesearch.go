@@ -17,8 +17,12 @@ import (
 var settingTol = cell.Tolerance{Length: 0.004, Angle: 0.4}
 
 // latticeKeep is how many lattices of the zone search, refined as
-// triclinic cells, go on to the higher systems' descriptions.
-const latticeKeep = 30
+// triclinic cells, go on to the higher systems' descriptions; heldKeep
+// how many that could not be refined so (see zoneCands).
+const (
+	latticeKeep = 30
+	heldKeep    = 10
+)
 
 // minTranslation is the shortest lattice translation, Å, of a lattice
 // the zone method proposes (the first edge of its Niggli-reduced cell).
@@ -134,10 +138,13 @@ func zoneForms(ctx context.Context, first []obs, o Options, zeros []float64, nee
 type latticeMemo struct {
 	tri       map[[6]int64]*cand
 	described map[*cand][]*cand
+	// held are the lattices that index enough lines but whose lines do
+	// not fix them as triclinic cells (see zoneCands), by key.
+	held map[[6]int64]*cand
 }
 
 func newLatticeMemo() *latticeMemo {
-	return &latticeMemo{tri: map[[6]int64]*cand{}, described: map[*cand][]*cand{}}
+	return &latticeMemo{tri: map[[6]int64]*cand{}, described: map[*cand][]*cand{}, held: map[[6]int64]*cand{}}
 }
 
 // zoneCands refines the lattices the zone method found at the zero
@@ -147,8 +154,15 @@ func newLatticeMemo() *latticeMemo {
 // earlier rounds made (see latticeMemo).
 func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System]bool, need int, zeros []float64, formsAt [][]cell.QForm, memo *latticeMemo) ([]*cand, error) {
 	// Each lattice is first refined as it is (triclinic); the best go on
-	// to their descriptions in the higher systems.
-	var tri []*cand
+	// to their descriptions in the higher systems. A lattice that
+	// indexes enough lines whose refinement as a triclinic cell fails
+	// (its lines do not fix all six parameters: the lines off one zone
+	// too few to fix the third vector's three products) goes on as it
+	// is, since a system's constraints may leave the lines enough to
+	// fix the rest (an orthorhombic cell's third vector has one
+	// parameter, its length); the first heldKeep of them, most lines
+	// first.
+	var tri, held []*cand
 	seen := map[[6]int64]bool{}
 	for zi, z := range zeros {
 		for _, f := range formsAt[zi] {
@@ -175,6 +189,9 @@ func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System
 				if ok {
 					k.figures(first, o.Wavelength)
 				}
+				if !ok && k.indexed >= need {
+					memo.held[key] = &cand{c: red.Cell, zero: z, zeroFree: o.ZeroRange > 0, indexed: k.indexed}
+				}
 				if !ok || !(k.m > 0) {
 					k = nil
 				}
@@ -182,10 +199,12 @@ func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System
 			}
 			if k != nil {
 				tri = append(tri, k)
+			} else if h := memo.held[key]; h != nil {
+				held = append(held, h)
 			}
 		}
 	}
-	tri = bestCands(tri, latticeKeep)
+	tri = append(bestCands(tri, latticeKeep), bestCands(held, heldKeep)...)
 	var out []*cand
 	for _, t := range tri {
 		if err := ctx.Err(); err != nil {
@@ -195,7 +214,7 @@ func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System
 		if err != nil {
 			continue
 		}
-		if want[cell.Triclinic] {
+		if want[cell.Triclinic] && memo.held[keyOf(red)] != t {
 			out = append(out, t)
 		}
 		ds, done := memo.described[t]
