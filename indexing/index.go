@@ -187,10 +187,13 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 	// Lines that all lie in one zone of the best cell fix two of its
 	// axes only: a lattice with one short edge beside long ones has its
 	// first lines in the zone normal to that edge, and the lines that fix
-	// the third axis come later. The search is then repeated on twice
-	// the lines (once), whose result is the better informed.
+	// the third axis come later. A cell that leaves the next lines
+	// unexplained was likewise fitted to the first alone
+	// (unexplainedLater). The search is then repeated on twice the lines
+	// (once), whose result is the better informed.
 	if !o.widened && n == o.Lines && len(all) > n && len(ranked) > 0 && wantsLower(want) {
-		if _, ok := loneZone(ranked[0], first, o.Wavelength); ok {
+		_, lone := loneZone(ranked[0], first, o.Wavelength)
+		if lone || unexplainedLater(ranked[0], n) {
 			wider := opt
 			wider.Lines, wider.widened = min(len(all), 2*o.Lines), true
 			r, err := Index(ctx, lines, wider, progress)
@@ -198,7 +201,11 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 				return nil, err
 			}
 			if len(r.Solutions) > 0 {
-				r.Warnings = append(r.Warnings, fmt.Sprintf("the first %d lines lie in one zone of the best cell found from them, which fixes two of its axes only; the search was repeated on the first %d lines", n, r.LinesUsed))
+				why := fmt.Sprintf("the first %d lines lie in one zone of the best cell found from them, which fixes two of its axes only", n)
+				if !lone {
+					why = fmt.Sprintf("the best cell found from the first %d lines left more of the next lines unindexed than chance allows", n)
+				}
+				r.Warnings = append(r.Warnings, fmt.Sprintf("%s; the search was repeated on the first %d lines", why, r.LinesUsed))
 				return r, nil
 			}
 		}
