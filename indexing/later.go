@@ -1,6 +1,6 @@
 package indexing
 
-import "math"
+import "gonum.org/v1/gonum/stat/distuv"
 
 // unexplainedLater reports whether the cell k, found from the first n
 // lines, leaves significantly more of the next n lines unindexed than
@@ -42,12 +42,5 @@ func binomialTail(n, k int, p float64) float64 {
 	if k <= 0 {
 		return 1
 	}
-	var sum float64
-	for i := k; i <= n; i++ {
-		lc, _ := math.Lgamma(float64(n + 1))
-		li, _ := math.Lgamma(float64(i + 1))
-		lr, _ := math.Lgamma(float64(n - i + 1))
-		sum += math.Exp(lc - li - lr + float64(i)*math.Log(p) + float64(n-i)*math.Log1p(-p))
-	}
-	return sum
+	return distuv.Binomial{N: float64(n), P: p}.Survival(float64(k - 1))
 }

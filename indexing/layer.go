@@ -98,10 +98,11 @@ func layerLattices(zs []zone, qs, ws []float64, need int) []cell.QForm {
 			// Too few lines off the zone to agree on a crossing: the
 			// third vector at the special places alone, its first
 			// layer's reflection each of the lowest lines off the zone.
+			dMax, eMax := meshBounds(z, layerReach)
 			for _, k := range off[:min(len(off), layerAnchors)] {
-				for _, p := range halfMesh(z, (layerReach+0.05)*z.qa, (layerReach+0.05)*z.qb) {
-					f := cell.QForm{z.qa, z.qb, qs[k], 2 * p[1], 2 * p[0], 2 * z.r}
-					if !(f.Reciprocal().Det() > 0) {
+				for _, p := range halfMesh(z, dMax, eMax) {
+					f, ok := layerForm(z, qs[k], p[0], p[1])
+					if !ok {
 						continue
 					}
 					if n, fig := lines.count(f, math.MaxInt32); n >= need && fig >= minFormFigure {
@@ -141,9 +142,7 @@ type layerVote struct {
 // shortest reflection of the layer, more for one near it.
 func layerForms(z zone, anchor int, off []int, qs, ws []float64, reach float64) []cell.QForm {
 	c0, w0 := qs[anchor], ws[anchor]
-	// The mesh searched: |D| ≤ reach·p·p, |E| ≤ reach·q·q, a twentieth
-	// of the zone's mesh wider for the windows.
-	dMax, eMax := (reach+0.05)*z.qa, (reach+0.05)*z.qb
+	dMax, eMax := meshBounds(z, reach)
 	// The index pairs of a line's layer m: Q(i, j) ≤ Q + 2m(|i|·|D| +
 	// |j|·|E|), within |i| ≤ (1 + m)·√(Q_N·q·q/det), likewise j (the
 	// zone's pairs up to Q_N, and m times the mesh beyond).
@@ -231,9 +230,6 @@ func layerForms(z zone, anchor int, off []int, qs, ws []float64, reach float64) 
 		}
 		start = end
 	}
-	// The cells crossed by layerAgree lines with the anchor at least,
-	// closest crossing first, one of each neighbourhood: the crossing
-	// of lines as thick as theirs is a ridge some cells wide.
 	var out []cell.QForm
 	// The special places first (halfMesh): when few lines lie off the
 	// zone, their windows cross over much of the grid and the closest
@@ -246,6 +242,20 @@ func layerForms(z zone, anchor int, off []int, qs, ws []float64, reach float64) 
 		}
 		if f, ok := layerFit(z, anchor, off, qs, ws, votes, mask[r*n+c], d, e); ok {
 			out = append(out, f)
+		}
+	}
+	// Then the cells crossed by layerAgree lines with the anchor at
+	// least, closest crossing first, one of each neighbourhood (the
+	// crossing of lines as thick as theirs is a ridge some cells wide),
+	// and the same lattice's crossings: −r gives (−D, −E), and over a
+	// rectangular zone (findZones makes one with p·q = 0 from a single
+	// line) the mirror images (−D, E) and (D, −E) are lattices of the
+	// same Q.
+	drop := func(r, c int) {
+		for rr := max(0, r-layerApart); rr <= min(n-1, r+layerApart); rr++ {
+			for cc := max(0, c-layerApart); cc <= min(n-1, c+layerApart); cc++ {
+				mask[rr*n+cc] = 0
+			}
 		}
 	}
 	for range layerPeaks {
@@ -262,17 +272,6 @@ func layerForms(z zone, anchor int, off []int, qs, ws []float64, reach float64) 
 		if f, ok := layerFit(z, anchor, off, qs, ws, votes, mask[best], -dMax+(float64(c)+0.5)*hd, -eMax+(float64(r)+0.5)*he); ok {
 			out = append(out, f)
 		}
-		// Its neighbourhood, and the same lattice's crossings: −r
-		// gives (−D, −E), and over a rectangular zone (findZones makes
-		// one with p·q = 0 from a single line) the mirror images
-		// (−D, E) and (D, −E) are lattices of the same Q.
-		drop := func(r, c int) {
-			for rr := max(0, r-layerApart); rr <= min(n-1, r+layerApart); rr++ {
-				for cc := max(0, c-layerApart); cc <= min(n-1, c+layerApart); cc++ {
-					mask[rr*n+cc] = 0
-				}
-			}
-		}
 		drop(r, c)
 		drop(n-1-r, n-1-c)
 		if z.r == 0 {
@@ -281,6 +280,22 @@ func layerForms(z zone, anchor int, off []int, qs, ws []float64, reach float64) 
 		}
 	}
 	return out
+}
+
+// meshBounds returns the bounds of the place of the third vector
+// searched with reach (|D| ≤ reach·p·p, |E| ≤ reach·q·q), a twentieth of
+// the zone's mesh wider for the windows.
+func meshBounds(z zone, reach float64) (dMax, eMax float64) {
+	return (reach + 0.05) * z.qa, (reach + 0.05) * z.qb
+}
+
+// layerForm returns the lattice's form in the basis (p, q, r) of the
+// zone z and a third vector r with C = r·r, D = r·p and E = r·q; false
+// when they make no lattice.
+func layerForm(z zone, c, d, e float64) (cell.QForm, bool) {
+	// A = p·p, B = q·q, C = r·r, D = 2q·r, E = 2p·r, F = 2p·q.
+	f := cell.QForm{z.qa, z.qb, c, 2 * e, 2 * d, 2 * z.r}
+	return f, f.Reciprocal().Det() > 0
 }
 
 // halfMesh returns the special places (D, E) of the third vector r over
@@ -372,13 +387,7 @@ func layerFit(z zone, anchor int, off []int, qs, ws []float64, votes []layerVote
 		}
 		c, d, e = x.AtVec(0), x.AtVec(1), x.AtVec(2)
 	}
-	// Basis (p, q, r): A = p·p, B = q·q, C = r·r, D = 2q·r, E = 2p·r,
-	// F = 2p·q.
-	f := cell.QForm{z.qa, z.qb, c, 2 * e, 2 * d, 2 * z.r}
-	if !(f.Reciprocal().Det() > 0) {
-		return cell.QForm{}, false
-	}
-	return f, true
+	return layerForm(z, c, d, e)
 }
 
 // layerReach bounds the third vector's products with the zone's in a

@@ -185,11 +185,13 @@ func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System
 					return nil, err
 				}
 				k = &cand{c: red.Cell, zero: z, zeroFree: o.ZeroRange > 0}
-				ok := k.settle(first, o.Wavelength, screenExtra, need) && math.Abs(k.zero) <= o.zeroBound()
+				settled := k.settle(first, o.Wavelength, screenExtra, need)
+				ok := settled && math.Abs(k.zero) <= o.zeroBound()
 				if ok {
 					k.figures(first, o.Wavelength)
 				}
-				if !ok && k.indexed >= need {
+				if !settled && k.indexed >= need {
+					// Indexed enough, and the refinement failed.
 					memo.held[key] = &cand{c: red.Cell, zero: z, zeroFree: o.ZeroRange > 0, indexed: k.indexed}
 				}
 				if !ok || !(k.m > 0) {
@@ -204,9 +206,11 @@ func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System
 			}
 		}
 	}
-	tri = append(bestCands(tri, latticeKeep), bestCands(held, heldKeep)...)
+	tri = bestCands(tri, latticeKeep)
+	nTri := len(tri) // the held follow, not refined as triclinic cells
+	tri = append(tri, bestCands(held, heldKeep)...)
 	var out []*cand
-	for _, t := range tri {
+	for i, t := range tri {
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
@@ -214,7 +218,7 @@ func zoneCands(ctx context.Context, first []obs, o Options, want map[cell.System
 		if err != nil {
 			continue
 		}
-		if want[cell.Triclinic] && memo.held[keyOf(red)] != t {
+		if want[cell.Triclinic] && i < nTri {
 			out = append(out, t)
 		}
 		ds, done := memo.described[t]
