@@ -64,24 +64,37 @@ type Candidate struct {
 	// candidates were close enough to be weighed by the pattern; nil
 	// otherwise.
 	Evidence *PatternEvidence
+	// Pattern is the whole-pattern refinement of the first candidate's
+	// cell when it gives the volume no less precisely than the peak
+	// positions (polish); nil otherwise. PolishNote says which cell was kept and
+	// why (empty when no fit was tried).
+	Pattern    *PatternFit
+	PolishNote string
 	// Contents, when a formula was given; ContentsErr says why not
 	// when they could not be worked out.
 	Contents    *density.Contents
 	ContentsErr error
 }
 
-// Cell returns the refined cell, or the indexing's when the refinement
-// failed.
+// Cell returns the refined cell: from the whole pattern when that was
+// kept (Pattern), else from the peak positions, else the indexing's
+// when the refinement failed.
 func (c *Candidate) Cell() cell.Cell {
+	if c.Pattern != nil {
+		return c.Pattern.Fit.Phases[0].Cell
+	}
 	if c.Refined != nil {
 		return c.Refined.Cell
 	}
 	return c.Solution.Cell
 }
 
-// Covariance returns the covariance of the cell's parameters: the
-// refinement's, or none.
+// Covariance returns the covariance of the cell's parameters: that of
+// the refinement Cell returns, or none.
 func (c *Candidate) Covariance() cell.Covariance {
+	if c.Pattern != nil {
+		return c.Pattern.Fit.Phases[0].Covariance
+	}
 	if c.Refined != nil {
 		return c.Refined.Covariance
 	}
@@ -90,6 +103,10 @@ func (c *Candidate) Covariance() cell.Covariance {
 
 // Volume returns the cell volume and its esd in Å³.
 func (c *Candidate) Volume() (float64, float64) {
+	if c.Pattern != nil {
+		ph := c.Pattern.Fit.Phases[0]
+		return ph.Volume, ph.VolumeESD
+	}
 	if c.Refined != nil {
 		return c.Refined.Volume, c.Refined.VolumeESD
 	}
@@ -97,7 +114,8 @@ func (c *Candidate) Volume() (float64, float64) {
 }
 
 // Position returns the calculated 2θ (degrees) of reflection h: under the
-// refined cell and corrections, else the indexing's cell and zero offset.
+// cell and corrections refined on the peak positions (the lines' own
+// residuals), else the indexing's cell and zero offset.
 func (c *Candidate) Position(h cell.HKL, lambda float64) float64 {
 	if c.Refined != nil {
 		return c.Refined.Position(h)
@@ -310,6 +328,15 @@ func analyse(ctx context.Context, e *Extraction, s Settings, progress Progress, 
 	if s.WeighByPattern && earlier == nil {
 		if err := weighByPattern(ctx, a, e, s); err != nil {
 			return nil, err
+		}
+	}
+	if earlier == nil {
+		if err := polish(ctx, a, e, s); err != nil {
+			return nil, err
+		}
+		if len(a.Candidates) > 0 && a.Candidates[0].Pattern != nil && s.Formula != nil {
+			c := &a.Candidates[0]
+			c.Contents, c.ContentsErr = contents(c, s)
 		}
 	}
 	if s.Density != nil {

@@ -41,6 +41,12 @@ type UnexplainedLine struct {
 // converges from cells whose lines already fall within a width or two of
 // their peaks.
 func FitPattern(ctx context.Context, e *Extraction, cells []cell.Cell, s Settings, progress Progress) (*PatternFit, error) {
+	return fitPattern(ctx, e, cells, s, progress, 0)
+}
+
+// fitPattern is FitPattern with a bound on the iterations of each of the
+// fit's stages (refine.PatternOptions.MaxIter; zero: the fitter's).
+func fitPattern(ctx context.Context, e *Extraction, cells []cell.Cell, s Settings, progress Progress, maxIter int) (*PatternFit, error) {
 	if len(cells) == 0 {
 		return nil, fmt.Errorf("%s: whole-pattern fit: no cell", e.Scan.Path)
 	}
@@ -89,7 +95,7 @@ func FitPattern(ctx context.Context, e *Extraction, cells []cell.Cell, s Setting
 	rad := e.Result.Radiation
 	opt := refine.PatternOptions{Lambda1: rad.Lambda1, Radius: radius, Corrections: corr,
 		Width: e.Result.FWHMCurve, Eta: e.Result.Eta, Asymmetry: e.Result.Asymmetry, Tail: e.Result.TailRatio,
-		Progress: progress.of(StagePattern)}
+		Progress: progress.of(StagePattern), MaxIter: maxIter}
 	if rad.Doublet() {
 		opt.Lambda2, opt.Ratio2 = rad.Lambda2, rad.Ratio2
 	}

@@ -121,6 +121,10 @@ type PatternResult struct {
 	Rp, Rwp, Rexp, Chi2, GoF float64
 	Points, Parameters       int
 	Iterations               int
+	// Converged reports that the last stage met its convergence test
+	// within PatternOptions.MaxIter iterations (a fit stopped by the
+	// bound is returned too, with Converged false).
+	Converged bool
 	// Scaled reports that the esds were multiplied by GoF (when it
 	// exceeds 1: the points scatter more than their esds allow, as a
 	// model short of the truth leaves them).
@@ -305,7 +309,11 @@ func FitPhases(ctx context.Context, cells []cell.Cell, x, y, sig []float64, opt 
 	if err != nil {
 		return nil, err
 	}
-	return pf.result(sol, iter+it, opt)
+	r, err := pf.result(sol, iter+it, opt)
+	if r != nil {
+		r.Converged = it < opt.MaxIter
+	}
+	return r, err
 }
 
 // newPatternFit lays out the parameters of a fit of the cells and

@@ -103,7 +103,9 @@ func WriteCIF(w io.Writer, a *analysis.Analysis, date time.Time) error {
 	p("_audit_creation_date %s\n", date.Format("2006-01-02"))
 	p("_audit_creation_method %s\n", cifString(fmt.Sprintf("%s %s", Program, Version)))
 	method := "weighted least squares in 2theta"
-	if r := c.Refined; r != nil && r.Selection != nil {
+	if pf := c.Pattern; pf != nil {
+		method = fmt.Sprintf("whole-pattern fit (Pawley), intensities free, every point weighted by its counting error, corrections %s, Rwp %.2f %%; it gave the volume no less precisely than the peak positions", pf.Fit.Corrections, 100*pf.Fit.Rwp)
+	} else if r := c.Refined; r != nil && r.Selection != nil {
 		method += fmt.Sprintf("; instrument corrections chosen from the data (lowest %s: %s)", r.Selection.Criterion, r.Selection.Chosen)
 		if r.Selection.Averaged > 0 {
 			method += fmt.Sprintf(", cell and corrections the mean of that choice over %d bootstrap sets", r.Selection.Averaged)

@@ -66,6 +66,17 @@ type PatternInfo struct {
 	Warnings []string     `json:"warnings,omitempty"`
 }
 
+// NewPatternInfo gives a whole-pattern fit's agreement (percent) and
+// phases.
+func NewPatternInfo(pf *analysis.PatternFit) *PatternInfo {
+	f := pf.Fit
+	pi := &PatternInfo{Rp: 100 * f.Rp, Rwp: 100 * f.Rwp, Rexp: 100 * f.Rexp, Chi2: f.Chi2, GoF: f.GoF, Warnings: f.Warnings}
+	for _, ph := range f.Phases {
+		pi.Phases = append(pi.Phases, NewCellValues(ph.Cell, ph.ESD, ph.Volume, ph.VolumeESD))
+	}
+	return pi
+}
+
 // SearchInfo describes the indexing search: the systems searched, why it
 // stopped there, its bounds (Å, Å³, degrees 2θ), how clearly the first
 // solution beats the next lattice (the ratio of their scores; absent when
@@ -274,6 +285,13 @@ type Solution struct {
 	// PatternEvidence is the candidate's whole-pattern fit when the
 	// candidates were weighed by the pattern (analysis.PatternEvidence).
 	PatternEvidence *PatternEvidence `json:"pattern_evidence,omitempty"`
+	// CellFrom says which refinement gave the cell and its esds:
+	// "pattern" (the whole-pattern fit, Pattern) or "lines" (the peak
+	// positions, Refined); CellNote says why (analysis.Candidate's
+	// PolishNote), when a whole-pattern fit was tried.
+	CellFrom string       `json:"cell_from"`
+	CellNote string       `json:"cell_note,omitempty"`
+	Pattern  *PatternInfo `json:"pattern,omitempty"`
 }
 
 // PatternEvidence is a candidate's whole-pattern fit in the ranking: its
@@ -521,12 +539,7 @@ func NewDocument(a *analysis.Analysis) *Document {
 		doc.Chosen = c.Rank
 	}
 	if pf := a.Pattern; pf != nil {
-		f := pf.Fit
-		pi := &PatternInfo{Rp: 100 * f.Rp, Rwp: 100 * f.Rwp, Rexp: 100 * f.Rexp, Chi2: f.Chi2, GoF: f.GoF, Warnings: f.Warnings}
-		for _, ph := range f.Phases {
-			pi.Phases = append(pi.Phases, NewCellValues(ph.Cell, ph.ESD, ph.Volume, ph.VolumeESD))
-		}
-		doc.Pattern = pi
+		doc.Pattern = NewPatternInfo(pf)
 	}
 	for _, c := range a.Candidates {
 		if c.Refined != nil && c.Refined.StandardFit != nil {
@@ -560,6 +573,10 @@ func NewSolution(a *analysis.Analysis, c *analysis.Candidate) Solution {
 	if ev := c.Evidence; ev != nil {
 		j.PatternEvidence = &PatternEvidence{Rwp: 100 * ev.Rwp, Rexp: 100 * ev.Rexp, Chi2: ev.Chi2, Parameters: ev.Parameters,
 			LogLikelihood: ev.LogLikelihood, Prior: ev.Prior, Error: ev.Err}
+	}
+	j.CellFrom, j.CellNote = "lines", c.PolishNote
+	if pf := c.Pattern; pf != nil {
+		j.CellFrom, j.Pattern = "pattern", NewPatternInfo(pf)
 	}
 	for _, l := range s.Lines {
 		jl := Line{TwoTheta: l.TwoTheta, ESD: l.ESD, Indexed: l.Indexed, HKL: l.HKL, TwoThetaCalc: l.TwoThetaCalc, Delta: l.Delta}

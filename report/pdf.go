@@ -106,9 +106,9 @@ func WritePDF(w io.Writer, a *analysis.Analysis, paper Paper, date time.Time) er
 	}
 	if c := a.ChosenCandidate(); c != nil {
 		x.refined(c)
-		if a.Pattern != nil {
+		if pf := PatternOf(a, c); pf != nil {
 			x.heading("Whole-pattern fit")
-			x.keyValues(PatternRows(a.Pattern), 30)
+			x.keyValues(PatternRows(pf), 30)
 		}
 		x.contents(a, c)
 	} else {
@@ -269,7 +269,12 @@ func (x *pdfWriter) refined(c *analysis.Candidate) {
 	}
 	r := c.Refined
 	s := c.Solution
-	rows := append(RefinementRows(r), Row{"figures of merit", fmt.Sprintf("M_N = %.1f (de Wolff 1968), F_N = %.1f (%.4f°, %d) (Smith & Snyder 1979), N = %d", s.M, s.FN, s.FNMeanDiff, s.FNPossible, s.FigureLines)})
+	rows := CellSourceRows(c)
+	if rows != nil {
+		rows = append(rows, Row{"peak positions", "the cell refined on the peak positions, with its corrections:"})
+	}
+	rows = append(rows, RefinementRows(r)...)
+	rows = append(rows, Row{"figures of merit", fmt.Sprintf("M_N = %.1f (de Wolff 1968), F_N = %.1f (%.4f°, %d) (Smith & Snyder 1979), N = %d", s.M, s.FN, s.FNMeanDiff, s.FNPossible, s.FigureLines)})
 	x.keyValues(rows, 30)
 	if n := len(r.Params); n > 1 {
 		x.pdf.Ln(1)

@@ -86,6 +86,32 @@ func ContentsRows(c *density.Contents, f density.Formula, m *density.Measured) [
 	return rows
 }
 
+// CellSourceRows says where a candidate's cell comes from when a
+// whole-pattern refinement of it was tried (analysis.Candidate's
+// PolishNote), with the whole pattern's cell when it was kept; the
+// refinement on the peak positions (RefinementRows) follows them.
+func CellSourceRows(c *analysis.Candidate) []Row {
+	if c.PolishNote == "" {
+		return nil
+	}
+	rows := []Row{{"cell from", c.PolishNote}}
+	if pf := c.Pattern; pf != nil {
+		ph := pf.Fit.Phases[0]
+		rows = append(rows, Row{"cell", fmt.Sprintf("%s, V = %s Å³", cell.Format(ph.Cell, ph.ESD), esd.Format(ph.Volume, ph.VolumeESD))})
+	}
+	return rows
+}
+
+// PatternOf returns the whole-pattern fit that goes with candidate c of
+// the analysis: the one asked for (Analysis.Pattern, of the chosen
+// cell), else the candidate's own (Candidate.Pattern).
+func PatternOf(a *analysis.Analysis, c *analysis.Candidate) *analysis.PatternFit {
+	if a.Pattern != nil && c == a.ChosenCandidate() {
+		return a.Pattern
+	}
+	return c.Pattern
+}
+
 // RefinementRows describes a refinement: every parameter with its esd
 // (corrections fixed by an internal standard marked), the volume, the
 // fit, the goniometer radius when a correction uses it, the internal

@@ -97,6 +97,9 @@ func printCandidates(w io.Writer, a *analysis.Analysis) {
 			esd.Format(v, ve), report.Percent(c.Probability), c.M, c.FN, c.FNMeanDiff, c.FNPossible, c.Indexed, c.Indexed+c.Unindexed)
 	}
 	tw.Flush()
+	if n := a.Candidates[0].PolishNote; n != "" {
+		fmt.Fprintf(w, "cell 1: %s\n", n)
+	}
 	best := a.ChosenCandidate()
 	fmt.Fprintf(w, "\nlines of cell %d (%s %s):\n", best.Rank, best.Cell().System, best.Cell().Centring)
 	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
