@@ -25,9 +25,7 @@ import (
 func TestFitPatternNested(t *testing.T) {
 	rng := rand.New(rand.NewPCG(1796427328897787117, 0x9011))
 	for i := range 8 {
-		a0 := 3.6 + 1.6*rng.Float64()
-		truth := cell.Cell{System: cell.Tetragonal, Centring: cell.P, A: a0, B: a0, C: a0 * (1.003 + 0.005*rng.Float64()), Alpha: 90, Beta: 90, Gamma: 90}
-		in := synth.Instrument{Zero: 0.08 * (2*rng.Float64() - 1), Displacement: 0.06 * (2*rng.Float64() - 1), W: 0.04}
+		truth, in := drawNearCubic(rng)
 		scan := simulated(t, rng.Uint64(), in, synth.Phase{Cell: truth})
 		e, err := Extract(context.Background(), scan, Settings{}, nil)
 		if err != nil {
