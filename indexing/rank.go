@@ -56,9 +56,13 @@ func rankCands(ks []*cand, ls, all []obs, o Options) []*cand {
 			// cell, whose lines beyond the range the smaller one's
 			// would not all be (cubic I and cubic P of a/√2 agree up
 			// to h² + k² + l² = 14); of as many cell parameters but
-			// other corrections, the more likely (the one kept).
+			// other corrections, the more likely (the one kept). Lines
+			// the same within the tolerance may still fit the positions
+			// unequally: a description the kept one beats by strong
+			// evidence (strongEvidence) does not replace it.
 			pk, po := len(cell.Basis(k.c.System)), len(cell.Basis(out[i].c.System))
-			if pk < po || pk == po && k.nparams() == out[i].nparams() && k.c.Volume() > out[i].c.Volume()*(1+1e-6) {
+			weaker := out[i].ev.logE()-k.ev.logE() >= strongEvidence
+			if !weaker && (pk < po || pk == po && k.nparams() == out[i].nparams() && k.c.Volume() > out[i].c.Volume()*(1+1e-6)) {
 				out[i], lines[i] = k, q
 			}
 			continue
@@ -72,6 +76,14 @@ func rankCands(ks []*cand, ls, all []obs, o Options) []*cand {
 	sort.SliceStable(out, func(i, j int) bool { return moreLikely(out[i], out[j]) })
 	return out
 }
+
+// strongEvidence is the log Bayes factor from which one cell's evidence
+// beats another's strongly: 3 nats, a factor of 20 (Kass & Raftery,
+// J. Am. Stat. Assoc. 90 (1995) 773, whose "strong" begins at
+// 2 ln B = 6). Two descriptions whose calculated lines agree within the
+// matching tolerance but whose evidence differs by that much do not fit
+// the positions alike.
+const strongEvidence = 3.0
 
 // weighKeep is how many cells, best by the search's figure (cand.score)
 // and one per cell, have their evidence taken: twice the lattices the
