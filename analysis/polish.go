@@ -32,7 +32,10 @@ const (
 const polishIter = 40
 
 // polishMove is the largest relative change of the reduced metric that
-// polish accepts from the whole-pattern fit.
+// polish accepts from the whole-pattern fit: 1 % in the metric, half a
+// per cent in d, moves the lines by about their width (0.17° at 60°
+// 2θ); a fit that moved them further has left the lines the candidate
+// was ranked on.
 const polishMove = 1e-2
 
 // polish refines the first candidate's cell on every point of the scan
@@ -70,6 +73,10 @@ func polish(ctx context.Context, a *Analysis, e *Extraction, s Settings) error {
 		c.PolishNote = fmt.Sprintf("not refined on the whole pattern: %d calculated lines over %d points (the bounds are %d lines and %.0e points × lines)", n, m, MaxPolishLines, MaxPolishWork)
 		return nil
 	}
+	// fitPattern refines the cell on the peaks again, every peak matched
+	// to it (RefineCell), rather than starting from r, the refinement on
+	// the lines the search indexed: that start let one public-low fit
+	// converge that did not from r (BENCHMARKS.md).
 	pf, err := fitPattern(ctx, e, []cell.Cell{r.Cell}, s, nil, polishIter)
 	if err != nil {
 		if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
