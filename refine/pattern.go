@@ -83,8 +83,9 @@ type PatternPhase struct {
 	Covariance cell.Covariance
 	Volume     float64 // Å³
 	VolumeESD  float64
-	// Params are the phase's refined cell and profile parameters (U, V,
-	// W in degrees², eta) with their esds.
+	// Params are the phase's refined cell and profile parameters with
+	// their esds: the main phase's U, V, W (degrees²), X and Y
+	// (degrees), a further phase's own size term Y.
 	Params      []Param
 	Reflections []PatternReflection
 	// Calc is the phase's lines at each point, background excluded.
@@ -151,13 +152,29 @@ type phaseFit struct {
 	m1, m2 *model
 	nr     int // free reciprocal coefficients
 	// iR is the first reciprocal coefficient; iU is the first of the
-	// nProfile profile parameters, the main phase's for every phase. A further phase (a standard, an
+	// nProfile profile parameters, the main phase's for every phase, and
+	// iY the size term Y the phase's lines take (iU+4, the main phase's,
+	// unless the phase has its own). A further phase (a standard, an
 	// impurity) is usually weak, and its few lines cannot determine a
-	// width law of their own: given one (or a width of its own, as
-	// small crystallites have), its lines widen until they fit the
-	// background's undulations. Its lines take the main phase's
-	// profile, whose width the instrument dominates.
-	iR, iU int
+	// width law of their own: given one, its lines widen until they fit
+	// the background's undulations. Its lines take the main phase's
+	// Gaussian law and strain term, which the instrument dominates; a
+	// phase whose lines are strong enough (see ownSizeLines) has its own
+	// Lorentzian size term Y/cos θ, since crystallite size broadens one
+	// phase's lines and not another's (a coarse standard's lines are as
+	// sharp as the instrument allows beside a fine powder's; Scherrer's
+	// equation gives a width of λ/(L cos θ) radians for crystallites of
+	// size L).
+	iR, iU, iY int
+}
+
+// profileIndex returns the index in the parameters of the phase's j-th
+// profile parameter (U, V, W, X, Y).
+func (ph phaseFit) profileIndex(j int) int {
+	if j == nProfile-1 {
+		return ph.iY
+	}
+	return ph.iU + j
 }
 
 // patternRefl is one fitted position of a phase.
@@ -236,7 +253,7 @@ func FitPhases(ctx context.Context, cells []cell.Cell, x, y, sig []float64, opt 
 		return nil, fmt.Errorf("%w: wavelength %g Å", ErrPattern, opt.Lambda1)
 	}
 	opt = opt.withDefaults()
-	pf, p, err := newPatternFit(cells, x, y, sig, opt)
+	pf, p, err := newPatternFit(cells, x, y, sig, opt, nil)
 	if err != nil {
 		return nil, err
 	}
@@ -246,7 +263,10 @@ func FitPhases(ctx context.Context, cells []cell.Cell, x, y, sig []float64, opt 
 	// kG² and a Lorentzian width Y/cos θ.
 	setProfile := func(w profile.Caglioti, kG, y float64) {
 		iU := pf.phases[0].iU
-		p[iU], p[iU+1], p[iU+2], p[iU+3], p[iU+4] = w.U*kG*kG, w.V*kG*kG, w.W*kG*kG, 0, y
+		p[iU], p[iU+1], p[iU+2], p[iU+3] = w.U*kG*kG, w.V*kG*kG, w.W*kG*kG, 0
+		for _, ph := range pf.phases {
+			p[ph.iY] = y
+		}
 	}
 	// Continuation: the lines are first broadened to FWHM 0.4° and then
 	// 0.15° with the profile held, so that a cell a few tenths of a per
@@ -255,8 +275,8 @@ func FitPhases(ctx context.Context, cells []cell.Cell, x, y, sig []float64, opt 
 	// starts where the broader one ended).
 	fixed := make([]bool, k)
 	for _, ph := range pf.phases {
-		for j := ph.iU; j < ph.iU+nProfile; j++ {
-			fixed[j] = true
+		for j := range nProfile {
+			fixed[ph.profileIndex(j)] = true
 		}
 	}
 	for j := pf.iA; j < pf.iA+pf.nA; j++ {
@@ -310,15 +330,17 @@ func FitPhases(ctx context.Context, cells []cell.Cell, x, y, sig []float64, opt 
 		return nil, err
 	}
 	r, err := pf.result(sol, iter+it, opt)
-	if r != nil {
-		r.Converged = it < opt.MaxIter
+	if err != nil {
+		return nil, err
 	}
-	return r, err
+	r.Converged = it < opt.MaxIter
+	return ownSizes(ctx, pf, sol, r, cells, x, y, sig, opt)
 }
 
 // newPatternFit lays out the parameters of a fit of the cells and
-// returns their starting values.
-func newPatternFit(cells []cell.Cell, x, y, sig []float64, opt PatternOptions) (*patternFit, []float64, error) {
+// returns their starting values; a further phase i has a size term of
+// its own when own[i] (own may be nil).
+func newPatternFit(cells []cell.Cell, x, y, sig []float64, opt PatternOptions, own []bool) (*patternFit, []float64, error) {
 	pf := &patternFit{x: x, y: y, sig: sig, tail: opt.Tail, lo: x[0], hi: x[len(x)-1]}
 	pf.minFWHM = (pf.hi - pf.lo) / float64(len(x)-1)
 	if opt.Lambda2 > 0 && opt.Ratio2 > 0 {
@@ -345,9 +367,15 @@ func newPatternFit(cells []cell.Cell, x, y, sig []float64, opt PatternOptions) (
 		ph.nr = len(start(c))
 		ph.iR, ph.iU = next, next+ph.nr
 		next = ph.iU + nProfile
+		ph.iY = ph.iU + nProfile - 1
 		if i > 0 {
 			ph.iU = pf.phases[0].iU
-			next -= nProfile
+			ph.iY = ph.iU + nProfile - 1
+			next = ph.iR + ph.nr
+			if i < len(own) && own[i] {
+				ph.iY = next
+				next++
+			}
 		}
 		pf.phases = append(pf.phases, ph)
 		n := len(pf.refl)

@@ -113,7 +113,7 @@ func (pf *patternFit) evaluate(p []float64, jac *jacobian, only int) (res, calc,
 				dwid := amp * (dw*norm - a/cp.w)
 				dmix := amp * (deta*norm - a*daf/fa)
 				for j := 0; j < nProfile; j++ {
-					row.g[ph.iU+j] += dwid*cp.gw[j] + dmix*cp.ge[j]
+					row.g[ph.profileIndex(j)] += dwid*cp.gw[j] + dmix*cp.ge[j]
 				}
 				if cp.free {
 					da, f := amp*dasym*norm, 1.0

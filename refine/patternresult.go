@@ -189,14 +189,16 @@ func (pf *patternFit) phaseResult(i int, ph phaseFit, s *patternSolution, ls []l
 		}
 		reps = append(reps, reported{Param: Param{Name: name, Unit: unit, Value: params[pi]}, phase: i, grad: g})
 	}
-	if i == 0 {
-		for j, name := range []string{"U", "V", "W", "X", "Y"} {
-			unit := "°²"
-			if j >= 3 {
-				unit = "°"
-			}
-			reps = append(reps, reported{Param: Param{Name: name, Unit: unit, Value: s.p[ph.iU+j]}, phase: i, grad: map[int]float64{ph.iU + j: 1}})
+	for j, name := range []string{"U", "V", "W", "X", "Y"} {
+		if i > 0 && (j < nProfile-1 || ph.iY == pf.phases[0].iY) {
+			continue // the main phase's
 		}
+		unit := "°²"
+		if j >= 3 {
+			unit = "°"
+		}
+		k := ph.profileIndex(j)
+		reps = append(reps, reported{Param: Param{Name: name, Unit: unit, Value: s.p[k]}, phase: i, grad: map[int]float64{k: 1}})
 	}
 	for k, r := range pf.refl {
 		l := ls[k]

@@ -73,10 +73,15 @@ func (pf *patternFit) lower(j int) (float64, bool) {
 	}
 	iU := pf.phases[0].iU // every phase's profile
 	switch j {
-	case iU, iU + 3, iU + 4:
+	case iU, iU + 3:
 		return 0, true
 	case iU + 2:
 		return minW, true
+	}
+	for _, ph := range pf.phases {
+		if j == ph.iY {
+			return 0, true
+		}
 	}
 	return 0, false
 }

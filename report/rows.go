@@ -201,7 +201,14 @@ func PatternRows(pf *analysis.PatternFit) []Row {
 		for _, p := range ph.Params[len(ph.Cell.System.FreeNames()):] {
 			prof = append(prof, strings.TrimSpace(fmt.Sprintf("%s %s %s", p.Name, esd.Format(p.Value, p.ESD), p.Unit)))
 		}
-		rows = append(rows, Row{label + " profile", strings.Join(prof, ", ")})
+		text := strings.Join(prof, ", ")
+		switch {
+		case i > 0 && len(prof) == 0:
+			text = "the main phase's"
+		case i > 0:
+			text += " (its own size term; the rest the main phase's)"
+		}
+		rows = append(rows, Row{label + " profile", text})
 	}
 	if len(f.Correlations) > 0 {
 		var cs []string

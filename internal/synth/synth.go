@@ -33,6 +33,12 @@ type Phase struct {
 	// multiplicity × Lorentz–polarisation factor × a fixed pseudo-random
 	// factor between 0.05 and 1 drawn from the indices.
 	Height func(h cell.HKL, twoTheta float64, mult int) float64
+	// Size is the phase's own size broadening, degrees 2θ: each line is
+	// the instrument's line convolved with a Lorentzian of FWHM
+	// Size/cos θ (the angular form of Scherrer's equation), its area
+	// kept. Line.Height is then the height before the broadening. Zero
+	// means lines as the instrument makes them.
+	Size float64
 }
 
 // An Instrument describes the radiation and the instrument's errors.
@@ -88,7 +94,8 @@ type Line struct {
 	D        float64 // Å
 	TwoTheta float64 // K-alpha1 position with the instrument errors, degrees
 	Height   float64 // peak height of the K-alpha1 component, counts
-	FWHM     float64 // degrees 2θ
+	FWHM     float64 // the instrument's, degrees 2θ
+	Size     float64 // FWHM of the phase's size broadening there, degrees 2θ (Phase.Size)
 }
 
 // A Scan is a simulated scan with its true lines.
@@ -154,6 +161,35 @@ func (in Instrument) line(x, x0, fwhm float64) float64 {
 	return f / axialCopies
 }
 
+// sizeSteps is the number of steps per Lorentzian FWHM, and sizeReach
+// the reach in FWHMs, of the convolution that broadens a line.
+const (
+	sizeSteps = 6
+	sizeReach = 20
+)
+
+// broadened returns the instrument's line (line) at x convolved with a
+// Lorentzian of FWHM size, by a sum over a grid of the Lorentzian's
+// argument whose weights are normalised to one, so that the line keeps
+// its area (the tails beyond sizeReach widths, 1.6 % of the
+// Lorentzian's area, are left out and the rest scaled up); the
+// instrument's line when size is zero.
+func (in Instrument) broadened(x, x0, fwhm, size float64) float64 {
+	if size == 0 {
+		return in.line(x, x0, fwhm)
+	}
+	h := math.Min(size, fwhm) / sizeSteps
+	m := int(math.Ceil(sizeReach * size / h))
+	var f, wsum float64
+	for k := -m; k <= m; k++ {
+		s := float64(k) * h
+		w := 1 / (1 + 4*s*s/(size*size))
+		f += w * in.line(x-s, x0, fwhm)
+		wsum += w
+	}
+	return f / wsum
+}
+
 // shade is a fixed pseudo-random factor in [0.05, 1) from the indices.
 func shade(h cell.HKL, phase int) float64 {
 	f := fnv.New32a()
@@ -197,7 +233,7 @@ func Simulate(s Spec, rng *rand.Rand) *Scan {
 				h = float64(r.Mult) * lp * shade(r.HKL[0], pi)
 			}
 			top = math.Max(top, h)
-			lines = append(lines, Line{Phase: pi, HKL: r.HKL, D: r.D, TwoTheta: tt, Height: h, FWHM: in.fwhm(tt)})
+			lines = append(lines, Line{Phase: pi, HKL: r.HKL, D: r.D, TwoTheta: tt, Height: h, FWHM: in.fwhm(tt), Size: ph.Size / math.Cos(tt/2*deg)})
 		}
 		for i := range lines {
 			lines[i].Height *= s.Peak * scale / top
@@ -220,10 +256,10 @@ func Simulate(s Spec, rng *rand.Rand) *Scan {
 			if math.IsNaN(c[0]) {
 				continue
 			}
-			reach := 40 * l.FWHM
+			reach := 40 * (l.FWHM + l.Size)
 			lo := sort.SearchFloat64s(out.TwoTheta, c[0]-reach)
 			for i := lo; i < n && out.TwoTheta[i] <= c[0]+reach; i++ {
-				out.Counts[i] += c[1] * in.line(out.TwoTheta[i], c[0], l.FWHM)
+				out.Counts[i] += c[1] * in.broadened(out.TwoTheta[i], c[0], l.FWHM, l.Size)
 			}
 		}
 	}
