@@ -193,6 +193,19 @@ func TestBandSolve(t *testing.T) {
 	}
 }
 
+// edgesWithin3 reports every edge of the fitted phase i that lies more
+// than 3 esd from the truth's (or has no esd).
+func edgesWithin3(t *testing.T, i int, ph PatternPhase, truth cell.Cell) {
+	t.Helper()
+	got, want := ph.Cell.Params(), truth.Params()
+	esd := [3]float64{ph.ESD.A, ph.ESD.B, ph.ESD.C}
+	for k := 0; k < 3; k++ {
+		if d := math.Abs(got[k] - want[k]); d > 3*esd[k] || !(esd[k] > 0) {
+			t.Errorf("phase %d edge %d: %.6f(%.6f), truth %.6f", i+1, k, got[k], esd[k], want[k])
+		}
+	}
+}
+
 // TestFitTwoPhases fits a simulated scan of two phases (the second at
 // 40 % of the first's strongest line) with both cells started 0.2 % off:
 // every edge lies within 3 esd of the truth, Rwp/Rexp is near 1, and the
@@ -214,13 +227,7 @@ func TestFitTwoPhases(t *testing.T) {
 	}
 	for i, truth := range []cell.Cell{c1, c2} {
 		ph := r.Phases[i]
-		got, want := ph.Cell.Params(), truth.Params()
-		esd := [3]float64{ph.ESD.A, ph.ESD.B, ph.ESD.C}
-		for k := 0; k < 3; k++ {
-			if d := math.Abs(got[k] - want[k]); d > 3*esd[k] || !(esd[k] > 0) {
-				t.Errorf("phase %d edge %d: %.6f(%.6f), truth %.6f", i+1, k, got[k], esd[k], want[k])
-			}
-		}
+		edgesWithin3(t, i, ph, truth)
 		if len(ph.Calc) != len(x) {
 			t.Errorf("phase %d: %d calculated points", i+1, len(ph.Calc))
 		}
@@ -286,13 +293,7 @@ func TestFitPhaseOwnSize(t *testing.T) {
 	sizes := [2]float64{math.NaN(), math.NaN()}
 	for i, truth := range []cell.Cell{c1, c2} {
 		ph := r.Phases[i]
-		got, want := ph.Cell.Params(), truth.Params()
-		esd := [3]float64{ph.ESD.A, ph.ESD.B, ph.ESD.C}
-		for k := 0; k < 3; k++ {
-			if d := math.Abs(got[k] - want[k]); d > 3*esd[k] || !(esd[k] > 0) {
-				t.Errorf("phase %d edge %d: %.6f(%.6f), truth %.6f", i+1, k, got[k], esd[k], want[k])
-			}
-		}
+		edgesWithin3(t, i, ph, truth)
 		for _, p := range ph.Params {
 			if p.Name == "Y" {
 				sizes[i] = p.Value
