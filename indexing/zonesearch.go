@@ -46,9 +46,8 @@ var lowSystems = []cell.System{cell.Orthorhombic, cell.Monoclinic, cell.Triclini
 // of the windows, which are widened by half a step) and the cell is
 // doubtful: a lattice seen through the wrong offset can pass the test
 // while the true one needs its own, but a cell that the lines it was not
-// found from confirm needs no second search (it then costs as much as
-// the first, for no change in the cells found on 280 drawn scans and 300
-// random lower-system cells; BENCHMARKS.md). Otherwise every offset of
+// found from confirm needs no second search, which costs as much as the
+// first (BENCHMARKS.md records what it changed). Otherwise every offset of
 // zeros is searched. The lattices of the offsets searched are refined
 // together. tick is called once per offset of zeros, searched or not.
 func zoneSearch(ctx context.Context, first, all []obs, pool []*cand, o Options, want map[cell.System]bool, need int, zeros []float64, tick func()) (ks, ranked []*cand, err error) {

@@ -43,9 +43,8 @@ func ownSizes(ctx context.Context, pf *patternFit, sol *patternSolution, r *Patt
 // peak search frees a line's shape (peaks.Options.FreeShapeSNR), on
 // three lines so that no one blend or misfit sets the width. A weak
 // phase, given a width of its own, widens into the background's
-// undulations: public-hard's impurities (3–10 % of the main phase, none
-// with more than one such line) went to widths of up to 5° and cells up
-// to 1.5 % off (BENCHMARKS.md).
+// undulations and its cell follows (BENCHMARKS.md, "A further phase's
+// own size term").
 const (
 	ownSizeLines = 3
 	ownSizeSNR   = 15
