@@ -592,11 +592,7 @@ func (u *ui) paramsSummary() string {
 	}
 	var b strings.Builder
 	b.WriteString(head)
-	if rows := report.CellSourceRows(c); rows != nil {
-		b.WriteString(report.Text(rows))
-		b.WriteString("\nrefined on the peak positions\n")
-	}
-	b.WriteString(report.Text(append(report.RefinementRows(c.Refined),
+	b.WriteString(report.Text(append(append(report.CellSourceRows(c), report.RefinementRows(c.Refined)...),
 		report.Row{Label: "figures of merit", Value: fmt.Sprintf("M_N %.1f, F_N %.1f (%.4f°, %d) with N = %d", c.M, c.FN, c.FNMeanDiff, c.FNPossible, c.FigureLines)})))
 	for _, w := range c.Refined.Warnings {
 		fmt.Fprintf(&b, "note: %s\n", w)

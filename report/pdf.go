@@ -269,11 +269,7 @@ func (x *pdfWriter) refined(c *analysis.Candidate) {
 	}
 	r := c.Refined
 	s := c.Solution
-	rows := CellSourceRows(c)
-	if rows != nil {
-		rows = append(rows, Row{"peak positions", "the cell refined on the peak positions, with its corrections:"})
-	}
-	rows = append(rows, RefinementRows(r)...)
+	rows := append(CellSourceRows(c), RefinementRows(r)...)
 	rows = append(rows, Row{"figures of merit", fmt.Sprintf("M_N = %.1f (de Wolff 1968), F_N = %.1f (%.4f°, %d) (Smith & Snyder 1979), N = %d", s.M, s.FN, s.FNMeanDiff, s.FNPossible, s.FigureLines)})
 	x.keyValues(rows, 30)
 	if n := len(r.Params); n > 1 {

@@ -88,8 +88,9 @@ func ContentsRows(c *density.Contents, f density.Formula, m *density.Measured) [
 
 // CellSourceRows says where a candidate's cell comes from when a
 // whole-pattern refinement of it was tried (analysis.Candidate's
-// PolishNote), with the whole pattern's cell when it was kept; the
-// refinement on the peak positions (RefinementRows) follows them.
+// PolishNote), with the whole pattern's cell when it was kept, and ends
+// with a row that introduces the refinement on the peak positions
+// (RefinementRows), which follows them.
 func CellSourceRows(c *analysis.Candidate) []Row {
 	if c.PolishNote == "" {
 		return nil
@@ -99,7 +100,7 @@ func CellSourceRows(c *analysis.Candidate) []Row {
 		ph := pf.Fit.Phases[0]
 		rows = append(rows, Row{"cell", fmt.Sprintf("%s, V = %s Å³", cell.Format(ph.Cell, ph.ESD), esd.Format(ph.Volume, ph.VolumeESD))})
 	}
-	return rows
+	return append(rows, Row{"peak positions", "the cell refined on the peak positions, with its corrections:"})
 }
 
 // PatternOf returns the whole-pattern fit that goes with candidate c of
