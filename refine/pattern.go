@@ -85,7 +85,8 @@ type PatternPhase struct {
 	VolumeESD  float64
 	// Params are the phase's refined cell and profile parameters with
 	// their esds: the main phase's U, V, W (degrees²), X and Y
-	// (degrees), a further phase's own size term Y.
+	// (degrees), a further phase's own terms (ownTerms): the size term
+	// Y, or U, X and Y.
 	Params      []Param
 	Reflections []PatternReflection
 	// Calc is the phase's lines at each point, background excluded.
@@ -151,30 +152,60 @@ type phaseFit struct {
 	cen    cell.Centring
 	m1, m2 *model
 	nr     int // free reciprocal coefficients
-	// iR is the first reciprocal coefficient; iU is the first of the
-	// nProfile profile parameters, the main phase's for every phase, and
-	// iY the size term Y the phase's lines take (iU+4, the main phase's,
-	// unless the phase has its own). A further phase (a standard, an
-	// impurity) is usually weak, and its few lines cannot determine a
-	// width law of their own: given one, its lines widen until they fit
-	// the background's undulations. Its lines take the main phase's
-	// Gaussian law and strain term, which the instrument dominates; a
-	// phase whose lines are strong enough (see ownSizeLines) has its own
-	// Lorentzian size term Y/cos θ, since crystallite size broadens one
-	// phase's lines and not another's (a coarse standard's lines are as
-	// sharp as the instrument allows beside a fine powder's; Scherrer's
-	// equation gives a width of λ/(L cos θ) radians for crystallites of
-	// size L).
-	iR, iU, iY int
+	// iR is the first reciprocal coefficient; prof are the indices of
+	// the phase's profile parameters U, V, W, X and Y (profU..profY),
+	// the main phase's unless the phase has some of its own (see
+	// ownTerms).
+	iR   int
+	prof [nProfile]int
 }
 
 // profileIndex returns the index in the parameters of the phase's j-th
 // profile parameter (U, V, W, X, Y).
-func (ph phaseFit) profileIndex(j int) int {
-	if j == nProfile-1 {
-		return ph.iY
+func (ph phaseFit) profileIndex(j int) int { return ph.prof[j] }
+
+// The places of the profile parameters in a phase's profile.
+const (
+	profU = iota
+	profV
+	profW
+	profX
+	profY
+)
+
+// ownTerms says which profile terms a further phase (a standard, an
+// impurity) has of its own. Such a phase is usually weak, and its few
+// lines cannot determine a width law: given one, its lines widen until
+// they fit the background's undulations. Its lines then take the main
+// phase's profile, which the instrument dominates (sharedProfile). A
+// phase whose lines are strong enough (see ownSizeLines) has its own
+// Lorentzian size term Y/cos θ (ownSize), since crystallite size
+// broadens one phase's lines and not another's (a coarse standard's
+// lines are as sharp as the instrument allows beside a fine powder's;
+// Scherrer's equation gives a width of λ/(L cos θ) radians for
+// crystallites of size L); and its own strain terms as well, the
+// Gaussian U tan²θ and the Lorentzian X tan θ (ownSample), when they
+// lower χ² by more than their Occam cost (see ownStrain): microstrain
+// too is the sample's (Stokes & Wilson 1944: a spread ε of d-spacings
+// broadens a line by 4ε tan θ radians), and V and W, the instrument's,
+// stay shared.
+type ownTerms int
+
+const (
+	sharedProfile ownTerms = iota
+	ownSize
+	ownSample
+)
+
+// owns reports whether terms include profile parameter j.
+func (o ownTerms) owns(j int) bool {
+	switch o {
+	case ownSize:
+		return j == profY
+	case ownSample:
+		return j == profY || j == profU || j == profX
 	}
-	return ph.iU + j
+	return false
 }
 
 // patternRefl is one fitted position of a phase.
@@ -262,10 +293,10 @@ func FitPhases(ctx context.Context, cells []cell.Cell, x, y, sig []float64, opt 
 	// setProfile starts the profile from a Gaussian width law scaled by
 	// kG² and a Lorentzian width Y/cos θ.
 	setProfile := func(w profile.Caglioti, kG, y float64) {
-		iU := pf.phases[0].iU
-		p[iU], p[iU+1], p[iU+2], p[iU+3] = w.U*kG*kG, w.V*kG*kG, w.W*kG*kG, 0
+		m := pf.phases[0].prof
+		p[m[profU]], p[m[profV]], p[m[profW]], p[m[profX]] = w.U*kG*kG, w.V*kG*kG, w.W*kG*kG, 0
 		for _, ph := range pf.phases {
-			p[ph.iY] = y
+			p[ph.prof[profY]] = y
 		}
 	}
 	// Continuation: the lines are first broadened to FWHM 0.4° and then
@@ -338,9 +369,9 @@ func FitPhases(ctx context.Context, cells []cell.Cell, x, y, sig []float64, opt 
 }
 
 // newPatternFit lays out the parameters of a fit of the cells and
-// returns their starting values; a further phase i has a size term of
-// its own when own[i] (own may be nil).
-func newPatternFit(cells []cell.Cell, x, y, sig []float64, opt PatternOptions, own []bool) (*patternFit, []float64, error) {
+// returns their starting values; a further phase i has the profile terms
+// own[i] of its own (own may be nil: none).
+func newPatternFit(cells []cell.Cell, x, y, sig []float64, opt PatternOptions, own []ownTerms) (*patternFit, []float64, error) {
 	pf := &patternFit{x: x, y: y, sig: sig, tail: opt.Tail, lo: x[0], hi: x[len(x)-1]}
 	pf.minFWHM = (pf.hi - pf.lo) / float64(len(x)-1)
 	if opt.Lambda2 > 0 && opt.Ratio2 > 0 {
@@ -365,17 +396,15 @@ func newPatternFit(cells []cell.Cell, x, y, sig []float64, opt PatternOptions, o
 			ph.m2 = newModel(c.System, opt.Lambda2, opt.Radius)
 		}
 		ph.nr = len(start(c))
-		ph.iR, ph.iU = next, next+ph.nr
-		next = ph.iU + nProfile
-		ph.iY = ph.iU + nProfile - 1
-		if i > 0 {
-			ph.iU = pf.phases[0].iU
-			ph.iY = ph.iU + nProfile - 1
-			next = ph.iR + ph.nr
-			if i < len(own) && own[i] {
-				ph.iY = next
-				next++
+		ph.iR = next
+		next += ph.nr
+		for j := range nProfile {
+			if i > 0 && (i >= len(own) || !own[i].owns(j)) {
+				ph.prof[j] = pf.phases[0].prof[j]
+				continue
 			}
+			ph.prof[j] = next
+			next++
 		}
 		pf.phases = append(pf.phases, ph)
 		n := len(pf.refl)

@@ -28,19 +28,19 @@ const (
 const nProfile = 5
 
 // lineWidth returns the FWHM and mixing of a line at 2θ tt for the
-// profile p[iU:iU+nProfile] with the size term Y taken from p[iY] (its
-// phase's; iU+4 for the main phase), and their derivatives with respect
-// to those parameters (the last with respect to p[iY]). The Gaussian
+// profile whose parameters U, V, W, X and Y are p[idx[0]]..p[idx[4]] (its
+// phase's, phaseFit.prof), and their derivatives with respect to those
+// parameters. The Gaussian
 // width is kept near minFWHM degrees or above (a line narrower than the
 // scan's step has no shape the points can define); the Lorentzian width
 // at least 0.
-func lineWidth(p []float64, iU, iY int, tt, minFWHM float64) (w, eta float64, gw, ge [nProfile]float64) {
+func lineWidth(p []float64, idx [nProfile]int, tt, minFWHM float64) (w, eta float64, gw, ge [nProfile]float64) {
 	th := tt * deg / 2
 	t, c := math.Tan(th), math.Cos(th)
 	// The Gaussian width: √(m² + g²) for the law's g² ≥ 0 and
 	// m·exp(g²/2m²) below, one smooth curve whose slope never
 	// vanishes, so that a law driven negative can climb back.
-	g2 := p[iU]*t*t + p[iU+1]*t + p[iU+2]
+	g2 := p[idx[profU]]*t*t + p[idx[profV]]*t + p[idx[profW]]
 	m2 := minFWHM * minFWHM
 	var gG, d float64 // width and ∂width/∂g²
 	if g2 >= 0 {
@@ -51,7 +51,7 @@ func lineWidth(p []float64, iU, iY int, tt, minFWHM float64) (w, eta float64, gw
 		d = gG / (2 * m2)
 	}
 	dG := [3]float64{t * t * d, t * d, d}
-	gL := p[iU+3]*t + p[iY]/c
+	gL := p[idx[profX]]*t + p[idx[profY]]/c
 	dL := [2]float64{t, 1 / c}
 	if gL <= 0 {
 		gL, dL = 0, [2]float64{}
@@ -131,7 +131,7 @@ func (pf *patternFit) lines(p []float64) []line {
 			if c == 1 {
 				cp.scale = pf.ratio
 			}
-			cp.w, cp.eta, cp.gw, cp.ge = lineWidth(p, ph.iU, ph.iY, cp.tt, pf.minFWHM)
+			cp.w, cp.eta, cp.gw, cp.ge = lineWidth(p, ph.prof, cp.tt, pf.minFWHM)
 			cp.asym, cp.tA, cp.free = pf.asymmetryAt(p, cp.tt)
 			l.comp[l.n] = cp
 			l.n++

@@ -190,7 +190,7 @@ func (pf *patternFit) phaseResult(i int, ph phaseFit, s *patternSolution, ls []l
 		reps = append(reps, reported{Param: Param{Name: name, Unit: unit, Value: params[pi]}, phase: i, grad: g})
 	}
 	for j, name := range []string{"U", "V", "W", "X", "Y"} {
-		if i > 0 && (j < nProfile-1 || ph.iY == pf.phases[0].iY) {
+		if i > 0 && ph.prof[j] == pf.phases[0].prof[j] {
 			continue // the main phase's
 		}
 		unit := "°²"
@@ -247,14 +247,14 @@ func correlations(reps []reported, cov func(x, y reported) float64, phases bool)
 // lineWidth holds the Gaussian width at or below the scan's step and the
 // law's terms no longer act on the curve.
 func (pf *patternFit) gaussianBelowFloor(p []float64, ls []line) bool {
-	iU := pf.phases[0].iU
+	m := pf.phases[0].prof
 	for _, l := range ls {
 		if !l.ok || l.comp[0].tt < pf.lo || l.comp[0].tt > pf.hi {
 			continue
 		}
 		tt := l.comp[0].tt
 		t := math.Tan(tt * deg / 2)
-		if p[iU]*t*t+p[iU+1]*t+p[iU+2] >= 0 {
+		if p[m[profU]]*t*t+p[m[profV]]*t+p[m[profW]] >= 0 {
 			return false
 		}
 	}

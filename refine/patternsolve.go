@@ -71,16 +71,12 @@ func (pf *patternFit) lower(j int) (float64, bool) {
 	if j >= pf.iI {
 		return 0, true
 	}
-	iU := pf.phases[0].iU // every phase's profile
-	switch j {
-	case iU, iU + 3:
-		return 0, true
-	case iU + 2:
-		return minW, true
-	}
 	for _, ph := range pf.phases {
-		if j == ph.iY {
+		switch j {
+		case ph.prof[profU], ph.prof[profX], ph.prof[profY]:
 			return 0, true
+		case ph.prof[profW]:
+			return minW, true
 		}
 	}
 	return 0, false

@@ -206,8 +206,10 @@ func PatternRows(pf *analysis.PatternFit) []Row {
 		switch {
 		case i > 0 && len(prof) == 0:
 			text = "the main phase's"
-		case i > 0:
+		case i > 0 && len(prof) == 1:
 			text += " (its own size term; the rest the main phase's)"
+		case i > 0:
+			text += " (its own size and strain terms; V and W the main phase's)"
 		}
 		rows = append(rows, Row{label + " profile", text})
 	}

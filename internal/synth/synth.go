@@ -39,6 +39,11 @@ type Phase struct {
 	// kept. Line.Height is then the height before the broadening. Zero
 	// means lines as the instrument makes them.
 	Size float64
+	// Strain is the phase's own strain broadening, degrees 2θ: each line
+	// is further convolved with a Gaussian of FWHM Strain·tan θ (Stokes
+	// & Wilson 1944: a spread of d-spacings broadens a line in
+	// proportion to tan θ), its area kept. Zero means none.
+	Strain float64
 }
 
 // An Instrument describes the radiation and the instrument's errors.
@@ -96,6 +101,7 @@ type Line struct {
 	Height   float64 // peak height of the K-alpha1 component, counts
 	FWHM     float64 // the instrument's, degrees 2θ
 	Size     float64 // FWHM of the phase's size broadening there, degrees 2θ (Phase.Size)
+	Strain   float64 // FWHM of the phase's strain broadening there, degrees 2θ (Phase.Strain)
 }
 
 // A Scan is a simulated scan with its true lines.
@@ -161,33 +167,89 @@ func (in Instrument) line(x, x0, fwhm float64) float64 {
 	return f / axialCopies
 }
 
-// sizeSteps is the number of steps per Lorentzian FWHM, and sizeReach
-// the reach in FWHMs, of the convolution that broadens a line.
+// sizeSteps is the number of steps per FWHM of the narrowest of the
+// line and its broadenings, and sizeReach the reach in FWHMs, of the
+// convolution that broadens a line.
 const (
 	sizeSteps = 6
 	sizeReach = 20
 )
 
-// broadened returns the instrument's line (line) at x convolved with a
-// Lorentzian of FWHM size, by a sum over a grid of the Lorentzian's
-// argument whose weights are normalised to one, so that the line keeps
-// its area (the tails beyond sizeReach widths, 1.6 % of the
-// Lorentzian's area, are left out and the rest scaled up); the
-// instrument's line when size is zero.
-func (in Instrument) broadened(x, x0, fwhm, size float64) float64 {
-	if size == 0 {
+// A kernel is a sampled broadening function: offsets (degrees 2θ) and
+// weights that sum to one.
+type kernel struct{ s, w []float64 }
+
+// newKernel returns the convolution of a Lorentzian of FWHM size with a
+// Gaussian of FWHM strain (either may be zero), sampled finely enough
+// for a line of FWHM fwhm, over sizeReach widths of the broader (the
+// Lorentzian's tails beyond, 1.6 % of its area, are left out and the
+// rest scaled up, so that the line keeps its area); nil when both are
+// zero.
+func newKernel(size, strain, fwhm float64) *kernel {
+	if size <= 0 && strain <= 0 {
+		return nil
+	}
+	h := fwhm
+	for _, v := range []float64{size, strain} {
+		if v > 0 {
+			h = math.Min(h, v)
+		}
+	}
+	h /= sizeSteps
+	m := int(math.Ceil(sizeReach * math.Max(size, strain) / h))
+	sample := func(f func(s float64) float64) []float64 {
+		out := make([]float64, 2*m+1)
+		for k := range out {
+			out[k] = f(float64(k-m) * h)
+		}
+		return out
+	}
+	lor := []float64{1}
+	if size > 0 {
+		lor = sample(func(s float64) float64 { return 1 / (1 + 4*s*s/(size*size)) })
+	}
+	gau := []float64{1}
+	if strain > 0 {
+		gau = sample(func(s float64) float64 { return math.Exp(-4 * math.Ln2 * s * s / (strain * strain)) })
+	}
+	// The discrete convolution, centred: offsets run over the sum of
+	// both reaches.
+	n := len(lor) + len(gau) - 1
+	k := &kernel{s: make([]float64, n), w: make([]float64, n)}
+	c := (n - 1) / 2
+	for i, a := range lor {
+		for j, b := range gau {
+			k.w[i+j] += a * b
+		}
+	}
+	var sum, top float64
+	for i := range k.w {
+		k.s[i] = float64(i-c) * h
+		sum += k.w[i]
+		top = math.Max(top, k.w[i])
+	}
+	// Weights below 10⁻¹² of the largest (a Gaussian's far samples)
+	// change no count and are dropped.
+	kept := &kernel{}
+	for i := range k.w {
+		if k.w[i] >= 1e-12*top {
+			kept.s, kept.w = append(kept.s, k.s[i]), append(kept.w, k.w[i]/sum)
+		}
+	}
+	return kept
+}
+
+// broadened returns the instrument's line (line) at x convolved with the
+// kernel k; the instrument's line when k is nil.
+func (in Instrument) broadened(x, x0, fwhm float64, k *kernel) float64 {
+	if k == nil {
 		return in.line(x, x0, fwhm)
 	}
-	h := math.Min(size, fwhm) / sizeSteps
-	m := int(math.Ceil(sizeReach * size / h))
-	var f, wsum float64
-	for k := -m; k <= m; k++ {
-		s := float64(k) * h
-		w := 1 / (1 + 4*s*s/(size*size))
-		f += w * in.line(x-s, x0, fwhm)
-		wsum += w
+	var f float64
+	for i, s := range k.s {
+		f += k.w[i] * in.line(x-s, x0, fwhm)
 	}
-	return f / wsum
+	return f
 }
 
 // shade is a fixed pseudo-random factor in [0.05, 1) from the indices.
@@ -233,7 +295,7 @@ func Simulate(s Spec, rng *rand.Rand) *Scan {
 				h = float64(r.Mult) * lp * shade(r.HKL[0], pi)
 			}
 			top = math.Max(top, h)
-			lines = append(lines, Line{Phase: pi, HKL: r.HKL, D: r.D, TwoTheta: tt, Height: h, FWHM: in.fwhm(tt), Size: ph.Size / math.Cos(tt/2*deg)})
+			lines = append(lines, Line{Phase: pi, HKL: r.HKL, D: r.D, TwoTheta: tt, Height: h, FWHM: in.fwhm(tt), Size: ph.Size / math.Cos(tt/2*deg), Strain: ph.Strain * math.Tan(tt/2*deg)})
 		}
 		for i := range lines {
 			lines[i].Height *= s.Peak * scale / top
@@ -245,6 +307,7 @@ func Simulate(s Spec, rng *rand.Rand) *Scan {
 		out.Counts[i] = s.Background(x)
 	}
 	for _, l := range out.Lines {
+		k := newKernel(l.Size, l.Strain, l.FWHM)
 		comps := [][2]float64{{l.TwoTheta, l.Height}}
 		if in.Lambda2 > 0 {
 			comps = append(comps, [2]float64{in.position(l.D, in.Lambda2), l.Height * in.Ratio2})
@@ -256,10 +319,10 @@ func Simulate(s Spec, rng *rand.Rand) *Scan {
 			if math.IsNaN(c[0]) {
 				continue
 			}
-			reach := 40 * (l.FWHM + l.Size)
+			reach := 40 * (l.FWHM + l.Size + l.Strain)
 			lo := sort.SearchFloat64s(out.TwoTheta, c[0]-reach)
 			for i := lo; i < n && out.TwoTheta[i] <= c[0]+reach; i++ {
-				out.Counts[i] += c[1] * in.broadened(out.TwoTheta[i], c[0], l.FWHM, l.Size)
+				out.Counts[i] += c[1] * in.broadened(out.TwoTheta[i], c[0], l.FWHM, k)
 			}
 		}
 	}
