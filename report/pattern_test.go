@@ -12,6 +12,7 @@ import (
 
 	"reticle/analysis"
 	"reticle/cell"
+	"reticle/refine"
 )
 
 // TestPatternRecords: a whole-pattern fit joins the records. The CIF
@@ -63,5 +64,44 @@ func TestPatternRecords(t *testing.T) {
 	defer f.Close()
 	if err := WritePDF(f, a, A4, goldenDate); err != nil {
 		t.Fatal(err)
+	}
+}
+
+// TestPatternProfileRows: the row of each phase's profile lists the
+// terms the phase refined and says, for a further phase, which it took
+// from the main phase.
+func TestPatternProfileRows(t *testing.T) {
+	main := cell.Must(cell.Cubic, cell.F, 5.6402)
+	other := cell.Must(cell.Tetragonal, cell.P, 4.5937, 2.9587)
+	param := func(names ...string) []refine.Param {
+		var out []refine.Param
+		for _, n := range names {
+			out = append(out, refine.Param{Name: n, Value: 0.01, ESD: 0.001, Unit: "°"})
+		}
+		return out
+	}
+	for _, tc := range []struct {
+		name   string
+		params []refine.Param
+		want   string
+	}{
+		{"shared", param("a", "c"), "the main phase's"},
+		{"own size", param("a", "c", "Y"), "Y 0.0100(10) ° (its own size term; the rest the main phase's)"},
+		{"own size and strain", param("a", "c", "U", "X", "Y"), "U 0.0100(10) °, X 0.0100(10) °, Y 0.0100(10) ° (its own size and strain terms; V and W the main phase's)"},
+	} {
+		fit := &refine.PatternResult{Phases: []refine.PatternPhase{
+			{Cell: main, Params: param("a", "U", "V", "W", "X", "Y")},
+			{Cell: other, Params: tc.params},
+		}}
+		rows := PatternRows(&analysis.PatternFit{Texts: []string{"main", "other"}, Fit: fit})
+		got := ""
+		for _, r := range rows {
+			if r.Label == "phase 2 profile" {
+				got = r.Value
+			}
+		}
+		if got != tc.want {
+			t.Errorf("%s: row %q, want %q", tc.name, got, tc.want)
+		}
 	}
 }
