@@ -179,13 +179,14 @@ const (
 // they fit the background's undulations. Its lines then take the main
 // phase's profile, which the instrument dominates (sharedProfile). A
 // phase whose lines are strong enough (see ownSizeLines) has its own
-// Lorentzian size term Y/cos θ (ownSize), since crystallite size
+// Lorentzian size term Y/cos θ (ownSize) when it pays for itself (see
+// pays), since crystallite size
 // broadens one phase's lines and not another's (a coarse standard's
 // lines are as sharp as the instrument allows beside a fine powder's;
 // Scherrer's equation gives a width of λ/(L cos θ) radians for
 // crystallites of size L); and its own strain terms as well, the
 // Gaussian U tan²θ and the Lorentzian X tan θ (ownSample), when they
-// lower χ² by more than their Occam cost (see ownStrain): microstrain
+// pay for themselves too: microstrain
 // too is the sample's (Stokes & Wilson 1944: a spread ε of d-spacings
 // broadens a line by 4ε tan θ radians), and V and W, the instrument's,
 // stay shared.

@@ -360,3 +360,25 @@ func TestFitPhaseOwnStrain(t *testing.T) {
 		t.Errorf("U %.4f and %.4f °²: the second's exceeds by %.4f, truth %.4f", us[0]["U"], u2, d, 0.25*0.25)
 	}
 }
+
+// TestFitPhaseSharedProfile: a second phase whose lines are as the
+// instrument makes them, strong enough to be offered terms of its own
+// (three or more reflections of 15 esds), takes none: they would lower
+// χ² by no more than noise does, short of their cost.
+func TestFitPhaseSharedProfile(t *testing.T) {
+	c1 := cell.Must(cell.Cubic, cell.F, 5.6402)
+	c2 := cell.Must(cell.Tetragonal, cell.P, 4.5937, 2.9587)
+	x, y, sig := twoPhaseScan(c1, c2, 0.4, 15, 110, 41)
+	opt := PatternOptions{Lambda1: cuKa1, Lambda2: cuKa2, Ratio2: 0.5, Corrections: Zero,
+		Width: profile.Caglioti{U: 0.004, V: -0.001, W: 0.0045}, Eta: 0.5}
+	r, err := FitPhases(context.Background(), []cell.Cell{c1, c2}, x, y, sig, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if n := strongLines(r.Phases[1]); n < ownSizeLines {
+		t.Fatalf("the second phase has %d reflections of %d esds: the test needs %d", n, ownSizeSNR, ownSizeLines)
+	}
+	if ps := r.Phases[1].Params; len(ps) != len(c2.System.FreeNames()) {
+		t.Errorf("the second phase has profile terms of its own: %v", ps)
+	}
+}

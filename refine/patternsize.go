@@ -9,9 +9,10 @@ import (
 
 // ownSizes refits from the solution sol (result r, pf's layout) with a
 // size term of its own for every further phase whose lines determine
-// one (see ownSizeLines), then with strain terms of their own as well
-// where those pay for themselves (see ownStrain), and returns the last
-// fit kept; r when there is none.
+// one (see ownSizeLines), then with strain terms of their own as well,
+// each step kept when it pays for its parameters (see pays), and
+// returns the last fit kept; r when there is none. A refit that fails
+// (its cell leaves the lines) leaves the fit before it standing.
 func ownSizes(ctx context.Context, pf *patternFit, sol *patternSolution, r *PatternResult, cells []cell.Cell, x, y, sig []float64, opt PatternOptions) (*PatternResult, error) {
 	own := make([]ownTerms, len(cells))
 	found := false
@@ -20,25 +21,26 @@ func ownSizes(ctx context.Context, pf *patternFit, sol *patternSolution, r *Patt
 			own[i], found = ownSize, true
 		}
 	}
-	if !found {
-		return r, nil
-	}
-	pf, sol, r, err := refitOwn(ctx, pf, sol, r, cells, x, y, sig, opt, own)
-	if err != nil {
-		return nil, err
-	}
-	more := make([]ownTerms, len(own))
-	for i, o := range own {
-		more[i] = o
-		if o == ownSize {
-			more[i] = ownSample
+	for _, next := range []ownTerms{ownSize, ownSample} {
+		if !found {
+			break
 		}
+		terms := make([]ownTerms, len(own))
+		for i, o := range own {
+			if o != sharedProfile {
+				terms[i] = next
+			}
+		}
+		pf2, sol2, r2, err := refitOwn(ctx, pf, sol, r, cells, x, y, sig, opt, terms)
+		if ctx.Err() != nil {
+			return nil, ctx.Err()
+		}
+		if err != nil || !pays(r, r2) {
+			break
+		}
+		pf, sol, r = pf2, sol2, r2
 	}
-	_, _, r2, err := refitOwn(ctx, pf, sol, r, cells, x, y, sig, opt, more)
-	if err != nil || !ownStrain(r, r2) {
-		return r, nil // the strain terms are not determined: the fit without them stands
-	}
-	return r2, nil
+	return r, nil
 }
 
 // refitOwn refits from the solution sol (result r, pf's layout) with the
@@ -62,13 +64,13 @@ func refitOwn(ctx context.Context, pf *patternFit, sol *patternSolution, r *Patt
 	return pf2, sol2, r2, nil
 }
 
-// ownStrain reports whether the fit with the further phases' own strain
-// terms (with) lowers χ² from the fit without them (without) by more
-// than Schwarz's (1978) cost of the added parameters, ln N each for N
-// points, with χ² in units of the larger model's χ²_red so that a
+// pays reports whether the fit with more of the further phases' profile
+// terms their own (with) lowers χ² from the fit without them (without)
+// by more than Schwarz's (1978) cost of the added parameters, ln N each
+// for N points, with χ² in units of the larger model's χ²_red so that a
 // profile short of the truth (GoF above 1) does not pass every test on
 // its systematic residue alone (the F-test's scaling, Hamilton 1965).
-func ownStrain(without, with *PatternResult) bool {
+func pays(without, with *PatternResult) bool {
 	k := with.Parameters - without.Parameters
 	if k <= 0 || !(with.Chi2 > 0) {
 		return false
