@@ -272,23 +272,7 @@ func TestFitTwoPhases(t *testing.T) {
 // 20 % (the pseudo-Voigt of Thompson, Cox & Hastings standing for the
 // convolution), and both cells lie within 3 esd.
 func TestFitPhaseOwnSize(t *testing.T) {
-	c1 := cell.Must(cell.Cubic, cell.F, 5.6402)
-	c2 := cell.Must(cell.Tetragonal, cell.P, 4.5937, 2.9587)
-	in := synth.Instrument{Lambda1: cuKa1, Lambda2: cuKa2, Ratio2: 0.5, Zero: 0.02}
-	ph := []synth.Phase{{Cell: c1}, {Cell: c2, Scale: 0.4, Size: 0.15}}
-	s := synth.Simulate(synth.Spec{Phases: ph, Instrument: in, From: 15, To: 110, Step: 0.02, Peak: 5000}, rand.New(rand.NewPCG(31, 3)))
-	sig := make([]float64, len(s.Counts))
-	for i, v := range s.Counts {
-		sig[i] = math.Sqrt(math.Max(v, 1))
-	}
-	s1 := cell.Must(cell.Cubic, cell.F, 5.6402*1.002)
-	s2 := cell.Must(cell.Tetragonal, cell.P, 4.5937*0.998, 2.9587*1.002)
-	opt := PatternOptions{Lambda1: cuKa1, Lambda2: cuKa2, Ratio2: 0.5, Corrections: Zero,
-		Width: profile.Caglioti{U: 0.004, V: -0.001, W: 0.0045}, Eta: 0.5}
-	r, err := FitPhases(context.Background(), []cell.Cell{s1, s2}, s.TwoTheta, s.Counts, sig, opt)
-	if err != nil {
-		t.Fatal(err)
-	}
+	c1, c2, r := fitBroadenedPair(t, synth.Phase{Scale: 0.4, Size: 0.15}, 31)
 	q := r.Rwp / r.Rexp
 	sizes := [2]float64{math.NaN(), math.NaN()}
 	for i, truth := range []cell.Cell{c1, c2} {
@@ -321,23 +305,7 @@ func TestFitPhaseOwnSize(t *testing.T) {
 // within 25 % (Gaussian widths add in quadrature in a convolution; the
 // pseudo-Voigt of Thompson, Cox & Hastings stands for the convolution).
 func TestFitPhaseOwnStrain(t *testing.T) {
-	c1 := cell.Must(cell.Cubic, cell.F, 5.6402)
-	c2 := cell.Must(cell.Tetragonal, cell.P, 4.5937, 2.9587)
-	in := synth.Instrument{Lambda1: cuKa1, Lambda2: cuKa2, Ratio2: 0.5, Zero: 0.02}
-	ph := []synth.Phase{{Cell: c1}, {Cell: c2, Scale: 0.4, Strain: 0.25}}
-	s := synth.Simulate(synth.Spec{Phases: ph, Instrument: in, From: 15, To: 110, Step: 0.02, Peak: 5000}, rand.New(rand.NewPCG(37, 3)))
-	sig := make([]float64, len(s.Counts))
-	for i, v := range s.Counts {
-		sig[i] = math.Sqrt(math.Max(v, 1))
-	}
-	s1 := cell.Must(cell.Cubic, cell.F, 5.6402*1.002)
-	s2 := cell.Must(cell.Tetragonal, cell.P, 4.5937*0.998, 2.9587*1.002)
-	opt := PatternOptions{Lambda1: cuKa1, Lambda2: cuKa2, Ratio2: 0.5, Corrections: Zero,
-		Width: profile.Caglioti{U: 0.004, V: -0.001, W: 0.0045}, Eta: 0.5}
-	r, err := FitPhases(context.Background(), []cell.Cell{s1, s2}, s.TwoTheta, s.Counts, sig, opt)
-	if err != nil {
-		t.Fatal(err)
-	}
+	c1, c2, r := fitBroadenedPair(t, synth.Phase{Scale: 0.4, Strain: 0.25}, 37)
 	q := r.Rwp / r.Rexp
 	var us [2]map[string]float64
 	for i, truth := range []cell.Cell{c1, c2} {
@@ -381,4 +349,32 @@ func TestFitPhaseSharedProfile(t *testing.T) {
 	if ps := r.Phases[1].Params; len(ps) != len(c2.System.FreeNames()) {
 		t.Errorf("the second phase has profile terms of its own: %v", ps)
 	}
+}
+
+// fitBroadenedPair simulates a laboratory scan (Cu doublet, zero shift
+// 0.02°, Poisson counts, seed seed) of a cubic F phase as the instrument
+// makes its lines and a tetragonal P phase with second's scale and
+// broadening, fits both from cells 0.2 % off and returns the true cells
+// and the fit.
+func fitBroadenedPair(t *testing.T, second synth.Phase, seed uint64) (c1, c2 cell.Cell, r *PatternResult) {
+	t.Helper()
+	c1 = cell.Must(cell.Cubic, cell.F, 5.6402)
+	c2 = cell.Must(cell.Tetragonal, cell.P, 4.5937, 2.9587)
+	second.Cell = c2
+	in := synth.Instrument{Lambda1: cuKa1, Lambda2: cuKa2, Ratio2: 0.5, Zero: 0.02}
+	ph := []synth.Phase{{Cell: c1}, second}
+	s := synth.Simulate(synth.Spec{Phases: ph, Instrument: in, From: 15, To: 110, Step: 0.02, Peak: 5000}, rand.New(rand.NewPCG(seed, 3)))
+	sig := make([]float64, len(s.Counts))
+	for i, v := range s.Counts {
+		sig[i] = math.Sqrt(math.Max(v, 1))
+	}
+	s1 := cell.Must(cell.Cubic, cell.F, 5.6402*1.002)
+	s2 := cell.Must(cell.Tetragonal, cell.P, 4.5937*0.998, 2.9587*1.002)
+	opt := PatternOptions{Lambda1: cuKa1, Lambda2: cuKa2, Ratio2: 0.5, Corrections: Zero,
+		Width: profile.Caglioti{U: 0.004, V: -0.001, W: 0.0045}, Eta: 0.5}
+	r, err := FitPhases(context.Background(), []cell.Cell{s1, s2}, s.TwoTheta, s.Counts, sig, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return c1, c2, r
 }
