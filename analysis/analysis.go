@@ -44,6 +44,8 @@ type Analysis struct {
 	// re-run after an edit starts without one.
 	Pattern  *PatternFit
 	Warnings []string
+
+	fit *fitOf // the first candidate's whole-pattern fit (firstFit)
 }
 
 // A Peak is an extracted or added peak with the user's verdict.
@@ -325,7 +327,7 @@ func analyse(ctx context.Context, e *Extraction, s Settings, progress Progress, 
 		}
 		a.Candidates = append(a.Candidates, c)
 	}
-	if s.WeighByPattern && earlier == nil {
+	if !s.LinesOnly && earlier == nil {
 		if err := weighByPattern(ctx, a, e, s); err != nil {
 			return nil, err
 		}

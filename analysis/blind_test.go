@@ -192,7 +192,9 @@ func blindScan(lat synth.Lattice, seed uint64) (synth.Case, *scanfile.Scan, Sett
 		rad, _ = scanfile.ParseRadiation("Cu")
 	}
 	scan, err := scanfile.Parse(fmt.Sprintf("blind-%d.xy", seed), text)
-	return cs, scan, Settings{Radiation: &rad}, err
+	// RETICLE_BLIND_LINES_ONLY=1 ranks by the line positions alone
+	// (Settings.LinesOnly), to measure the whole pattern's evidence.
+	return cs, scan, Settings{Radiation: &rad, LinesOnly: os.Getenv("RETICLE_BLIND_LINES_ONLY") != ""}, err
 }
 
 func blindOne(lat synth.Lattice, seed uint64) blindResult {

@@ -2,61 +2,80 @@ package analysis
 
 import (
 	"context"
-	"errors"
 	"fmt"
 	"math"
 	"sort"
 
-	"reticle/cell"
+	"reticle/refine"
 )
 
-// PatternEvidence is a candidate's whole-pattern fit, made when the
-// first candidates are close (see weighByPattern).
+// PatternEvidence is what the whole pattern said of a candidate when the
+// first candidates were close (see weighByPattern).
 type PatternEvidence struct {
-	Rwp, Rexp, Chi2 float64 // as refine.PatternResult
+	// Rwp, Rexp, Chi2 and Parameters are those of the whole-pattern
+	// fit (as refine.PatternResult): the first candidate's, the one fit
+	// made; zero for the others.
+	Rwp, Rexp, Chi2 float64
 	Parameters      int
-	// LogLikelihood is −½(χ² + P ln N) of the fit, χ² scaled as the
-	// ranking scales it: Schwarz's criterion (BIC) as a log evidence.
-	LogLikelihood float64
+	// Compared reports that the candidate was weighed against the first
+	// by the lines that tell them apart; LogBayes is then the natural
+	// log of the Bayes factor of the candidate over the first (zero for
+	// the first).
+	Compared bool
+	LogBayes float64
+	// Extra are the candidate's lines resolved from every line of the
+	// first, and Missing the first's lines resolved from every line of
+	// the candidate: the lines that tell the two apart, measured.
+	Extra, Missing int
 	// Prior is the candidate's probability from the line positions
-	// alone, before the fit entered it.
+	// alone, before the pattern entered it.
 	Prior float64
-	Err   string  // why the fit failed; the candidate then keeps its prior
-	chi2  float64 // Σ w(y − c)²
+	Err   string // why the first has no fit (the priors then stand)
 }
 
-// Evidence of the whole pattern: the candidates whose probability from
-// the line positions is at least evidenceShare of the first's, at most
-// evidenceCount of them, are fitted when there are two or more. A
-// candidate a hundred times less likely than the first needs a fit
-// e^4.6 times more likely to overtake it, which a Pawley fit of the same
-// lines seldom gives; and each fit costs as much as the rest of the
-// analysis, so four bound the time to a few fits (the ranking's first
-// four hold the alternatives the lines leave open: a centred cell, its
-// primitive one, a supercell and a higher metric).
+// The close candidates: those whose probability from the line positions
+// is at least evidenceShare of the first's, at most evidenceCount of
+// them, when there are two or more. One a thousand times less likely
+// than the first needs a Bayes factor of e^6.9 to overtake it, more than
+// a handful of weak lines give; and the ranking's first four hold the
+// alternatives the lines leave open (a centred cell, its primitive one,
+// a supercell and a subcell).
 const (
-	evidenceShare = 0.01
+	evidenceShare = 0.001
 	evidenceCount = 4
 )
 
-// weighByPattern fits each of the close first candidates to every point
-// of the scan (Pawley's method, FitPattern) and lets the fits enter
-// their probabilities. The line positions alone cannot tell apart cells
-// that index the same lines equally well (a centred cell and its
-// primitive one, a cell and a supercell that only adds weak or absent
-// lines, a metric near a higher one); the whole pattern can, since it
-// holds every count, the lines the cells predict where the scan shows
-// nothing, and the split of overlapping lines.
+// weighByPattern lets the whole pattern enter the probabilities of the
+// close first candidates. The line positions alone cannot tell apart
+// cells that index the same picked lines (a centred cell and its
+// primitive one, a cell and a supercell whose further lines are too weak
+// to be picked as peaks); the whole pattern holds the counts at every
+// line a cell predicts, picked or not.
 //
-// Each fit gives a log evidence by Schwarz's criterion (1978),
-// −½(χ² + P ln N) for P parameters and N points, which charges a cell
-// for every intensity it adds. The χ² are divided by the best fit's
-// χ²_red when that exceeds 1: a profile model short of the truth
-// inflates every χ² alike, and the differences with it. A candidate's
-// probability becomes its prior (from the line positions) times the
-// likelihood of its fit, normalised so that the fitted candidates keep
-// the share of probability they had together. Candidates are reordered
-// by the new probabilities; a failed fit leaves a candidate its prior.
+// The first candidate is fitted to every point of the scan (Pawley's
+// method, the fit polish keeps; firstFit). Each other close candidate's
+// lines are placed on the scan as the fit places the first's (placer),
+// and the two cells' extra lines, those each predicts where the other
+// has none (extraLines), are measured on the fit's residual: the
+// candidate's as they stand, the first's with their fitted intensity
+// added back (lineMeter). Only the extra lines tell the cells apart: a
+// free intensity per line fits the shared ones equally for both, so
+// the fits' χ² say little, and a criterion charging each intensity
+// (Schwarz's) penalises the weak lines that tell a primitive cell from a
+// centred one. The Bayes factor of the candidate over the first is
+// exp(presence(its extras) − presence(the first's extras)), from the
+// measured intensities, their esds scaled by the scatter of the
+// negative ones (noiseScale).
+//
+// A candidate is not weighed when an extra line of either lies at a
+// picked peak (the line positions weighed that peak already), or when
+// the two do not describe the same pattern (the first's shared lines
+// hold less than half of its intensity, or the candidate's extra lines
+// more than the shared ones). A weighed candidate's probability becomes
+// its prior (from the line positions) times its Bayes factor,
+// normalised so that the weighed candidates keep the share of
+// probability they had together; candidates are reordered by the new
+// probabilities, and the output says so when the first changes.
 func weighByPattern(ctx context.Context, a *Analysis, e *Extraction, s Settings) error {
 	if len(a.Candidates) < 2 {
 		return nil
@@ -71,61 +90,128 @@ func weighByPattern(ctx context.Context, a *Analysis, e *Extraction, s Settings)
 	if len(idx) < 2 {
 		return nil
 	}
-	n := float64(e.Scan.Len())
-	minRed := math.Inf(1)
-	for _, i := range idx {
+	first := &a.Candidates[idx[0]]
+	if first.Refined == nil {
+		return nil
+	}
+	pf, note, err := a.firstFit(ctx, e, s, first.Refined)
+	if err != nil {
+		return err
+	}
+	fev := &PatternEvidence{Prior: first.Probability, Err: note}
+	first.Evidence = fev
+	if pf == nil {
+		return nil // no fit to weigh by: the priors stand
+	}
+	if len(pf.Fit.Phases) == 0 {
+		fev.Err = "the fit returned no phase"
+		return nil
+	}
+	f := pf.Fit
+	fev.Rwp, fev.Rexp, fev.Chi2, fev.Parameters = f.Rwp, f.Rexp, f.Chi2, f.Parameters
+	fl := append([]refine.PatternReflection(nil), f.Phases[0].Reflections...)
+	sort.Slice(fl, func(x, y int) bool { return fl[x].TwoTheta < fl[y].TwoTheta })
+	meter := newLineMeter(e, f.Calc)
+	place := e.placer(f.Phases[0].Cell, fl)
+	width := e.widthAt
+	foreign := e.foreignRate(first.Unindexed)
+	fev.Compared = true
+	group := []int{idx[0]}
+	mass := first.Probability
+	for _, i := range idx[1:] {
 		c := &a.Candidates[i]
 		ev := &PatternEvidence{Prior: c.Probability}
 		c.Evidence = ev
-		pf, err := FitPattern(ctx, e, []cell.Cell{c.Cell()}, s, nil)
-		if err != nil {
-			if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
-				return err
-			}
-			ev.Err = err.Error()
+		cl := place(c.Cell())
+		_, xc := extraLines(cl, fl, width)
+		cf, xf := extraLines(fl, cl, width)
+		if e.picked(xc) || e.picked(xf) {
+			continue // the line positions decide between them
+		}
+		xc = meter.measure(xc, false)
+		xf = meter.measure(xf, true)
+		// The two must describe the same pattern: the first's shared
+		// lines hold most of its intensity, and the candidate's extra
+		// lines less than the shared ones.
+		if !mostlyShared(cf, fl) || sumPositive(xc) > sumIntensity(cf) {
 			continue
 		}
-		f := pf.Fit
-		ev.Rwp, ev.Rexp, ev.Chi2, ev.Parameters = f.Rwp, f.Rexp, f.Chi2, f.Parameters
-		ev.chi2 = f.Chi2 * float64(f.Points-f.Parameters)
-		minRed = math.Min(minRed, f.Chi2)
-	}
-	if math.IsInf(minRed, 1) {
-		return nil // no fit succeeded: the priors stand
-	}
-	// The fitted candidates' posteriors share the probability they had
-	// together; the failed keep their priors.
-	scale := math.Max(minRed, 1)
-	top := math.Inf(-1)
-	var mass float64
-	for _, i := range idx {
-		ev := a.Candidates[i].Evidence
-		if ev.Err != "" {
-			continue
-		}
+		k := noiseScale(append(append([]refine.PatternReflection(nil), xc...), xf...))
+		xc, xf = scaled(xc, k), scaled(xf, k)
+		ev.Extra, ev.Missing = len(xc), len(xf)
+		mean := meanIntensity(cf)
+		ev.LogBayes = presence(xc, mean, foreign) - presence(xf, mean, foreign)
+		ev.Compared = true
+		group = append(group, i)
 		mass += ev.Prior
-		ev.LogLikelihood = -0.5 * (ev.chi2/scale + float64(ev.Parameters)*math.Log(n))
-		top = math.Max(top, ev.LogLikelihood+math.Log(ev.Prior))
+	}
+	if len(group) < 2 {
+		return nil
 	}
 	var sum float64
-	for _, i := range idx {
-		if ev := a.Candidates[i].Evidence; ev.Err == "" {
-			a.Candidates[i].Probability = math.Exp(ev.LogLikelihood + math.Log(ev.Prior) - top)
-			sum += a.Candidates[i].Probability
-		}
+	top := math.Inf(-1)
+	for _, i := range group {
+		ev := a.Candidates[i].Evidence
+		top = math.Max(top, ev.LogBayes+math.Log(ev.Prior))
 	}
-	for _, i := range idx {
-		if a.Candidates[i].Evidence.Err == "" {
-			a.Candidates[i].Probability *= mass / sum
-		}
+	for _, i := range group {
+		ev := a.Candidates[i].Evidence
+		a.Candidates[i].Probability = math.Exp(ev.LogBayes + math.Log(ev.Prior) - top)
+		sum += a.Candidates[i].Probability
 	}
-	first := a.Candidates[0].Cell()
+	for _, i := range group {
+		a.Candidates[i].Probability *= mass / sum
+	}
+	was := a.Candidates[0].Cell()
 	sort.SliceStable(a.Candidates, func(x, y int) bool { return a.Candidates[x].Probability > a.Candidates[y].Probability })
 	for i := range a.Candidates {
 		a.Candidates[i].Rank = i + 1
 	}
-	if now := a.Candidates[0].Cell(); now != first {
-		a.Warnings = append(a.Warnings, fmt.Sprintf("the whole-pattern fits of the %d closest candidates put %s first (the line positions alone put %s first)", len(idx), now, first))
+	if now := a.Candidates[0].Cell(); now != was {
+		a.Warnings = append(a.Warnings, fmt.Sprintf("the whole pattern puts %s first: the weak lines that tell it from %s (the first by the line positions alone) favour it", now, was))
 	}
 	return nil
+}
+
+// mostlyShared reports whether the lines in common hold more than half
+// of the fit's intensity in all: the two cells then describe the same
+// pattern and differ in its weaker lines.
+func mostlyShared(common, all []refine.PatternReflection) bool {
+	return sumIntensity(common) > 0.5*sumIntensity(all)
+}
+
+func sumIntensity(rs []refine.PatternReflection) float64 {
+	var s float64
+	for _, r := range rs {
+		s += r.Intensity
+	}
+	return s
+}
+
+// meanIntensity is the mean intensity of the reflections.
+func meanIntensity(rs []refine.PatternReflection) float64 {
+	if len(rs) == 0 {
+		return 0
+	}
+	return sumIntensity(rs) / float64(len(rs))
+}
+
+// sumPositive is the sum of the reflections' intensities above zero.
+func sumPositive(rs []refine.PatternReflection) float64 {
+	var s float64
+	for _, r := range rs {
+		s += math.Max(r.Intensity, 0)
+	}
+	return s
+}
+
+// presence is the evidence of the whole pattern that the extra lines of
+// a cell are present: classEvidence's ln K when positive, else zero.
+// The ranking by line positions has already charged each cell for the
+// lines it predicts where the peak search found none (indexing's
+// likelihood, after de Wolff 1968); what the pattern adds is that such
+// lines, too weak to be picked, are there after all. Its evidence of
+// their absence would count the same missing lines twice.
+func presence(extras []refine.PatternReflection, mean float64, foreign func(float64) float64) float64 {
+	return math.Max(0, classEvidence(extras, mean, foreign))
 }

@@ -7,6 +7,7 @@ import (
 	"math"
 
 	"reticle/cell"
+	"reticle/refine"
 )
 
 // MaxPolishLines and MaxPolishWork bound the scans whose first cell is
@@ -67,22 +68,12 @@ func polish(ctx context.Context, a *Analysis, e *Extraction, s Settings) error {
 		return nil
 	}
 	r := c.Refined
-	_, hi := e.Scan.Range()
-	n, m := len(cell.Reflections(r.Cell, cell.QOf(hi, e.Result.Radiation.Lambda1))), e.Scan.Len()
-	if n > MaxPolishLines || float64(n)*float64(m) > MaxPolishWork {
-		c.PolishNote = fmt.Sprintf("not refined on the whole pattern: %d calculated lines over %d points (the bounds are %d lines and %.0e points × lines)", n, m, MaxPolishLines, MaxPolishWork)
-		return nil
-	}
-	// fitPattern refines the cell on the peaks again, every peak matched
-	// to it (RefineCell), rather than starting from r, the refinement on
-	// the lines the search indexed: that start let one public-low fit
-	// converge that did not from r (BENCHMARKS.md).
-	pf, err := fitPattern(ctx, e, []cell.Cell{r.Cell}, s, nil, polishIter)
+	pf, note, err := a.firstFit(ctx, e, s, r)
 	if err != nil {
-		if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
-			return err
-		}
-		c.PolishNote = fmt.Sprintf("the whole-pattern fit failed: %v", err)
+		return err
+	}
+	if pf == nil {
+		c.PolishNote = note
 		return nil
 	}
 	ph := pf.Fit.Phases[0]
@@ -101,4 +92,44 @@ func polish(ctx context.Context, a *Analysis, e *Extraction, s Settings) error {
 		c.PolishNote = fmt.Sprintf("the cell is refined on the whole pattern (Rwp %.2f %%, GoF %.2f): its volume esd, %.3g Å³, is no larger than the peak positions', %.3g Å³", 100*pf.Fit.Rwp, pf.Fit.GoF, ve, ve0)
 	}
 	return nil
+}
+
+// A fitOf is the whole-pattern fit of one refined cell (firstFit).
+type fitOf struct {
+	of   *refine.Result
+	pf   *PatternFit
+	note string
+}
+
+// firstFit returns the whole-pattern fit polish makes of the cell
+// refined as r, or nil and why not (the bounds, or the fit's failure);
+// the error is the context's only. The fit is kept with the analysis,
+// so that the evidence of the pattern (weighByPattern) and polish make
+// it once.
+func (a *Analysis) firstFit(ctx context.Context, e *Extraction, s Settings, r *refine.Result) (*PatternFit, string, error) {
+	if a.fit != nil && a.fit.of == r {
+		return a.fit.pf, a.fit.note, nil
+	}
+	_, hi := e.Scan.Range()
+	n, m := len(cell.Reflections(r.Cell, cell.QOf(hi, e.Result.Radiation.Lambda1))), e.Scan.Len()
+	if n > MaxPolishLines || float64(n)*float64(m) > MaxPolishWork {
+		note := fmt.Sprintf("not refined on the whole pattern: %d calculated lines over %d points (the bounds are %d lines and %.0e points × lines)", n, m, MaxPolishLines, MaxPolishWork)
+		a.fit = &fitOf{of: r, note: note}
+		return nil, note, nil
+	}
+	// fitPattern refines the cell on the peaks again, every peak matched
+	// to it (RefineCell), rather than starting from r, the refinement on
+	// the lines the search indexed: that start let one public-low fit
+	// converge that did not from r (BENCHMARKS.md).
+	pf, err := fitPattern(ctx, e, []cell.Cell{r.Cell}, s, nil, polishIter)
+	if err != nil {
+		if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
+			return nil, "", err
+		}
+		note := fmt.Sprintf("the whole-pattern fit failed: %v", err)
+		a.fit = &fitOf{of: r, note: note}
+		return nil, note, nil
+	}
+	a.fit = &fitOf{of: r, pf: pf}
+	return pf, "", nil
 }

@@ -56,12 +56,12 @@ type Settings struct {
 	// Tolerance is the smallest window, degrees 2θ, within which a
 	// calculated line indexes an observed one (indexing's default).
 	Tolerance float64 `json:"tolerance,omitempty"`
-	// WeighByPattern fits the close first candidates to the whole
-	// pattern and lets the fits enter their probabilities
-	// (weighByPattern). Off by default: on the benchmark sets it put a
-	// centred cell or a supercell first more often than it mended a
-	// ranking (BENCHMARKS.md).
-	WeighByPattern bool `json:"weigh_by_pattern,omitempty"`
+	// LinesOnly ranks the candidates by the line positions alone: the
+	// whole pattern's evidence on the lines that tell the close first
+	// candidates apart (weighByPattern) is left out. Settings written by
+	// earlier versions may hold "weigh_by_pattern", an option that is
+	// now the default; it is ignored.
+	LinesOnly bool `json:"lines_only,omitempty"`
 
 	// Corrections are the instrument corrections refined with each cell;
 	// nil means refine.DefaultCorrections (chosen from the data).

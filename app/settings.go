@@ -76,8 +76,8 @@ func newSettingsForm(s analysis.Settings, paper report.Paper) *settingsForm {
 	f.systems.SetSelected(on)
 	f.searchLower = widget.NewCheck("search the lower systems even when a higher cell explains the lines", nil)
 	f.searchLower.SetChecked(s.SearchLower)
-	f.weighByPattern = widget.NewCheck("weigh the close candidates by whole-pattern fits", nil)
-	f.weighByPattern.SetChecked(s.WeighByPattern)
+	f.weighByPattern = widget.NewCheck("weigh the close candidates by the whole pattern's weak lines", nil)
+	f.weighByPattern.SetChecked(!s.LinesOnly)
 	f.transparency = widget.NewCheck("refine the sample transparency too", nil)
 	f.transparency.SetChecked(s.Corrections != nil && s.Corrections.Has(refine.Transparency))
 	f.paper = widget.NewSelect([]string{string(report.A4), string(report.Letter)}, nil)
@@ -173,7 +173,7 @@ func (f *settingsForm) apply(s analysis.Settings) (analysis.Settings, report.Pap
 		}
 	}
 	s.SearchLower = f.searchLower.Checked
-	s.WeighByPattern = f.weighByPattern.Checked
+	s.LinesOnly = !f.weighByPattern.Checked
 	c := refine.DefaultCorrections
 	if s.Corrections != nil {
 		c = *s.Corrections

@@ -282,8 +282,8 @@ type Solution struct {
 	// Contents, when a formula was given.
 	Contents      *Contents `json:"contents,omitempty"`
 	ContentsError string    `json:"contents_error,omitempty"`
-	// PatternEvidence is the candidate's whole-pattern fit when the
-	// candidates were weighed by the pattern (analysis.PatternEvidence).
+	// PatternEvidence is what the whole pattern said of the candidate
+	// when the first candidates were close (analysis.PatternEvidence).
 	PatternEvidence *PatternEvidence `json:"pattern_evidence,omitempty"`
 	// CellFrom says which refinement gave the cell and its esds:
 	// "pattern" (the whole-pattern fit, Pattern) or "lines" (the peak
@@ -294,17 +294,23 @@ type Solution struct {
 	Pattern  *PatternInfo `json:"pattern,omitempty"`
 }
 
-// PatternEvidence is a candidate's whole-pattern fit in the ranking: its
-// agreement (percent), its log likelihood and the probability the line
-// positions alone gave the candidate.
+// PatternEvidence is what the whole pattern said of a close candidate
+// (analysis.PatternEvidence): the fit's agreement (percent; the first
+// candidate's, the one fit made), whether the candidate was weighed
+// against the first, the log Bayes factor over the first from the weak
+// lines that tell them apart and how many there were, and the
+// probability the line positions alone gave the candidate.
 type PatternEvidence struct {
-	Rwp           float64 `json:"rwp"`
-	Rexp          float64 `json:"rexp"`
-	Chi2          float64 `json:"chi2"`
-	Parameters    int     `json:"parameters"`
-	LogLikelihood float64 `json:"log_likelihood"`
-	Prior         float64 `json:"probability_from_lines"`
-	Error         string  `json:"error,omitempty"`
+	Rwp        float64 `json:"rwp,omitempty"`
+	Rexp       float64 `json:"rexp,omitempty"`
+	Chi2       float64 `json:"chi2,omitempty"`
+	Parameters int     `json:"parameters,omitempty"`
+	Compared   bool    `json:"compared"`
+	LogBayes   float64 `json:"log_bayes_factor"`
+	Extra      int     `json:"extra_lines"`
+	Missing    int     `json:"missing_lines"`
+	Prior      float64 `json:"probability_from_lines"`
+	Error      string  `json:"error,omitempty"`
 }
 
 // A Param is one refined parameter.
@@ -572,7 +578,7 @@ func NewSolution(a *analysis.Analysis, c *analysis.Candidate) Solution {
 	}
 	if ev := c.Evidence; ev != nil {
 		j.PatternEvidence = &PatternEvidence{Rwp: 100 * ev.Rwp, Rexp: 100 * ev.Rexp, Chi2: ev.Chi2, Parameters: ev.Parameters,
-			LogLikelihood: ev.LogLikelihood, Prior: ev.Prior, Error: ev.Err}
+			Compared: ev.Compared, LogBayes: ev.LogBayes, Extra: ev.Extra, Missing: ev.Missing, Prior: ev.Prior, Error: ev.Err}
 	}
 	j.CellFrom, j.CellNote = "lines", c.PolishNote
 	if pf := c.Pattern; pf != nil {

@@ -437,7 +437,7 @@ func SearchText(r *indexing.Result) string {
 	t := fmt.Sprintf("Searched %s (first %d lines; edges up to %g Å, volumes up to %g Å³, zero shift up to %.3g°): %s.",
 		strings.Join(names, ", "), r.LinesUsed, r.Bounds.MaxEdge, r.Bounds.MaxVolume, r.Bounds.ZeroRange, r.Stop)
 	if len(r.Solutions) > 0 {
-		t += fmt.Sprintf(" The first cell's probability, among the candidates found, is %s.", Percent(r.Solutions[0].Probability))
+		t += fmt.Sprintf(" The first cell's probability from the line positions, among the candidates found, is %s.", Percent(r.Solutions[0].Probability))
 	}
 	for _, w := range r.Warnings {
 		t += " Warning: " + w + "."

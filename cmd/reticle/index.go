@@ -97,6 +97,9 @@ func printCandidates(w io.Writer, a *analysis.Analysis) {
 			esd.Format(v, ve), report.Percent(c.Probability), c.M, c.FN, c.FNMeanDiff, c.FNPossible, c.Indexed, c.Indexed+c.Unindexed)
 	}
 	tw.Flush()
+	if t := evidenceText(a.Candidates); t != "" {
+		fmt.Fprintln(w, t)
+	}
 	if n := a.Candidates[0].PolishNote; n != "" {
 		fmt.Fprintf(w, "cell 1: %s\n", n)
 	}
@@ -134,4 +137,26 @@ func printCandidates(w io.Writer, a *analysis.Analysis) {
 		fmt.Fprintf(w, "extinction symbol: %s (information on the space group; the lattice does not depend on it)\n", best.Extinction)
 	}
 	fmt.Fprintln(w)
+}
+
+// evidenceText says how the whole pattern weighed the close candidates
+// (analysis.PatternEvidence), or "" when it weighed none.
+func evidenceText(cs []analysis.Candidate) string {
+	var parts []string
+	var first *analysis.PatternEvidence
+	for _, c := range cs {
+		ev := c.Evidence
+		if ev == nil || !ev.Compared {
+			continue
+		}
+		if ev.Rwp > 0 {
+			first = ev
+			continue
+		}
+		parts = append(parts, fmt.Sprintf("#%d %+.2f (%d extra lines, %d missing; %s from the lines alone)", c.Rank, ev.LogBayes, ev.Extra, ev.Missing, report.Percent(ev.Prior)))
+	}
+	if first == nil || len(parts) == 0 {
+		return ""
+	}
+	return fmt.Sprintf("whole pattern: the first cell's fit (Rwp %.2f %%) measured the weak lines that tell it from the close candidates; ln Bayes factor of each over it: %s", 100*first.Rwp, strings.Join(parts, "; "))
 }

@@ -121,9 +121,12 @@ var options = []option{
 			}
 			return nil
 		}},
+	{name: "lines-only", in: cmdIndex | cmdReport,
+		help: "rank the candidates by the line positions alone, without the whole pattern's evidence on the weak lines that tell the close first candidates apart",
+		set:  func(r *request, _ string) error { r.settings.LinesOnly = true; return nil }},
 	{name: "weigh-by-pattern", in: cmdIndex | cmdReport,
-		help: "fit the close first candidates to the whole pattern and let the fits enter their probabilities (each candidate's JSON then has pattern_evidence)",
-		set:  func(r *request, _ string) error { r.settings.WeighByPattern = true; return nil }},
+		help: "the default now (see --lines-only); accepted so that earlier scripts run",
+		set:  func(r *request, _ string) error { return nil }},
 	{name: "search-lower", in: cmdIndex | cmdReport,
 		help: "search the lower systems even when a higher cell explains the lines",
 		set:  func(r *request, _ string) error { r.settings.SearchLower = true; return nil }},
