@@ -12,11 +12,14 @@ import (
 // PatternEvidence is what the whole pattern said of a candidate when the
 // first candidates were close (see weighByPattern).
 type PatternEvidence struct {
-	// Rwp, Rexp, Chi2 and Parameters are those of the whole-pattern
-	// fit (as refine.PatternResult): the first candidate's, the one fit
-	// made; zero for the others.
+	// Rwp, Rexp, Chi2 and Parameters are those of the candidate's
+	// whole-pattern fit (as refine.PatternResult); zero when it has
+	// none (Err says why).
 	Rwp, Rexp, Chi2 float64
 	Parameters      int
+	// Reference marks the first candidate by the line positions, the
+	// one the others were weighed against on its fit.
+	Reference bool
 	// Compared reports that the candidate was weighed against the first
 	// by the lines that tell them apart; LogBayes is then the natural
 	// log of the Bayes factor of the candidate over the first (zero for
@@ -30,7 +33,7 @@ type PatternEvidence struct {
 	// Prior is the candidate's probability from the line positions
 	// alone, before the pattern entered it.
 	Prior float64
-	Err   string // why the first has no fit (the priors then stand)
+	Err   string // why the candidate has no fit (the first's: the priors then stand)
 }
 
 // The close candidates: those whose probability from the line positions
@@ -98,7 +101,7 @@ func weighByPattern(ctx context.Context, a *Analysis, e *Extraction, s Settings)
 	if err != nil {
 		return err
 	}
-	fev := &PatternEvidence{Prior: first.Probability, Err: note}
+	fev := &PatternEvidence{Prior: first.Probability, Err: note, Reference: true}
 	first.Evidence = fev
 	if pf == nil {
 		return nil // no fit to weigh by: the priors stand
@@ -144,6 +147,19 @@ func weighByPattern(ctx context.Context, a *Analysis, e *Extraction, s Settings)
 		ev.Compared = true
 		group = append(group, i)
 		mass += ev.Prior
+		// The candidate's own fit, for the user to compare with the
+		// first's (its extra lines were measured on the first's).
+		if c.Refined != nil {
+			cf, note, err := boundedFit(ctx, e, s, c.Refined)
+			if err != nil {
+				return err
+			}
+			if cf != nil {
+				ev.Rwp, ev.Rexp, ev.Chi2, ev.Parameters = cf.Fit.Rwp, cf.Fit.Rexp, cf.Fit.Chi2, cf.Fit.Parameters
+			} else {
+				ev.Err = note
+			}
+		}
 	}
 	if len(group) < 2 {
 		return nil

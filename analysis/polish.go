@@ -110,12 +110,22 @@ func (a *Analysis) firstFit(ctx context.Context, e *Extraction, s Settings, r *r
 	if a.fit != nil && a.fit.of == r {
 		return a.fit.pf, a.fit.note, nil
 	}
+	pf, note, err := boundedFit(ctx, e, s, r)
+	if err != nil {
+		return nil, "", err
+	}
+	a.fit = &fitOf{of: r, pf: pf, note: note}
+	return pf, note, nil
+}
+
+// boundedFit returns the whole-pattern fit of the cell refined as r
+// within polish's bounds (MaxPolishLines, MaxPolishWork, polishIter), or
+// nil and why not; the error is the context's only.
+func boundedFit(ctx context.Context, e *Extraction, s Settings, r *refine.Result) (*PatternFit, string, error) {
 	_, hi := e.Scan.Range()
 	n, m := len(cell.Reflections(r.Cell, cell.QOf(hi, e.Result.Radiation.Lambda1))), e.Scan.Len()
 	if n > MaxPolishLines || float64(n)*float64(m) > MaxPolishWork {
-		note := fmt.Sprintf("not refined on the whole pattern: %d calculated lines over %d points (the bounds are %d lines and %.0e points × lines)", n, m, MaxPolishLines, MaxPolishWork)
-		a.fit = &fitOf{of: r, note: note}
-		return nil, note, nil
+		return nil, fmt.Sprintf("not refined on the whole pattern: %d calculated lines over %d points (the bounds are %d lines and %.0e points × lines)", n, m, MaxPolishLines, MaxPolishWork), nil
 	}
 	// fitPattern refines the cell on the peaks again, every peak matched
 	// to it (RefineCell), rather than starting from r, the refinement on
@@ -126,10 +136,7 @@ func (a *Analysis) firstFit(ctx context.Context, e *Extraction, s Settings, r *r
 		if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
 			return nil, "", err
 		}
-		note := fmt.Sprintf("the whole-pattern fit failed: %v", err)
-		a.fit = &fitOf{of: r, note: note}
-		return nil, note, nil
+		return nil, fmt.Sprintf("the whole-pattern fit failed: %v", err), nil
 	}
-	a.fit = &fitOf{of: r, pf: pf}
 	return pf, "", nil
 }

@@ -305,6 +305,7 @@ type PatternEvidence struct {
 	Rexp       float64 `json:"rexp,omitempty"`
 	Chi2       float64 `json:"chi2,omitempty"`
 	Parameters int     `json:"parameters,omitempty"`
+	Reference  bool    `json:"reference,omitempty"`
 	Compared   bool    `json:"compared"`
 	LogBayes   float64 `json:"log_bayes_factor"`
 	Extra      int     `json:"extra_lines"`
@@ -578,7 +579,7 @@ func NewSolution(a *analysis.Analysis, c *analysis.Candidate) Solution {
 	}
 	if ev := c.Evidence; ev != nil {
 		j.PatternEvidence = &PatternEvidence{Rwp: 100 * ev.Rwp, Rexp: 100 * ev.Rexp, Chi2: ev.Chi2, Parameters: ev.Parameters,
-			Compared: ev.Compared, LogBayes: ev.LogBayes, Extra: ev.Extra, Missing: ev.Missing, Prior: ev.Prior, Error: ev.Err}
+			Reference: ev.Reference, Compared: ev.Compared, LogBayes: ev.LogBayes, Extra: ev.Extra, Missing: ev.Missing, Prior: ev.Prior, Error: ev.Err}
 	}
 	j.CellFrom, j.CellNote = "lines", c.PolishNote
 	if pf := c.Pattern; pf != nil {

@@ -149,13 +149,17 @@ func evidenceText(cs []analysis.Candidate) string {
 		if ev == nil || !ev.Compared {
 			continue
 		}
-		if ev.Rwp > 0 {
+		if ev.Reference {
 			first = ev
 			continue
 		}
-		parts = append(parts, fmt.Sprintf("#%d %+.2f (%d extra lines, %d missing; %s from the lines alone)", c.Rank, ev.LogBayes, ev.Extra, ev.Missing, report.Percent(ev.Prior)))
+		fit := "no fit"
+		if ev.Rwp > 0 {
+			fit = fmt.Sprintf("Rwp %.2f %%", 100*ev.Rwp)
+		}
+		parts = append(parts, fmt.Sprintf("#%d %+.2f (%d extra lines, %d missing; %s from the lines alone; %s)", c.Rank, ev.LogBayes, ev.Extra, ev.Missing, report.Percent(ev.Prior), fit))
 	}
-	if first == nil || len(parts) == 0 {
+	if first == nil || first.Rwp == 0 || len(parts) == 0 {
 		return ""
 	}
 	return fmt.Sprintf("whole pattern: the first cell's fit (Rwp %.2f %%) measured the weak lines that tell it from the close candidates; ln Bayes factor of each over it: %s", 100*first.Rwp, strings.Join(parts, "; "))
