@@ -3,6 +3,7 @@ package analysis
 import (
 	"math"
 
+	"reticle/internal/order"
 	"reticle/refine"
 )
 
@@ -45,18 +46,25 @@ func classEvidence(extras []refine.PatternReflection, mean float64, foreign func
 	if len(sig) == 0 || !(mean > 0) {
 		return 0
 	}
-	lo := median(sig) / 10
+	lo := order.Median(sig) / 10
 	if !(mean > lo) {
 		return 0
-	}
-	lf, lk := make([]float64, len(extras)), make([]float64, len(extras))
-	for j, r := range extras {
-		f := math.Min(math.Max(foreign(r.TwoTheta), 0), 0.5)
-		lf[j], lk[j] = math.Log(f), math.Log1p(-f)
 	}
 	logR := func(r refine.PatternReflection, mu float64) float64 {
 		s, t := r.IntensityESD/mu, r.Intensity/r.IntensityESD
 		return math.Log(s) + 0.5*math.Log(2*math.Pi) + logMills(s-t)
+	}
+	// Per reflection, the terms that do not depend on μ: ln(1 − f), the
+	// foreign line's ln(f·R(mean)), and the "absent" side's normaliser.
+	lk, q, norm := make([]float64, len(extras)), make([]float64, len(extras)), make([]float64, len(extras))
+	for j, r := range extras {
+		if !(r.IntensityESD > 0) {
+			continue
+		}
+		f := math.Min(math.Max(foreign(r.TwoTheta), 0), 0.5)
+		lk[j] = math.Log1p(-f)
+		q[j] = math.Log(f) + logR(r, mean)
+		norm[j] = logAddExp(lk[j], q[j])
 	}
 	const grid = 64
 	step := math.Log(mean/lo) / (grid - 1)
@@ -69,8 +77,7 @@ func classEvidence(extras []refine.PatternReflection, mean float64, foreign func
 			if !(r.IntensityESD > 0) {
 				continue
 			}
-			q := lf[j] + logR(r, mean)
-			l += logAddExp(lk[j]+logR(r, mu), q) - logAddExp(lk[j], q)
+			l += logAddExp(lk[j]+logR(r, mu), q[j]) - norm[j]
 		}
 		logs[g] = l
 		top = math.Max(top, l)

@@ -114,10 +114,10 @@ func weighByPattern(ctx context.Context, a *Analysis, e *Extraction, s Settings)
 	fev.Rwp, fev.Rexp, fev.Chi2, fev.Parameters = f.Rwp, f.Rexp, f.Chi2, f.Parameters
 	fl := append([]refine.PatternReflection(nil), f.Phases[0].Reflections...)
 	sort.Slice(fl, func(x, y int) bool { return fl[x].TwoTheta < fl[y].TwoTheta })
-	meter := newLineMeter(e, f.Calc)
+	width := e.widths()
+	meter := newLineMeter(e, f.Calc, width)
 	place := e.placer(f.Phases[0].Cell, fl)
-	width := e.widthAt
-	foreign := e.foreignRate(first.Unindexed)
+	foreign := e.foreignRate(first.Unindexed, width)
 	fev.Compared = true
 	group := []int{idx[0]}
 	mass := first.Probability
@@ -128,7 +128,7 @@ func weighByPattern(ctx context.Context, a *Analysis, e *Extraction, s Settings)
 		cl := place(c.Cell())
 		_, xc := extraLines(cl, fl, width)
 		cf, xf := extraLines(fl, cl, width)
-		if e.picked(xc) || e.picked(xf) {
+		if e.picked(xc, width) || e.picked(xf, width) {
 			continue // the line positions decide between them
 		}
 		xc = meter.measure(xc, false)
@@ -150,12 +150,12 @@ func weighByPattern(ctx context.Context, a *Analysis, e *Extraction, s Settings)
 		// The candidate's own fit, for the user to compare with the
 		// first's (its extra lines were measured on the first's).
 		if c.Refined != nil {
-			cf, note, err := boundedFit(ctx, e, s, c.Refined)
+			own, note, err := boundedFit(ctx, e, s, c.Refined)
 			if err != nil {
 				return err
 			}
-			if cf != nil {
-				ev.Rwp, ev.Rexp, ev.Chi2, ev.Parameters = cf.Fit.Rwp, cf.Fit.Rexp, cf.Fit.Chi2, cf.Fit.Parameters
+			if own != nil {
+				ev.Rwp, ev.Rexp, ev.Chi2, ev.Parameters = own.Fit.Rwp, own.Fit.Rexp, own.Fit.Chi2, own.Fit.Parameters
 			} else {
 				ev.Err = note
 			}

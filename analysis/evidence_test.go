@@ -12,8 +12,10 @@ import (
 // rockSalt returns the relative height of a reflection of a cubic F cell
 // whose all-odd reflections are the fraction odd of the all-even ones,
 // as the difference of two scatterers' factors makes them in the
-// rock-salt structure (multiplicity × Lorentz–polarisation left out:
-// the generator's default factor is not wanted here).
+// rock-salt structure: multiplicity × the Lorentz–polarisation factor
+// (1 + cos²2θ)/(sin²θ cos θ) (common practice), without the generator's
+// default pseudo-random factor, which would weaken some odd lines more
+// than others.
 func rockSalt(odd float64) func(h cell.HKL, tt float64, mult int) float64 {
 	return func(h cell.HKL, tt float64, mult int) float64 {
 		th := tt * math.Pi / 360

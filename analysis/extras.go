@@ -47,25 +47,15 @@ const (
 	extraWidths  = 1.0
 )
 
-// median returns the median of x (not empty).
-func median(x []float64) float64 {
-	s := append([]float64(nil), x...)
-	sort.Float64s(s)
-	n := len(s)
-	if n%2 == 1 {
-		return s[n/2]
-	}
-	return (s[n/2-1] + s[n/2]) / 2
-}
-
 // picked reports whether a reflection lies within extraWidths line
-// widths of a peak of the extraction (a companion included). A picked
+// widths (width, degrees at 2θ) of a peak of the extraction (a
+// companion included). A picked
 // peak has been weighed by the line positions already: the cell that
 // predicts a line there indexes it, the other counts it as foreign.
-func (e *Extraction) picked(rs []refine.PatternReflection) bool {
+func (e *Extraction) picked(rs []refine.PatternReflection, width func(tt float64) float64) bool {
 	ps := e.peaks()
 	for _, r := range rs {
-		w := extraWidths * e.widthAt(r.TwoTheta)
+		w := extraWidths * width(r.TwoTheta)
 		for _, p := range ps {
 			if math.Abs(p.TwoTheta-r.TwoTheta) < w {
 				return true
@@ -77,17 +67,17 @@ func (e *Extraction) picked(rs []refine.PatternReflection) bool {
 
 // foreignRate returns the probability that a foreign line lies within a
 // line width of 2θ: the scan's rate of foreign lines per degree times
-// two widths. The rate is that of the lines the first candidate leaves
+// two widths (width, degrees at 2θ). The rate is that of the lines the first candidate leaves
 // unindexed, (n + 1)/range by Laplace's rule of succession (a scan
 // whose lines are all indexed may still hold one foreign line).
-func (e *Extraction) foreignRate(unindexed int) func(tt float64) float64 {
+func (e *Extraction) foreignRate(unindexed int, width func(tt float64) float64) func(tt float64) float64 {
 	x := e.Scan.TwoTheta
 	span := x[len(x)-1] - x[0]
 	return func(tt float64) float64 {
 		if !(span > 0) {
 			return 0.5
 		}
-		return float64(unindexed+1) / span * 2 * e.widthAt(tt)
+		return float64(unindexed+1) / span * 2 * width(tt)
 	}
 }
 

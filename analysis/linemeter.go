@@ -6,28 +6,33 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
+	"reticle/internal/order"
 	"reticle/peaks"
 	"reticle/profile"
 	"reticle/refine"
 )
 
-// widthAt returns the FWHM of the scan's lines at 2θ tt, degrees: the
-// width curve of its well-determined peaks, or, when the extraction
-// found too few to draw one, the median width of its peaks.
-func (e *Extraction) widthAt(tt float64) float64 {
-	if w := e.Result.FWHMCurve.At(tt); w > 1e-4 {
-		return w
-	}
+// widths returns the FWHM of the scan's lines at 2θ, degrees: the width
+// curve of its well-determined peaks, or, when the extraction found too
+// few to draw one, the median width of its peaks (taken once).
+func (e *Extraction) widths() func(tt float64) float64 {
 	var ws []float64
 	for _, p := range e.peaks() {
 		if p.FWHM > 0 {
 			ws = append(ws, p.FWHM)
 		}
 	}
-	if len(ws) == 0 {
-		return 0
+	flat := 0.0
+	if len(ws) > 0 {
+		flat = order.Median(ws)
 	}
-	return median(ws)
+	curve := e.Result.FWHMCurve
+	return func(tt float64) float64 {
+		if w := curve.At(tt); w > 1e-4 {
+			return w
+		}
+		return flat
+	}
 }
 
 // A lineMeter measures the intensity of a line at a given position on
@@ -35,15 +40,16 @@ func (e *Extraction) widthAt(tt float64) float64 {
 // its own under the line (see amplitude).
 type lineMeter struct {
 	e     *Extraction
-	x     []float64 // degrees 2θ
-	r     []float64 // observed − calculated, counts
-	sig   []float64 // the points' esds, counts
-	ratio float64   // K-alpha2 to K-alpha1, 0 for one line
+	width func(tt float64) float64 // the lines' FWHM, degrees (Extraction.widths)
+	x     []float64                // degrees 2θ
+	r     []float64                // observed − calculated, counts
+	sig   []float64                // the points' esds, counts
+	ratio float64                  // K-alpha2 to K-alpha1, 0 for one line
 }
 
-func newLineMeter(e *Extraction, calc []float64) *lineMeter {
+func newLineMeter(e *Extraction, calc []float64, width func(tt float64) float64) *lineMeter {
 	sc := e.Scan
-	m := &lineMeter{e: e, x: sc.TwoTheta, r: make([]float64, sc.Len()), sig: make([]float64, sc.Len())}
+	m := &lineMeter{e: e, width: width, x: sc.TwoTheta, r: make([]float64, sc.Len()), sig: make([]float64, sc.Len())}
 	ns := math.Max(e.Result.NoiseScale, 1)
 	for i := range m.r {
 		m.r[i] = sc.Intensity[i] - calc[i]
@@ -60,7 +66,7 @@ func newLineMeter(e *Extraction, calc []float64) *lineMeter {
 // extraction's width curve, mixing, asymmetry and tails.
 func (m *lineMeter) shape(x0 float64) func(x float64) float64 {
 	res := m.e.Result
-	w := m.e.widthAt(x0)
+	w := m.width(x0)
 	eta, tail := res.Eta, math.Max(res.TailRatio, 1)
 	area, _ := profile.TailedAreaFactor(eta, tail)
 	area *= w
@@ -91,7 +97,7 @@ func (m *lineMeter) shape(x0 float64) func(x float64) float64 {
 // when the window holds too few points to fit the three terms.
 func (m *lineMeter) amplitude(x0, own float64) (a, sa float64, ok bool) {
 	g := m.shape(x0)
-	w := m.e.widthAt(x0)
+	w := m.width(x0)
 	hi := x0
 	if m.ratio > 0 {
 		res := m.e.Result

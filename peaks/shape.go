@@ -2,7 +2,6 @@ package peaks
 
 import (
 	"math"
-	"slices"
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distuv"
@@ -120,13 +119,13 @@ func shapeCurve(md *model, cs []*component, o Options, fwhm0 float64) (profile.C
 	}
 	eta := 0.5
 	if len(etas) > 0 {
-		eta = median(etas)
+		eta = order.Median(etas)
 	}
 	law, asym := asymmetryLaw(xs, as, sas)
 	if len(ws) == 0 {
 		return profile.Caglioti{W: fwhm0 * fwhm0}, eta, law, asym
 	}
-	flat := profile.Caglioti{W: sq(median(ws))}
+	flat := profile.Caglioti{W: sq(order.Median(ws))}
 	if len(ws) < 2 {
 		return flat, eta, law, asym
 	}
@@ -170,16 +169,6 @@ func shapeCurve(md *model, cs []*component, o Options, fwhm0 float64) (profile.C
 		}
 	}
 	return c, eta, law, asym
-}
-
-func median(v []float64) float64 {
-	s := append([]float64(nil), v...)
-	n := len(s)
-	hi := order.Nth(s, n/2)
-	if n%2 == 1 {
-		return hi
-	}
-	return 0.5 * (slices.Max(s[:n/2]) + hi)
 }
 
 // widthLaw fits FWHM² = U tan²θ + W to the widths ws at 2θ = xs

@@ -52,3 +52,15 @@ func Nth(v []float64, k int) float64 {
 	}
 	return v[k]
 }
+
+// Median returns the median of v (not empty): the middle value, or the
+// mean of the two middle values of an even count. v is left as it is.
+func Median(v []float64) float64 {
+	s := append([]float64(nil), v...)
+	n := len(s)
+	hi := Nth(s, n/2)
+	if n%2 == 1 {
+		return hi
+	}
+	return 0.5 * (slices.Max(s[:n/2]) + hi)
+}

@@ -45,3 +45,24 @@ func BenchmarkNth(b *testing.B) {
 		Nth(w, len(w)/2)
 	}
 }
+
+// TestMedian: odd and even counts, and v left as it was.
+func TestMedian(t *testing.T) {
+	for _, c := range []struct {
+		v    []float64
+		want float64
+	}{
+		{[]float64{3}, 3},
+		{[]float64{5, 1, 3}, 3},
+		{[]float64{4, 1, 3, 2}, 2.5},
+		{[]float64{7, 7, 1, 9, 7, 2}, 7},
+	} {
+		in := slices.Clone(c.v)
+		if got := Median(c.v); got != c.want {
+			t.Errorf("Median(%v) = %g, want %g", in, got, c.want)
+		}
+		if !slices.Equal(in, c.v) {
+			t.Errorf("Median reordered %v to %v", in, c.v)
+		}
+	}
+}
