@@ -153,8 +153,13 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 		if strong := strongApart(all, n, fewest); strong != nil {
 			// The best of them, by their figure on the strong lines,
 			// are ranked whatever their figure on the first lines
-			// (which a foreign phase fills).
-			more, err := sr.apart(strong, strongKeep, first)
+			// (which a foreign phase fills). The lower systems are
+			// searched on them too when they were searched on the
+			// first lines (no higher cell explained those): the
+			// foreign lines that keep a higher cell from explaining
+			// the first lines keep a lower one from it as well.
+			zones := slices.Contains(res.Searched, lowSystems[0])
+			more, err := sr.apart(strong, strongKeep, first, zones)
 			if err != nil {
 				return nil, err
 			}
@@ -167,7 +172,7 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 			// their own, and their cells join the ranking, to be
 			// weighed as second phases.
 			if left := leftOver(ranked[0], all, o.Lines); len(left) >= minPairLeft {
-				more, err := sr.apart(left, leftKeep, first)
+				more, err := sr.apart(left, leftKeep, first, false)
 				if err != nil {
 					return nil, err
 				}
@@ -223,12 +228,13 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 	return res, nil
 }
 
-// apart searches the higher systems on the lines ls alone and returns
+// apart searches the higher systems (and the lower ones too when zones)
+// on the lines ls alone and returns
 // the best keep cells by their figure on them, marked to be weighed
 // whatever their figure on the first lines; their assignments and
 // figures are taken on the first lines, as every other cand's.
-func (sr *searcher) apart(ls []obs, keep int, first []obs) ([]*cand, error) {
-	more, err := sr.run(ls, nil, false)
+func (sr *searcher) apart(ls []obs, keep int, first []obs, zones bool) ([]*cand, error) {
+	more, err := sr.run(ls, nil, zones)
 	if err != nil {
 		return nil, err
 	}
@@ -445,10 +451,17 @@ func leftOver(k *cand, all []obs, n int) []obs {
 }
 
 // strongApart returns the first n lines stronger than strongCut when
-// they are fewer than n (some of the first n lines are weak) and at
-// least fewest; nil otherwise.
+// some of the first n lines are weak (the strong lines are fewer than n,
+// or the nth of them lies beyond the nth line) and they are at least
+// fewest; nil otherwise.
 func strongApart(all []obs, n, fewest int) []obs {
-	if strong := strongFirst(all, n); len(strong) >= fewest && len(strong) < n {
+	strong := strongFirst(all, n)
+	if len(strong) < fewest || len(strong) == 0 {
+		return nil
+	}
+	// Some of the first n lines are weak when fewer than n lines are
+	// strong, or when the nth strong line lies beyond the nth line.
+	if len(strong) < n || strong[n-1].tt > all[n-1].tt {
 		return strong
 	}
 	return nil
@@ -581,7 +594,8 @@ func (res *Result) list(ranked []*cand, first, all []obs, o Options) {
 		// Two cands of one lattice can refine to one cell: it is
 		// listed once, at the better rank (cells within 2e-3, the
 		// relative spread within which the ranking takes calculated
-		// lines for one, see clustersOf).
+		// lines for one, see clustersOf), with the probability of
+		// both (each is a description of the one lattice).
 		sol := solutionOf(k, all, first, o)
 		sol.Probability, sol.LogEvidence = probs[i], k.ev.logE()
 		if sp := k.ev.splitUsed; sp != nil && len(k.ev.demanding) > 0 {
@@ -594,9 +608,11 @@ func (res *Result) list(ranked []*cand, first, all []obs, o Options) {
 			c := f.partner.whole.c
 			sol.SecondPhase, sol.SecondPhaseLines = &c, int(math.Round(f.pairLines))
 		}
-		if !slices.ContainsFunc(res.Solutions, func(s Solution) bool { return sameCell(s.Cell, sol.Cell, 2e-3) }) {
-			res.Solutions = append(res.Solutions, sol)
+		if j := slices.IndexFunc(res.Solutions, func(s Solution) bool { return sameCell(s.Cell, sol.Cell, 2e-3) }); j >= 0 {
+			res.Solutions[j].Probability += probs[i]
+			continue
 		}
+		res.Solutions = append(res.Solutions, sol)
 	}
 }
 

@@ -67,7 +67,11 @@ func lineDensity(b *cand, ls []obs, lambda float64, sp span) ([]float64, int) {
 // explains too as others: a second phase shares lines with the first by
 // coincidence only, and a cell whose lines fall mostly on k's is
 // another description of k's lattice or one derived from it, which the
-// ranking weighs as such. The lines b adds must also carry less of the
+// ranking weighs as such. Likewise k must explain at least as many
+// lines that b does not as lines they share: a cell whose lines fall
+// mostly on b's (a zone or a sublattice of b's lattice) is a partial
+// description of the lattice b describes whole, and the pair would
+// credit k with b's lines. The lines b adds must also carry less of the
 // scan's intensity (the sum of their relative intensities) than those k
 // explains: the sample is the phase that diffracts most, and the second
 // phase is the other. The scale of the second phase's intensities, its
@@ -78,12 +82,15 @@ func secondOf(k, b *cand, ls []obs, h []float64, groups int) *partner {
 	if len(own) != len(other) {
 		return nil
 	}
-	extra, shared := 0, 0
+	extra, shared, alone := 0, 0, 0
 	var sk, sb, top float64
 	for i, l := range ls {
 		r := math.Max(l.rel, 0)
 		if own[i] > 0.5 {
 			sk += r
+			if other[i] <= 0.5 {
+				alone++
+			}
 		}
 		if other[i] > 0.5 {
 			if own[i] > 0.5 {
@@ -95,7 +102,7 @@ func secondOf(k, b *cand, ls []obs, h []float64, groups int) *partner {
 			}
 		}
 	}
-	if extra < minPairLines || shared > extra || sb >= sk {
+	if extra < minPairLines || shared > extra || shared > alone || sb >= sk {
 		return nil
 	}
 	lo := weakestRel(ls)
