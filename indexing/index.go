@@ -229,10 +229,10 @@ func Index(ctx context.Context, lines []cell.Line, opt Options, progress func(do
 }
 
 // apart searches the higher systems (and the lower ones too when zones)
-// on the lines ls alone and returns
-// the best keep cells by their figure on them, marked to be weighed
-// whatever their figure on the first lines; their assignments and
-// figures are taken on the first lines, as every other cand's.
+// on the lines ls alone and returns the best keep cells by their figure
+// on them, marked to be weighed whatever their figure on the first
+// lines; their assignments and figures are taken on the first lines, as
+// every other cand's.
 func (sr *searcher) apart(ls []obs, keep int, first []obs, zones bool) ([]*cand, error) {
 	more, err := sr.run(ls, nil, zones)
 	if err != nil {
@@ -456,12 +456,7 @@ func leftOver(k *cand, all []obs, n int) []obs {
 // fewest; nil otherwise.
 func strongApart(all []obs, n, fewest int) []obs {
 	strong := strongFirst(all, n)
-	if len(strong) < fewest || len(strong) == 0 {
-		return nil
-	}
-	// Some of the first n lines are weak when fewer than n lines are
-	// strong, or when the nth strong line lies beyond the nth line.
-	if len(strong) < n || strong[n-1].tt > all[n-1].tt {
+	if len(strong) >= fewest && (len(strong) < n || strong[n-1].tt > all[n-1].tt) {
 		return strong
 	}
 	return nil
