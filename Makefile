@@ -61,7 +61,7 @@ unit:
 
 # The race detector on the packages that run work in goroutines.
 race:
-	LANG=en_US.UTF-8 $(GO) test -race -count=1 ./app/... ./analysis/... ./report/... ./cmd/...
+	LANG=en_US.UTF-8 $(GO) test -race -count=1 -timeout 20m ./app/... ./analysis/... ./report/... ./cmd/...
 
 # The full-size property and Monte Carlo tests (RETICLE_LONG=1), which
 # take far longer than make test's.

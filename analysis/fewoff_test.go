@@ -17,6 +17,7 @@ import (
 // two, of the same blind run, were put right by the same change
 // (orthorhombic lattices, each missed before).
 func TestFewLinesOffZone(t *testing.T) {
+	longUnderRace(t)
 	for _, tc := range []struct {
 		lat  synth.Lattice
 		seed uint64

@@ -15,6 +15,7 @@ import (
 // cell with a third edge of 9–11 Å that indexed the few lines off the
 // zone by chance came first, stated at 0.65–1.00.
 func TestShortEdgeLayers(t *testing.T) {
+	longUnderRace(t)
 	for _, tc := range []struct {
 		lat  synth.Lattice
 		seed uint64

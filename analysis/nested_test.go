@@ -23,6 +23,7 @@ import (
 // the minimum, its χ² above the zero-only fit's by 54 and its cell
 // 6·10⁻⁴ off.
 func TestFitPatternNested(t *testing.T) {
+	longUnderRace(t)
 	rng := rand.New(rand.NewPCG(1796427328897787117, 0x9011))
 	for i := range 8 {
 		truth, in := drawNearCubic(rng)

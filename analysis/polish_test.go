@@ -27,6 +27,7 @@ var polishSeed = flag.Uint64("polish.seed", 1796428126227333676, "seed of TestPo
 // being on scans whose lines merge. The default seed is fixed; 0 draws a
 // fresh one.
 func TestPolish(t *testing.T) {
+	longUnderRace(t)
 	seed := *polishSeed
 	if seed == 0 {
 		seed = rand.Uint64()

@@ -17,6 +17,7 @@ import (
 // 33.2 Å, and a hexagonal P cell of 2.36 × 39.1 Å that took the true
 // lattice as its second phase.
 func TestStrongLinesLower(t *testing.T) {
+	longUnderRace(t)
 	for _, tc := range []struct {
 		lat  synth.Lattice
 		seed uint64
