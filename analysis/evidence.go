@@ -26,6 +26,10 @@ type PatternEvidence struct {
 	// the first).
 	Compared bool
 	LogBayes float64
+	// Split reports that the two cells' lines coincide within the
+	// widths, one's lines splittings of the other's: LogBayes is then
+	// from the two fits' χ² (profileEvidence), not from extra lines.
+	Split bool
 	// Extra are the candidate's lines resolved from every line of the
 	// first, and Missing the first's lines resolved from every line of
 	// the candidate: the lines that tell the two apart, measured.
@@ -131,6 +135,9 @@ func weighByPattern(ctx context.Context, a *Analysis, e *Extraction, s Settings)
 		if e.picked(xc, width) || e.picked(xf, width) {
 			continue // the line positions decide between them
 		}
+		// Neither has a line the other lacks: one cell's lines are
+		// splittings, within the widths, of the other's.
+		split := len(xc) == 0 && len(xf) == 0
 		xc = meter.measure(xc, false)
 		xf = meter.measure(xf, true)
 		// The two must describe the same pattern: the first's shared
@@ -156,6 +163,9 @@ func weighByPattern(ctx context.Context, a *Analysis, e *Extraction, s Settings)
 			}
 			if own != nil {
 				ev.Rwp, ev.Rexp, ev.Chi2, ev.Parameters = own.Fit.Rwp, own.Fit.Rexp, own.Fit.Chi2, own.Fit.Parameters
+				if split {
+					ev.LogBayes, ev.Split = profileEvidence(*f, *own.Fit), true
+				}
 			} else {
 				ev.Err = note
 			}
@@ -184,9 +194,36 @@ func weighByPattern(ctx context.Context, a *Analysis, e *Extraction, s Settings)
 		a.Candidates[i].Rank = i + 1
 	}
 	if now := a.Candidates[0].Cell(); now != was {
-		a.Warnings = append(a.Warnings, fmt.Sprintf("the whole pattern puts %s first: the weak lines that tell it from %s (the first by the line positions alone) favour it", now, was))
+		why := "the weak lines that tell it from %s (the first by the line positions alone) favour it"
+		if ev := a.Candidates[0].Evidence; ev != nil && ev.Split {
+			why = "its lines, splittings within their widths of those of %s (the first by the line positions alone), fit the profile better by more than their extra parameters explain"
+		}
+		a.Warnings = append(a.Warnings, fmt.Sprintf("the whole pattern puts %s first: "+why, now, was))
 	}
 	return nil
+}
+
+// profileEvidence is the log Bayes factor of a candidate's whole-pattern
+// fit c over the first's, f, when the two cells predict the same lines
+// within the widths (one a metric distortion of the other, its lines
+// splittings of the other's): there are no extra lines to measure, and
+// what tells the cells apart is how the profile fits, each split
+// component's intensity a parameter of its own. By Schwarz's criterion
+// (Ann. Stat. 6 (1978) 461), ln B ≈ −Δχ²/2 − ΔP·ln N/2, N the points and
+// P the parameters; χ² is scaled by the smaller of the two fits'
+// reduced χ² when above 1, as an F-test scales it by the better fit's
+// (Hamilton, Acta Cryst. 18 (1965) 502), so that a profile model short
+// of the truth, whose misfit grows with the signal, does not pass for a
+// splitting. Zero when either fit stopped before converging, or the
+// fits are over different points.
+func profileEvidence(f, c refine.PatternResult) float64 {
+	if !f.Converged || !c.Converged || f.Points != c.Points || f.Points <= max(f.Parameters, c.Parameters) {
+		return 0
+	}
+	s2 := math.Max(1, math.Min(f.Chi2, c.Chi2))
+	xf := f.Chi2 * float64(f.Points-f.Parameters)
+	xc := c.Chi2 * float64(c.Points-c.Parameters)
+	return -(xc-xf)/(2*s2) - float64(c.Parameters-f.Parameters)/2*math.Log(float64(f.Points))
 }
 
 // mostlyShared reports whether the lines in common hold more than half

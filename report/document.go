@@ -310,6 +310,7 @@ type PatternEvidence struct {
 	LogBayes   float64 `json:"log_bayes_factor"`
 	Extra      int     `json:"extra_lines"`
 	Missing    int     `json:"missing_lines"`
+	Split      bool    `json:"split_lines,omitempty"`
 	Prior      float64 `json:"probability_from_lines"`
 	Error      string  `json:"error,omitempty"`
 }
@@ -579,7 +580,7 @@ func NewSolution(a *analysis.Analysis, c *analysis.Candidate) Solution {
 	}
 	if ev := c.Evidence; ev != nil {
 		j.PatternEvidence = &PatternEvidence{Rwp: 100 * ev.Rwp, Rexp: 100 * ev.Rexp, Chi2: ev.Chi2, Parameters: ev.Parameters,
-			Reference: ev.Reference, Compared: ev.Compared, LogBayes: ev.LogBayes, Extra: ev.Extra, Missing: ev.Missing, Prior: ev.Prior, Error: ev.Err}
+			Reference: ev.Reference, Compared: ev.Compared, LogBayes: ev.LogBayes, Extra: ev.Extra, Missing: ev.Missing, Split: ev.Split, Prior: ev.Prior, Error: ev.Err}
 	}
 	j.CellFrom, j.CellNote = "lines", c.PolishNote
 	if pf := c.Pattern; pf != nil {

@@ -13,6 +13,7 @@ func TestEvidenceText(t *testing.T) {
 	ref := &analysis.PatternEvidence{Reference: true, Compared: true, Rwp: 0.0715, Prior: 0.7}
 	other := &analysis.PatternEvidence{Compared: true, Rwp: 0.0712, LogBayes: 0.65, Extra: 4, Prior: 0.047}
 	unfit := &analysis.PatternEvidence{Compared: true, LogBayes: 0, Extra: 2, Prior: 0.2, Err: "not refined on the whole pattern"}
+	split := &analysis.PatternEvidence{Compared: true, Rwp: 0.0958, LogBayes: 80.86, Split: true, Prior: 0.011}
 	for _, c := range []struct {
 		name string
 		cs   []analysis.Candidate
@@ -22,6 +23,8 @@ func TestEvidenceText(t *testing.T) {
 		{"reference alone", []analysis.Candidate{{Evidence: ref}}, []string{""}},
 		{"weighed", []analysis.Candidate{{Evidence: ref}, {Evidence: other}, {Evidence: unfit}},
 			[]string{"Rwp 7.15 %", "+0.65 (4 extra lines, 0 missing; 4.7 % from the lines alone; Rwp 7.12 %)", "no fit"}},
+		{"split lines", []analysis.Candidate{{Evidence: ref}, {Evidence: split}},
+			[]string{"+80.86 (its lines split the first's within their widths: the fits' χ² compared; 1.1 % from the lines alone; Rwp 9.58 %)"}},
 	} {
 		for i := range c.cs {
 			c.cs[i].Rank = i + 1

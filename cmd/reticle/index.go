@@ -157,7 +157,11 @@ func evidenceText(cs []analysis.Candidate) string {
 		if ev.Rwp > 0 {
 			fit = fmt.Sprintf("Rwp %.2f %%", 100*ev.Rwp)
 		}
-		parts = append(parts, fmt.Sprintf("#%d %+.2f (%d extra lines, %d missing; %s from the lines alone; %s)", c.Rank, ev.LogBayes, ev.Extra, ev.Missing, report.Percent(ev.Prior), fit))
+		lines := fmt.Sprintf("%d extra lines, %d missing", ev.Extra, ev.Missing)
+		if ev.Split {
+			lines = "its lines split the first's within their widths: the fits' χ² compared"
+		}
+		parts = append(parts, fmt.Sprintf("#%d %+.2f (%s; %s from the lines alone; %s)", c.Rank, ev.LogBayes, lines, report.Percent(ev.Prior), fit))
 	}
 	if first == nil || first.Rwp == 0 || len(parts) == 0 {
 		return ""
