@@ -7,9 +7,10 @@ import (
 )
 
 // longUnderRace skips a test whose work is one long numerical run under
-// the race detector, which slows it tenfold: the same code paths run
-// concurrently in the package's shorter tests (TestBlind, TestReweigh,
-// TestSecondPhase), and make unit runs the skipped test in full.
+// the race detector, which slows execution 2 to 20 times (the Go race
+// detector's documentation): the same code paths run concurrently in
+// the package's shorter tests (TestBlind, TestReweigh, TestSecondPhase),
+// and make unit runs the skipped test in full.
 func longUnderRace(t *testing.T) {
 	t.Helper()
 	if race.Enabled {
