@@ -583,14 +583,18 @@ func solutionOf(k0 *cand, all, first []obs, o Options) Solution {
 func (res *Result) list(ranked []*cand, first, all []obs, o Options) {
 	probs := probabilities(ranked, all, spanOf(o, all))
 	for i, k := range ranked {
-		if len(res.Solutions) == o.MaxSolutions {
-			break
-		}
 		// Two cands of one lattice can refine to one cell: it is
 		// listed once, at the better rank (cells within 2e-3, the
 		// relative spread within which the ranking takes calculated
 		// lines for one, see clustersOf), with the probability of
-		// both (each is a description of the one lattice).
+		// both (each is a description of the one lattice), also when
+		// the other is ranked after the list is full.
+		if len(res.Solutions) == o.MaxSolutions {
+			if j := slices.IndexFunc(res.Solutions, func(s Solution) bool { return sameCell(s.Cell, k.whole.c, 2e-3) }); j >= 0 {
+				res.Solutions[j].Probability += probs[i]
+			}
+			continue
+		}
 		sol := solutionOf(k, all, first, o)
 		sol.Probability, sol.LogEvidence = probs[i], k.ev.logE()
 		if sp := k.ev.splitUsed; sp != nil && len(k.ev.demanding) > 0 {
