@@ -42,8 +42,9 @@ const polishMove = 1e-2
 // polish refines the first candidate's cell on every point of the scan
 // (Pawley's method, FitPattern) and keeps the whole pattern's cell for
 // the candidate when that fit converged, stayed on the candidate's
-// lattice and gives the volume no less precisely than the peak
-// positions.
+// lattice, did not cross a higher metric from which the peak positions
+// measured the cell's departure (crossed), and gives the volume no less
+// precisely than the peak positions.
 //
 // Both estimates come from the same counts. The peak positions lose
 // information where lines overlap: a split that the peak search cannot
@@ -85,6 +86,8 @@ func polish(ctx context.Context, a *Analysis, e *Extraction, s Settings) error {
 		c.PolishNote = "the whole-pattern fit gave no esd of the volume; the cell is the one refined on the peak positions"
 	case !cell.SameLattice(ph.Cell, r.Cell, polishMove):
 		c.PolishNote = "the whole-pattern fit moved the cell off its lines; the cell is the one refined on the peak positions"
+	case crossed(r.Cell, r.ESD, ph.Cell):
+		c.PolishNote = "the whole-pattern fit moved the cell across the higher metric from which the peak positions measured its departure; the cell is the one refined on the peak positions"
 	case !(ve <= ve0):
 		c.PolishNote = fmt.Sprintf("the cell is the one refined on the peak positions: its volume esd, %.3g Å³, is below the whole pattern's, %.3g Å³", ve0, ve)
 	default:

@@ -1,0 +1,105 @@
+package analysis
+
+import (
+	"math"
+
+	"reticle/cell"
+)
+
+// crossTol bounds the departures from a higher metric that crossed
+// considers: edges the higher system makes equal within half of
+// polishMove (relative, the largest move polish accepts in d), angles
+// within half a degree. A larger departure splits the lines by more
+// than their widths, and a fit that stays within polishMove cannot
+// reverse it.
+var crossTol = cell.Tolerance{Length: polishMove / 2, Angle: 0.5}
+
+// crossSigmas is how many esds a departure of the cell refined on the
+// peak positions from a higher metric must reach before its sign counts
+// as measured: three, the usual significance (common practice).
+const crossSigmas = 3
+
+// crossed reports whether the whole-pattern fit's cell pc lies nearer
+// the mirror of the cell refined on the peak positions, c with esds e,
+// through a higher metric than c itself, when the peaks measured the
+// departure from that metric (crossSigmas). The mirror departs from the
+// metric as far as c, the other way: G′ = 2·Gₕ − G, Gₕ the reduced
+// metric G symmetrised to the higher system (its best setting within
+// crossTol, cell.Settings). A mirror that is c's own lattice (an
+// orthorhombic cell of a ≈ b, whose mirror only exchanges a and b) is
+// no other answer and is passed over; nearness is the distance of the
+// Niggli-reduced G6 vectors (cell.Reduce).
+//
+// A Pawley fit gives every calculated line an intensity of its own
+// (Pawley 1981), so the components of a line that a small departure
+// splits can trade their intensities, and the fit can converge to the
+// cell that departs as far the other way (a tetragonal cell with c < a
+// and one with c > a share the centroids of their unresolved lines).
+// Where the peaks resolved the split, its sign is measured by them and
+// the fit's reversal is a false minimum.
+func crossed(c cell.Cell, e cell.ESD, pc cell.Cell) bool {
+	red, err := cell.Reduce(c)
+	if err != nil {
+		return false
+	}
+	g := red.G6.Metric()
+	p, s := c.Params(), e.Values()
+	rel := 0.0
+	for i := range 3 {
+		rel = math.Max(rel, s[i]/p[i])
+	}
+	for i := 3; i < 6; i++ {
+		rel = math.Max(rel, s[i]*math.Pi/180)
+	}
+	if !(rel > 0) {
+		return false
+	}
+	ss := cell.NewSettingSearch(red)
+	for _, sys := range []cell.System{cell.Cubic, cell.Tetragonal, cell.Hexagonal, cell.Rhombohedral, cell.Orthorhombic} {
+		if sys.LaueOrder() <= c.System.LaueOrder() {
+			continue
+		}
+		sts := ss.Settings(sys, crossTol)
+		if len(sts) == 0 || sts[0].Misfit < crossSigmas*rel {
+			continue
+		}
+		mi, ok := sts[0].Transform.Inverse()
+		if !ok {
+			continue
+		}
+		gh := sts[0].Cell.Metric().Transform(mi)
+		var gm cell.Matrix
+		for i := range 3 {
+			for j := range 3 {
+				gm[i][j] = 2*gh[i][j] - g[i][j]
+			}
+		}
+		mirror := cell.FromMetric(cell.Triclinic, cell.P, gm)
+		if mirror.Check() != nil || cell.SameLattice(c, mirror, crossSigmas*rel) {
+			continue
+		}
+		dc, ok1 := g6Distance(pc, c)
+		dm, ok2 := g6Distance(pc, mirror)
+		if ok1 && ok2 && dm < dc {
+			return true
+		}
+	}
+	return false
+}
+
+// g6Distance returns the Euclidean distance of the G6 vectors (Å²) of
+// the Niggli-reduced cells of a and b.
+func g6Distance(a, b cell.Cell) (float64, bool) {
+	ra, err1 := cell.Reduce(a)
+	rb, err2 := cell.Reduce(b)
+	if err1 != nil || err2 != nil {
+		return 0, false
+	}
+	x := [6]float64{ra.G6.A, ra.G6.B, ra.G6.C, ra.G6.Xi, ra.G6.Eta, ra.G6.Zeta}
+	y := [6]float64{rb.G6.A, rb.G6.B, rb.G6.C, rb.G6.Xi, rb.G6.Eta, rb.G6.Zeta}
+	d := 0.0
+	for i := range x {
+		d += (x[i] - y[i]) * (x[i] - y[i])
+	}
+	return math.Sqrt(d), true
+}
