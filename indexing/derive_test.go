@@ -8,6 +8,24 @@ import (
 	"reticle/cell"
 )
 
+// settledOn returns the default options, the lines of truth (modelLines
+// to 110° 2θ, Cu K-alpha1, zero offset 0.02°, noise drawn from seed) and
+// the first of them, with the cand of cell c settled on the first lines
+// (windows widened by extra, degrees 2θ), every one indexed; it fails
+// the test when c does not index them.
+func settledOn(t *testing.T, truth, c cell.Cell, seed uint64, extra float64) (Options, []obs, []obs, *cand) {
+	t.Helper()
+	o := Options{Wavelength: cuKa1}.withDefaults()
+	all := prepare(modelLines(truth, cuKa1, 110, nil, 0.02, 0, seed), o)
+	first := all[:min(len(all), o.Lines)]
+	k := &cand{c: c, zero: 0.02, zeroFree: true}
+	if !k.settle(first, cuKa1, extra, len(first)) {
+		t.Fatalf("%v does not index the lines of %v", c, truth)
+	}
+	k.figures(first, cuKa1)
+	return o, all, first, k
+}
+
 // TestDerivativesSubcell: a search that settled on a cell with its c axis
 // doubled (an orthorhombic cell of invented edges, every line of the true
 // cell indexed by the doubled one) is offered the true cell among the
@@ -15,17 +33,9 @@ import (
 // doubled cell's extra lines are never seen.
 func TestDerivativesSubcell(t *testing.T) {
 	truth := cell.Must(cell.Orthorhombic, cell.P, 4.1, 5.3, 6.7)
-	ls := modelLines(truth, cuKa1, 110, nil, 0.02, 0, 3)
-	o := Options{Wavelength: cuKa1}.withDefaults()
-	all := prepare(ls, o)
-	first := all[:min(len(all), o.Lines)]
 	doubled := truth
 	doubled.C *= 2
-	k := &cand{c: doubled, zero: 0.02, zeroFree: true}
-	if !k.settle(first, cuKa1, 0, len(first)) {
-		t.Fatal("the doubled cell does not index the lines")
-	}
-	k.figures(first, cuKa1)
+	o, all, first, k := settledOn(t, truth, doubled, 3, 0)
 	ranked := rankCands([]*cand{k}, first, all, o)
 	want := map[cell.System]bool{cell.Orthorhombic: true, cell.Monoclinic: true, cell.Triclinic: true}
 	more, err := derivatives(context.Background(), ranked, first, all, o, want, len(first)-2)
@@ -44,15 +54,7 @@ func TestDerivativesSubcell(t *testing.T) {
 // which then ranks first.
 func TestDerivativesHigher(t *testing.T) {
 	truth := cell.Must(cell.Orthorhombic, cell.P, 4.1, 5.3, 6.7)
-	ls := modelLines(truth, cuKa1, 110, nil, 0.02, 0, 5)
-	o := Options{Wavelength: cuKa1}.withDefaults()
-	all := prepare(ls, o)
-	first := all[:min(len(all), o.Lines)]
-	k := &cand{c: cell.Must(cell.Monoclinic, cell.P, 4.1, 5.3, 6.7, 90.01), zero: 0.02, zeroFree: true}
-	if !k.settle(first, cuKa1, 0, len(first)) {
-		t.Fatal("the monoclinic cell does not index the lines")
-	}
-	k.figures(first, cuKa1)
+	o, all, first, k := settledOn(t, truth, cell.Must(cell.Monoclinic, cell.P, 4.1, 5.3, 6.7, 90.01), 5, 0)
 	ranked := rankCands([]*cand{k}, first, all, o)
 	want := map[cell.System]bool{cell.Orthorhombic: true, cell.Monoclinic: true}
 	more, err := derivatives(context.Background(), ranked, first, all, o, want, len(first)-2)

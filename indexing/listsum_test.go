@@ -14,22 +14,11 @@ import (
 // before the copy is reached. Cells invented.
 func TestListFoldsLaterDuplicates(t *testing.T) {
 	truth := cell.Must(cell.Orthorhombic, cell.P, 4.1, 5.3, 6.7)
-	ls := modelLines(truth, cuKa1, 110, nil, 0.02, 0, 3)
-	o := Options{Wavelength: cuKa1}.withDefaults()
-	all := prepare(ls, o)
-	first := all[:min(len(all), o.Lines)]
 	doubled := truth
 	doubled.C *= 2
-	var ks []*cand
-	for _, c := range []cell.Cell{truth, doubled} {
-		k := &cand{c: c, zero: 0.02, zeroFree: true}
-		if !k.settle(first, cuKa1, screenExtra, len(first)) {
-			t.Fatalf("%v does not index the lines", c)
-		}
-		k.figures(first, cuKa1)
-		ks = append(ks, k)
-	}
-	ranked := rankCands(ks, first, all, o)
+	o, all, first, k := settledOn(t, truth, truth, 3, screenExtra)
+	_, _, _, kd := settledOn(t, truth, doubled, 3, screenExtra)
+	ranked := rankCands([]*cand{k, kd}, first, all, o)
 	if len(ranked) != 2 || !sameCell(ranked[0].whole.c, truth, 1e-3) {
 		t.Fatalf("ranked %d cells, first %v; want 2, first %v", len(ranked), ranked[0].whole.c, truth)
 	}
