@@ -7,11 +7,15 @@ import (
 )
 
 // crossTol bounds the departures from a higher metric that crossed
-// considers: edges the higher system makes equal within half of
-// polishMove (relative, the largest move polish accepts in d), angles
-// within half a degree. A larger departure splits the lines by more
-// than their widths, and a fit that stays within polishMove cannot
-// reverse it.
+// considers. polish accepts a whole-pattern cell whose Niggli-reduced
+// G6 terms moved by up to polishMove of their mean edge term
+// (cell.SameLattice); reversing a departure δ (relative) of an edge
+// moves its term a² by about 4δ·a², and reversing a departure of ε
+// radians in an angle moves its term 2bc·cos α by about 4ε·bc, so polish
+// can reverse edges within polishMove/4 and angles within about
+// polishMove/4 radians (0.14°). The bounds, polishMove/2 and half a
+// degree, are at least twice those: a larger departure cannot have been
+// reversed by a cell that polish keeps.
 var crossTol = cell.Tolerance{Length: polishMove / 2, Angle: 0.5}
 
 // crossSigmas is how many esds a departure of the cell refined on the
