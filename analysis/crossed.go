@@ -32,7 +32,7 @@ const crossSigmas = 3
 // crossTol, cell.Settings). A mirror that is c's own lattice (an
 // orthorhombic cell of a ≈ b, whose mirror only exchanges a and b) is
 // no other answer and is passed over; nearness is the distance of the
-// Niggli-reduced G6 vectors (cell.Reduce).
+// Niggli-reduced G6 vectors (cell.Reduce, G6.Distance).
 //
 // A Pawley fit gives every calculated line an intensity of its own
 // (Pawley 1981), so the components of a line that a small departure
@@ -55,7 +55,8 @@ func crossed(c cell.Cell, e cell.ESD, pc cell.Cell) bool {
 	for i := 3; i < 6; i++ {
 		rel = math.Max(rel, s[i]*math.Pi/180)
 	}
-	if !(rel > 0) {
+	rp, err := cell.Reduce(pc)
+	if err != nil || !(rel > 0) {
 		return false
 	}
 	ss := cell.NewSettingSearch(red)
@@ -82,28 +83,9 @@ func crossed(c cell.Cell, e cell.ESD, pc cell.Cell) bool {
 		if mirror.Check() != nil || cell.SameLattice(c, mirror, crossSigmas*rel) {
 			continue
 		}
-		dc, ok1 := g6Distance(pc, c)
-		dm, ok2 := g6Distance(pc, mirror)
-		if ok1 && ok2 && dm < dc {
+		if rm, err := cell.Reduce(mirror); err == nil && rp.G6.Distance(rm.G6) < rp.G6.Distance(red.G6) {
 			return true
 		}
 	}
 	return false
-}
-
-// g6Distance returns the Euclidean distance of the G6 vectors (Å²) of
-// the Niggli-reduced cells of a and b.
-func g6Distance(a, b cell.Cell) (float64, bool) {
-	ra, err1 := cell.Reduce(a)
-	rb, err2 := cell.Reduce(b)
-	if err1 != nil || err2 != nil {
-		return 0, false
-	}
-	x := [6]float64{ra.G6.A, ra.G6.B, ra.G6.C, ra.G6.Xi, ra.G6.Eta, ra.G6.Zeta}
-	y := [6]float64{rb.G6.A, rb.G6.B, rb.G6.C, rb.G6.Xi, rb.G6.Eta, rb.G6.Zeta}
-	d := 0.0
-	for i := range x {
-		d += (x[i] - y[i]) * (x[i] - y[i])
-	}
-	return math.Sqrt(d), true
 }

@@ -328,3 +328,20 @@ func TestSublattices(t *testing.T) {
 		}
 	}
 }
+
+// TestG6Distance: the Euclidean distance of Gruber vectors, worked by
+// hand (a 3-4-5 triangle in two components, and no distance to itself).
+func TestG6Distance(t *testing.T) {
+	for _, tc := range []struct {
+		v, w G6
+		want float64
+	}{
+		{G6{A: 9, B: 9, C: 9}, G6{A: 9, B: 9, C: 9}, 0},
+		{G6{A: 10, B: 12, C: 14, Xi: 1}, G6{A: 13, B: 12, C: 14, Xi: 5}, 5},
+		{G6{Eta: -2}, G6{Zeta: 2}, 2 * math.Sqrt2},
+	} {
+		if got := tc.v.Distance(tc.w); math.Abs(got-tc.want) > 1e-12 {
+			t.Errorf("%+v to %+v: %g, want %g", tc.v, tc.w, got, tc.want)
+		}
+	}
+}

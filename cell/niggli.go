@@ -18,6 +18,19 @@ func G6Of(g Matrix) G6 {
 	return G6{g[0][0], g[1][1], g[2][2], 2 * g[1][2], 2 * g[0][2], 2 * g[0][1]}
 }
 
+// Vector returns the six components in the order A, B, C, Xi, Eta, Zeta.
+func (v G6) Vector() [6]float64 { return [6]float64{v.A, v.B, v.C, v.Xi, v.Eta, v.Zeta} }
+
+// Distance returns the Euclidean distance of two vectors, Å².
+func (v G6) Distance(w G6) float64 {
+	x, y := v.Vector(), w.Vector()
+	d := 0.0
+	for i := range x {
+		d += (x[i] - y[i]) * (x[i] - y[i])
+	}
+	return math.Sqrt(d)
+}
+
 // Metric returns the metric tensor of the vector.
 func (v G6) Metric() Matrix {
 	return Matrix{
@@ -198,8 +211,7 @@ func SameLattice(a, b Cell, tol float64) bool {
 		return false
 	}
 	s := (ra.G6.A + ra.G6.B + ra.G6.C) / 3
-	x := [6]float64{ra.G6.A, ra.G6.B, ra.G6.C, ra.G6.Xi, ra.G6.Eta, ra.G6.Zeta}
-	y := [6]float64{rb.G6.A, rb.G6.B, rb.G6.C, rb.G6.Xi, rb.G6.Eta, rb.G6.Zeta}
+	x, y := ra.G6.Vector(), rb.G6.Vector()
 	for i := range x {
 		if math.Abs(x[i]-y[i]) > tol*s {
 			return false

@@ -589,10 +589,11 @@ func (res *Result) list(ranked []*cand, first, all []obs, o Options) {
 		// lines for one, see clustersOf), with the probability of
 		// both (each is a description of the one lattice), also when
 		// the other is ranked after the list is full.
+		if j := slices.IndexFunc(res.Solutions, func(s Solution) bool { return sameCell(s.Cell, k.whole.c, 2e-3) }); j >= 0 {
+			res.Solutions[j].Probability += probs[i]
+			continue
+		}
 		if len(res.Solutions) == o.MaxSolutions {
-			if j := slices.IndexFunc(res.Solutions, func(s Solution) bool { return sameCell(s.Cell, k.whole.c, 2e-3) }); j >= 0 {
-				res.Solutions[j].Probability += probs[i]
-			}
 			continue
 		}
 		sol := solutionOf(k, all, first, o)
@@ -606,10 +607,6 @@ func (res *Result) list(ranked []*cand, first, all []obs, o Options) {
 		if f := k.ev; f.paired && f.partner != nil && f.pairE > f.soloE() {
 			c := f.partner.whole.c
 			sol.SecondPhase, sol.SecondPhaseLines = &c, int(math.Round(f.pairLines))
-		}
-		if j := slices.IndexFunc(res.Solutions, func(s Solution) bool { return sameCell(s.Cell, sol.Cell, 2e-3) }); j >= 0 {
-			res.Solutions[j].Probability += probs[i]
-			continue
 		}
 		res.Solutions = append(res.Solutions, sol)
 	}
