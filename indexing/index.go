@@ -508,11 +508,20 @@ func acceptable(k *cand, explore bool) bool {
 		return false
 	}
 	n := len(k.ref)
-	if n-k.indexed > max(1, n/10) || k.nCalc > 2*n {
+	if leavesLines(k) || k.nCalc > 2*n {
 		return false
 	}
 	lim := math.Max(4*float64(k.dof), (distuv.ChiSquared{K: float64(k.dof)}).Quantile(1-acceptLevel))
 	return k.chi2 <= lim
+}
+
+// leavesLines reports whether the cell k leaves more of the lines it was
+// found from unindexed than one in ten (at least one is allowed): more
+// than a foreign phase's or a spurious line's share on a scan the cell
+// explains.
+func leavesLines(k *cand) bool {
+	n := len(k.ref)
+	return n-k.indexed > max(1, n/10)
 }
 
 // searchedOf lists the systems a two-parameter search covered.

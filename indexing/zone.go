@@ -29,6 +29,9 @@ import (
 //     When one zone holds most of the lines, its third vector is also
 //     found from the lines off it alone (layerLattices): a lattice
 //     with one short edge shows too few of those for a second zone.
+//     When the cells found leave lines unexplained, the zones seen
+//     through a row of orders instead of their reduced basis
+//     (rowZones) are combined as well.
 //  3. Symmetry. Each lattice is Niggli reduced, and its descriptions in
 //     every system whose metric it has within the tolerance of the lines
 //     (cell.Settings) become candidate cells, centred where the setting
@@ -80,6 +83,20 @@ func (z zone) reduce() zone {
 	}
 	z.r = math.Abs(z.r)
 	return z
+}
+
+// key identifies a reduced zone: its basis rounded to parts in 2000.
+func (z zone) key() [3]int64 {
+	return [3]int64{int64(math.Round(math.Log(z.qa) * 2000)), int64(math.Round(math.Log(z.qb) * 2000)), int64(math.Round(z.r / z.qa * 2000))}
+}
+
+// zoneKeys returns the keys of the zones.
+func zoneKeys(zs []zone) map[[3]int64]bool {
+	m := make(map[[3]int64]bool, len(zs))
+	for _, z := range zs {
+		m[z.key()] = true
+	}
+	return m
 }
 
 // zoneQs lists the distinct Q of a zone up to qmax.
@@ -146,7 +163,7 @@ func findZones(qs, ws []float64, minLines int) []zone {
 								continue
 							}
 							z := zone{qa: qa, qb: qb, r: r}.reduce()
-							key := [3]int64{int64(math.Round(math.Log(z.qa) * 2000)), int64(math.Round(math.Log(z.qb) * 2000)), int64(math.Round(z.r / z.qa * 2000))}
+							key := z.key()
 							if seen[key] {
 								continue
 							}
@@ -172,6 +189,82 @@ func findZones(qs, ws []float64, minLines int) []zone {
 		out = out[:zoneKeep]
 	}
 	return out
+}
+
+// rowZones returns the zones, not among seen, that hold a row of
+// the reciprocal lattice whose orders are observed and three points of
+// a parallel row: Ito's construction (Visser 1969) with a row in place
+// of the pair of shortest vectors. findZones takes a zone only from its
+// reduced basis lines; when a long edge's 00l orders crowd the low
+// angles, the other basis line of a zone (h00, or 0k0) may be extinct or
+// too weak to see while the rows beside the 00l row are seen, and the
+// zone is missed.
+//
+// A line Q_a whose second and third orders, 4Q_a and 9Q_a, are observed
+// too is taken as a row's first point a* (two orders besides the first
+// make a row, not a chance coincidence of two lines). Any three lines j,
+// k, l taken as points b*, b* + a*, b* + 2a* of a parallel row satisfy
+// Q_l − 2Q_k + Q_j = 2Q_a, since Q(b* + n·a*) = Q_b + n²Q_a + 2n·r,
+// which gives the product r = (Q_k − Q_j − Q_a)/2. The zones are
+// returned most lines first, at most rowKeep.
+func rowZones(qs, ws []float64, minLines int, seen map[[3]int64]bool) []zone {
+	if seen == nil {
+		seen = map[[3]int64]bool{}
+	}
+	qmax := qs[len(qs)-1] + ws[len(ws)-1]
+	nb := min(zoneBase, len(qs))
+	var out []zone
+	for i := 0; i < nb; i++ {
+		qa, wa := qs[i], ws[i]
+		if !observedAt(qs, ws, 4*qa, 4*wa) || !observedAt(qs, ws, 9*qa, 9*wa) {
+			continue
+		}
+		for j := range qs {
+			for k := range qs {
+				if k == j {
+					continue
+				}
+				want := 2*qa + 2*qs[k] - qs[j]
+				w := 2*wa + 2*ws[k] + ws[j]
+				if !observedAt(qs, ws, want, w) {
+					continue
+				}
+				r := (qs[k] - qs[j] - qa) / 2
+				if !(qa*qs[j]-r*r > 0) {
+					continue
+				}
+				z := zone{qa: qa, qb: qs[j], r: r}.reduce()
+				key := z.key()
+				if seen[key] {
+					continue
+				}
+				seen[key] = true
+				z.n = countIn(z.qs(qmax), qs, ws)
+				if z.n >= minLines {
+					out = append(out, z)
+				}
+			}
+		}
+	}
+	slices.SortStableFunc(out, func(a, b zone) int { return cmp.Compare(b.n, a.n) })
+	return out[:min(len(out), rowKeep)]
+}
+
+// rowKeep is how many zones of rowZones, most lines first, go on to be
+// combined with findZones' own: half as many as zoneKeep, since a row
+// zone is wanted only where a long edge leaves few zones to find.
+const rowKeep = zoneKeep / 2
+
+// observedAt reports whether a line of the sorted qs (windows ws) lies
+// within w of q.
+func observedAt(qs, ws []float64, q, w float64) bool {
+	j := sort.SearchFloat64s(qs, q-w-ws[len(ws)-1])
+	for ; j < len(qs) && qs[j] <= q+w+ws[j]; j++ {
+		if math.Abs(qs[j]-q) <= w+ws[j] {
+			return true
+		}
+	}
+	return false
 }
 
 // A row is a primitive vector of a zone with a vector that completes it
@@ -251,8 +344,8 @@ type scored struct {
 
 // zoneLattices combines pairs of zones into lattices (reciprocal forms in
 // a primitive basis) that index at least need of the lines, and returns
-// the formKeep best.
-func zoneLattices(ctx context.Context, zs []zone, qs, ws []float64, need int, o Options) ([]cell.QForm, error) {
+// the formKeep best. Only pairs whose second zone is zs[from:] are tried.
+func zoneLattices(ctx context.Context, zs []zone, from int, qs, ws []float64, need int, o Options) ([]cell.QForm, error) {
 	qmax := qs[len(qs)-1] + ws[len(ws)-1]
 	var out []scored
 	seen := map[[6]int64]bool{}
@@ -269,7 +362,7 @@ func zoneLattices(ctx context.Context, zs []zone, qs, ws []float64, need int, o 
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
-		for j := i + 1; j < len(zs); j++ {
+		for j := max(i+1, from); j < len(zs); j++ {
 			for _, u := range rowsOf[i] {
 				for _, v := range rowsOf[j] {
 					tol := 2e-3*u.qu + 1e-5

@@ -50,9 +50,17 @@ var lowSystems = []cell.System{cell.Orthorhombic, cell.Monoclinic, cell.Triclini
 // first (BENCHMARKS.md records what it changed). Otherwise every offset of
 // zeros is searched. The lattices of the offsets searched are refined
 // together. tick is called once per offset of zeros, searched or not.
+//
+// When the first cell then leaves more of the first lines, or of all,
+// unindexed than foreign lines would (leavesLines), or none was found,
+// the lattices of rowZones' zones, whose reduced basis
+// lines are not seen, are added at the searched offset nearest the first
+// cell's, and all are ranked again. A search whose cell explains the
+// lines does not need them, and is spared their cost and the chance
+// lattices they add to the list of those refined.
 func zoneSearch(ctx context.Context, first, all []obs, pool []*cand, o Options, want map[cell.System]bool, need int, zeros []float64, tick func()) (ks, ranked []*cand, err error) {
 	searched := zeros[:1]
-	forms, err := zoneForms(ctx, first, o, searched, need, tick)
+	forms, err := zoneForms(ctx, first, o, searched, need, false, tick)
 	if err != nil {
 		return nil, nil, err
 	}
@@ -83,7 +91,7 @@ func zoneSearch(ctx context.Context, first, all []obs, pool []*cand, o Options, 
 		if len(next) == 0 {
 			break
 		}
-		more, err := zoneForms(ctx, first, o, next, need, tick)
+		more, err := zoneForms(ctx, first, o, next, need, false, tick)
 		if err != nil {
 			return nil, nil, err
 		}
@@ -93,14 +101,36 @@ func zoneSearch(ctx context.Context, first, all []obs, pool []*cand, o Options, 
 	for range len(zeros) - len(searched) {
 		tick()
 	}
+	if len(ranked) == 0 || leavesLines(ranked[0]) || ranked[0].whole != nil && leavesLines(ranked[0].whole) {
+		// Lines left unexplained: the zones whose reduced basis
+		// lines are not seen (rowZones) are tried too, at the searched
+		// offset nearest the first cell's.
+		at := 0
+		for i, z := range searched {
+			if len(ranked) > 0 && math.Abs(z-ranked[0].zero) < math.Abs(searched[at]-ranked[0].zero) {
+				at = i
+			}
+		}
+		more, err := zoneForms(ctx, first, o, searched[at:at+1], need, true, func() {})
+		if err != nil {
+			return nil, nil, err
+		}
+		forms[at] = append(forms[at], more[0]...)
+		if ks, err = zoneCands(ctx, first, o, want, need, searched, forms, memo); err != nil {
+			return nil, nil, err
+		}
+		ranked = rankCands(append(pool, ks...), first, all, o)
+	}
 	return ks, ranked, nil
 }
 
 // zoneForms runs the zone method at each of the zero offsets (degrees
 // 2θ), one goroutine each, and returns the lattices (forms) found at each.
 // The windows are widened as in the other searches; each lattice's
-// refinement then finds the offset.
-func zoneForms(ctx context.Context, first []obs, o Options, zeros []float64, need int, tick func()) ([][]cell.QForm, error) {
+// refinement then finds the offset. With rows, it returns instead the
+// lattices that rowZones' zones complete (with a zone of findZones or
+// another of their own).
+func zoneForms(ctx context.Context, first []obs, o Options, zeros []float64, need int, rows bool, tick func()) ([][]cell.QForm, error) {
 	formsAt := make([][]cell.QForm, len(zeros))
 	errs := make([]error, len(zeros))
 	var wg sync.WaitGroup
@@ -115,8 +145,14 @@ func zoneForms(ctx context.Context, first []obs, o Options, zeros []float64, nee
 				ws[i] = dQ(l.tt, l.tol+screenExtra, o.Wavelength)
 			}
 			zs := findZones(qs, ws, 4)
-			formsAt[zi], errs[zi] = zoneLattices(ctx, zs, qs, ws, need, o)
-			formsAt[zi] = append(formsAt[zi], layerLattices(zs, qs, ws, need)...)
+			if rows {
+				if rz := rowZones(qs, ws, 4, zoneKeys(zs)); len(rz) > 0 {
+					formsAt[zi], errs[zi] = zoneLattices(ctx, append(zs, rz...), len(zs), qs, ws, need, o)
+				}
+			} else {
+				formsAt[zi], errs[zi] = zoneLattices(ctx, zs, 0, qs, ws, need, o)
+				formsAt[zi] = append(formsAt[zi], layerLattices(zs, qs, ws, need)...)
+			}
 			tick()
 		}()
 	}
