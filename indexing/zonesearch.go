@@ -53,11 +53,11 @@ var lowSystems = []cell.System{cell.Orthorhombic, cell.Monoclinic, cell.Triclini
 //
 // When the first cell then leaves more of the first lines, or of all,
 // unindexed than foreign lines would (leavesLines), or none was found,
-// the lattices of rowZones' zones, whose reduced basis
-// lines are not seen, are added at the searched offset nearest the first
-// cell's, and all are ranked again. A search whose cell explains the
-// lines does not need them, and is spared their cost and the chance
-// lattices they add to the list of those refined.
+// the lattices of rowZones' zones, whose reduced basis lines are not
+// seen, are added at the searched offset nearest the first cell's, and
+// all are ranked again. A search whose cell explains the lines does not
+// need them, and is spared their cost and the chance lattices they add
+// to the list of those refined.
 func zoneSearch(ctx context.Context, first, all []obs, pool []*cand, o Options, want map[cell.System]bool, need int, zeros []float64, tick func()) (ks, ranked []*cand, err error) {
 	searched := zeros[:1]
 	forms, err := zoneForms(ctx, first, o, searched, need, false, tick)
