@@ -139,6 +139,20 @@ func countIn(cl, qs, ws []float64) int {
 	return n
 }
 
+// tally returns the zone reduced, with the number of lines (Q qs,
+// windows ws) it indexes up to qmax, and whether it is new: not among
+// seen, to which its key is added.
+func tally(z zone, qs, ws []float64, qmax float64, seen map[[3]int64]bool) (zone, bool) {
+	z = z.reduce()
+	key := z.key()
+	if seen[key] {
+		return z, false
+	}
+	seen[key] = true
+	z.n = countIn(z.qs(qmax), qs, ws)
+	return z, true
+}
+
 // findZones returns the zones of the lines (Q qs, windows ws) that index
 // at least minLines of them, best first, at most zoneKeep.
 func findZones(qs, ws []float64, minLines int) []zone {
@@ -162,14 +176,7 @@ func findZones(qs, ws []float64, minLines int) []zone {
 							if 2*r > math.Min(qa, qb)+wab {
 								continue
 							}
-							z := zone{qa: qa, qb: qb, r: r}.reduce()
-							key := z.key()
-							if seen[key] {
-								continue
-							}
-							seen[key] = true
-							z.n = countIn(z.qs(qmax), qs, ws)
-							if z.n >= minLines {
+							if z, ok := tally(zone{qa: qa, qb: qb, r: r}, qs, ws, qmax, seen); ok && z.n >= minLines {
 								out = append(out, z)
 							}
 						}
@@ -212,11 +219,12 @@ func rowZones(qs, ws []float64, minLines int, seen map[[3]int64]bool) []zone {
 		seen = map[[3]int64]bool{}
 	}
 	qmax := qs[len(qs)-1] + ws[len(ws)-1]
+	wmax := slices.Max(ws)
 	nb := min(zoneBase, len(qs))
 	var out []zone
 	for i := 0; i < nb; i++ {
 		qa, wa := qs[i], ws[i]
-		if !observedAt(qs, ws, 4*qa, 4*wa) || !observedAt(qs, ws, 9*qa, 9*wa) {
+		if !observedAt(qs, ws, wmax, 4*qa, 4*wa) || !observedAt(qs, ws, wmax, 9*qa, 9*wa) {
 			continue
 		}
 		for j := range qs {
@@ -226,21 +234,14 @@ func rowZones(qs, ws []float64, minLines int, seen map[[3]int64]bool) []zone {
 				}
 				want := 2*qa + 2*qs[k] - qs[j]
 				w := 2*wa + 2*ws[k] + ws[j]
-				if !observedAt(qs, ws, want, w) {
+				if !observedAt(qs, ws, wmax, want, w) {
 					continue
 				}
 				r := (qs[k] - qs[j] - qa) / 2
 				if !(qa*qs[j]-r*r > 0) {
 					continue
 				}
-				z := zone{qa: qa, qb: qs[j], r: r}.reduce()
-				key := z.key()
-				if seen[key] {
-					continue
-				}
-				seen[key] = true
-				z.n = countIn(z.qs(qmax), qs, ws)
-				if z.n >= minLines {
+				if z, ok := tally(zone{qa: qa, qb: qs[j], r: r}, qs, ws, qmax, seen); ok && z.n >= minLines {
 					out = append(out, z)
 				}
 			}
@@ -255,10 +256,10 @@ func rowZones(qs, ws []float64, minLines int, seen map[[3]int64]bool) []zone {
 // zone is wanted only where a long edge leaves few zones to find.
 const rowKeep = zoneKeep / 2
 
-// observedAt reports whether a line of the sorted qs (windows ws) lies
-// within w of q.
-func observedAt(qs, ws []float64, q, w float64) bool {
-	j := sort.SearchFloat64s(qs, q-w-ws[len(ws)-1])
+// observedAt reports whether a line of the sorted qs (windows ws, the
+// widest wmax) lies within w of q.
+func observedAt(qs, ws []float64, wmax, q, w float64) bool {
+	j := sort.SearchFloat64s(qs, q-w-wmax)
 	for ; j < len(qs) && qs[j] <= q+w+ws[j]; j++ {
 		if math.Abs(qs[j]-q) <= w+ws[j] {
 			return true
